@@ -1,0 +1,392 @@
+"""Running work under a real time limit.
+
+Two tools, for two kinds of work:
+
+* :func:`run_limited` runs a function in a child process and kills it at the
+  deadline.  This is the only reliable way to stop a native call that ignores
+  signals (a python-sat ``solve()`` inside CaDiCaL or Kissat, a numba kernel).
+  The child reports intermediate results through a ``progress`` callable, so a
+  killed child still leaves its best bounds and witness behind.
+* :func:`sat_call` runs one SAT call under a deadline *in this process*, as a
+  series of conflict-budgeted slices (``conf_budget`` + ``solve_limited``),
+  keeping the solver's learned clauses between slices.  It is cheaper than a
+  child process and keeps an incremental solver alive, but a single slice
+  cannot be cut short, so the deadline is met only to within one slice
+  (slices are sized from the measured conflict rate to last at most ~0.25 s).
+
+Process start-up cost
+---------------------
+Children are started from a reusable *forkserver* that has already imported
+numpy, python-sat and this package, so a child costs a fork plus unpickling
+its arguments rather than a fresh interpreter.  Measured on the development
+machine (2 cores, Python 3.11): the first call pays about 0.3-0.6 s to start
+the server; each later call about 10-25 ms (``spawn`` costs 150-300 ms per
+call).  ``benchmarks/cutwidth.py --overhead`` re-measures it.
+
+Solvers and budgets (python-sat 1.9.dev24)
+------------------------------------------
+``conf_budget`` + ``solve_limited`` work for cadical103/153/195, the glucose,
+minisat and maple families and kissat404 (kissat without assumptions);
+lingeling and cryptominisat have no limited solve, so :func:`sat_call` falls
+back to an unbounded call for them only when there is no deadline.
+"""
+
+from __future__ import annotations
+
+import multiprocessing as mp
+import os
+import pickle
+import threading
+import time
+import traceback
+from typing import Any, Callable, Sequence
+
+from ..errors import SweepwidthError, UnsupportedOptionError
+
+__all__ = [
+    "run_limited",
+    "sat_call",
+    "remaining",
+    "ChildProcessError_",
+    "BUDGET_SOLVERS",
+]
+
+#: python-sat solver names whose ``solve_limited`` honours ``conf_budget``.
+BUDGET_SOLVERS = frozenset(
+    {
+        "cadical103", "cadical153", "cadical195",
+        "glucose3", "glucose4", "glucose42", "gluecard3", "gluecard4",
+        "minisat22", "minisatgh", "minicard", "maplesat", "maplecm", "maplechrono",
+        "mergesat3", "kissat404",
+    }
+)
+
+_PRELOAD = ["__main__", "numpy", "pysat.solvers", "sweepwidth.solve._deadline"]
+_CTX_LOCK = threading.Lock()
+_CTX: Any = None
+
+
+class ChildProcessError_(SweepwidthError, RuntimeError):
+    """The child process died without reporting (crash, out of memory, killed from outside).
+
+    Attributes
+    ----------
+    exitcode : int or None
+        The child's exit code (negative: killed by that signal).
+    """
+
+    def __init__(self, message: str, exitcode: int | None = None) -> None:
+        super().__init__(message)
+        self.exitcode = exitcode
+
+
+def remaining(deadline: float | None) -> float:
+    """Seconds left until ``deadline`` (a ``time.monotonic()`` value); inf for None."""
+    if deadline is None:
+        return float("inf")
+    return deadline - time.monotonic()
+
+
+def _context() -> Any:
+    """The shared multiprocessing context (forkserver where available, else spawn)."""
+    global _CTX
+    with _CTX_LOCK:
+        if _CTX is None:
+            if "forkserver" in mp.get_all_start_methods():
+                ctx = mp.get_context("forkserver")
+                try:
+                    ctx.set_forkserver_preload(list(_PRELOAD))
+                except Exception:  # pragma: no cover - exotic platforms
+                    pass
+            else:  # pragma: no cover - Windows / macOS without forkserver
+                ctx = mp.get_context("spawn")
+            _CTX = ctx
+        return _CTX
+
+
+def _child_main(conn: Any, fn: Callable, args: tuple, kwargs: dict) -> None:
+    """Body of the child process: run ``fn`` and send everything back on ``conn``."""
+
+    def progress(obj: Any) -> None:
+        conn.send(("progress", obj))
+
+    try:
+        value = fn(*args, progress=progress, **kwargs)
+    except BaseException as exc:  # noqa: BLE001 - everything goes back to the parent
+        tb = traceback.format_exc()
+        try:
+            payload = pickle.dumps(exc)
+            pickle.loads(payload)  # some exceptions pickle but do not unpickle
+            conn.send(("error", payload, tb))
+        except Exception:
+            conn.send(("error", None, tb + f"\n(unpicklable {type(exc).__name__}: {exc!r})"))
+    else:
+        try:
+            conn.send(("done", value))
+        except Exception as exc:  # value not picklable
+            conn.send(("error", None, f"result of {getattr(fn, '__name__', fn)!r} is not picklable: {exc!r}"))
+    finally:
+        conn.close()
+
+
+def _raise_child_error(payload: bytes | None, tb: str) -> None:
+    if payload is not None:
+        exc = pickle.loads(payload)
+        if hasattr(exc, "add_note"):
+            exc.add_note("raised in the time-limited child process:\n" + tb)
+        raise exc
+    raise ChildProcessError_("the time-limited child raised an exception that cannot be sent back:\n" + tb)
+
+
+def run_limited(
+    fn: Callable[..., Any],
+    args: Sequence[Any] = (),
+    kwargs: dict | None = None,
+    *,
+    deadline: float | None,
+    on_progress: Callable[[Any], None] | None = None,
+) -> tuple[bool, Any, list]:
+    """Run ``fn(*args, progress=callable, **kwargs)`` and stop it at ``deadline``.
+
+    With a deadline the call runs in a child process (from a reusable
+    forkserver); at the deadline the child is killed (SIGKILL), which also
+    stops native code that ignores signals.  Without a deadline it runs in
+    this process.
+
+    Parameters
+    ----------
+    fn : callable
+        A module-level (picklable) function accepting a ``progress`` keyword:
+        ``progress(obj)`` reports an intermediate result (e.g. improved bounds)
+        that survives a kill.  Objects must be picklable.
+    args, kwargs
+        Arguments for ``fn`` (picklable).
+    deadline : float or None
+        A ``time.monotonic()`` value, or None for no limit (in-process run).
+    on_progress : callable, optional
+        Called in the parent with each progress object as it arrives.
+
+    Returns
+    -------
+    finished : bool
+        True when ``fn`` returned before the deadline.
+    value : object or None
+        ``fn``'s return value when finished, else None.
+    progress : list
+        Every progress object reported, in order.
+
+    Raises
+    ------
+    Exception
+        An exception raised by ``fn`` is re-raised here with its own type when
+        it pickles (the child traceback is attached as a note).
+    ChildProcessError_
+        The child died without reporting (crash, out of memory) or raised an
+        exception that cannot be sent back.
+
+    Notes
+    -----
+    Returns within about 0.1 s of the deadline plus the time to kill and reap
+    the child (milliseconds).  A deadline already past returns at once
+    without starting anything.  Start-up cost: see the module docstring.
+
+    Examples
+    --------
+    >>> from sweepwidth.solve._deadline import run_limited
+    >>> def halves(n, *, progress):
+    ...     while n > 1:
+    ...         n //= 2
+    ...         progress(n)
+    ...     return "done"
+    >>> run_limited(halves, (20,), deadline=None)
+    (True, 'done', [10, 5, 2, 1])
+    """
+    kwargs = dict(kwargs or {})
+    reports: list = []
+
+    def record(obj: Any) -> None:
+        reports.append(obj)
+        if on_progress is not None:
+            on_progress(obj)
+
+    if deadline is None:
+        return True, fn(*args, progress=record, **kwargs), reports
+    if time.monotonic() >= deadline:
+        return False, None, reports
+
+    ctx = _context()
+    parent_conn, child_conn = ctx.Pipe(duplex=False)
+    proc = ctx.Process(target=_child_main, args=(child_conn, fn, tuple(args), kwargs), daemon=True)
+    proc.start()
+    child_conn.close()
+    outcome: tuple | None = None
+    try:
+        while outcome is None:
+            left = deadline - time.monotonic()
+            if left <= 0:
+                break
+            try:
+                ready = parent_conn.poll(min(left, 0.1))
+            except (EOFError, OSError):
+                break
+            if not ready:
+                if not proc.is_alive() and not parent_conn.poll(0):
+                    break
+                continue
+            try:
+                msg = parent_conn.recv()
+            except (EOFError, OSError):
+                break
+            if msg[0] == "progress":
+                record(msg[1])
+            else:
+                outcome = msg
+    finally:
+        if proc.is_alive() and outcome is None:
+            proc.kill()
+        proc.join(timeout=2.0)
+        if proc.is_alive():  # pragma: no cover - should not happen after SIGKILL
+            proc.kill()
+            proc.join(timeout=1.0)
+        # messages sent just before the kill
+        try:
+            while outcome is None and parent_conn.poll(0):
+                msg = parent_conn.recv()
+                if msg[0] == "progress":
+                    record(msg[1])
+                else:
+                    outcome = msg
+        except (EOFError, OSError):
+            pass
+        parent_conn.close()
+
+    if outcome is None:
+        code = proc.exitcode
+        if time.monotonic() < deadline - 0.05 and code not in (None, 0) and code != -9:
+            raise ChildProcessError_(
+                f"the time-limited child process died with exit code {code} before reporting a result",
+                exitcode=code,
+            )
+        return False, None, reports
+    if outcome[0] == "done":
+        return True, outcome[1], reports
+    _raise_child_error(outcome[1], outcome[2])
+    raise AssertionError("unreachable")  # pragma: no cover
+
+
+def sat_call(
+    solver: Any,
+    assumptions: Sequence[int] = (),
+    *,
+    deadline: float | None = None,
+    name: str = "",
+    slice_seconds: float = 0.25,
+    stats: dict | None = None,
+) -> bool | None:
+    """One SAT call that gives up at ``deadline``, run as conflict-budgeted slices.
+
+    Parameters
+    ----------
+    solver : pysat.solvers.Solver
+        An incremental solver; it keeps its learned clauses between slices.
+    assumptions : sequence of int
+        Literals assumed for this call.
+    deadline : float or None
+        ``time.monotonic()`` value; None runs one unbounded ``solve``.
+    name : str
+        The solver's python-sat name (to know whether budgets work).
+    slice_seconds : float
+        Target duration of one slice; the conflict budget of the next slice
+        is set from the conflict rate measured so far.
+    stats : dict, optional
+        Updated in place: ``'slices'`` (number of limited calls) and
+        ``'conflicts'`` (conflicts spent in this call).
+
+    Returns
+    -------
+    bool or None
+        The solver's answer, or None when the deadline came first.
+
+    Raises
+    ------
+    UnsupportedOptionError
+        A deadline with a solver that has no limited solve.
+
+    Notes
+    -----
+    Overshoot is at most one slice: slices are sized to ``slice_seconds`` and
+    to a quarter of the time left.  On CaDiCaL 1.9.5 slices of 20 000
+    conflicts cost nothing measurable against one long call; slices of 2 000
+    conflicts cost about 1.5x (each call re-runs its preprocessing).
+
+    Examples
+    --------
+    >>> from pysat.solvers import Solver
+    >>> import time
+    >>> with Solver(name="cadical195", bootstrap_with=[[1, 2], [-1]]) as s:
+    ...     sat_call(s, [2], deadline=time.monotonic() + 5, name="cadical195")
+    True
+    """
+    if stats is None:
+        stats = {}
+    stats.setdefault("slices", 0)
+    stats.setdefault("conflicts", 0)
+
+    def conflicts() -> int:
+        try:
+            return int(solver.accum_stats().get("conflicts", 0))
+        except (NotImplementedError, AttributeError):
+            return 0
+
+    if deadline is None:
+        c0 = conflicts()
+        res = solver.solve(assumptions=list(assumptions))
+        stats["slices"] += 1
+        stats["conflicts"] += conflicts() - c0
+        return bool(res)
+    if name and name not in BUDGET_SOLVERS:
+        raise UnsupportedOptionError(
+            "solver for a time-limited SAT call", name, sorted(BUDGET_SOLVERS)
+        )
+    budget = 2000
+    rate: float | None = None  # conflicts per second
+    while True:
+        left = deadline - time.monotonic()
+        if left <= 0:
+            return None
+        if rate is not None:
+            budget = int(max(200, min(rate * min(slice_seconds, left / 4 + 0.02), 2_000_000)))
+        c0 = conflicts()
+        t0 = time.monotonic()
+        solver.conf_budget(budget)
+        res = solver.solve_limited(assumptions=list(assumptions))
+        dt = time.monotonic() - t0
+        spent = max(1, conflicts() - c0)
+        stats["slices"] += 1
+        stats["conflicts"] += spent
+        if res is not None:
+            return bool(res)
+        # smooth the rate estimate; a slice that hit its budget measures it well
+        r = spent / max(dt, 1e-4)
+        rate = r if rate is None else 0.5 * rate + 0.5 * r
+
+
+def _measure_overhead(calls: int = 5) -> dict:
+    """Seconds per child process (first call separately) for the benchmarks."""
+    out: dict = {}
+    t0 = time.monotonic()
+    run_limited(_noop, deadline=time.monotonic() + 30)
+    out["first"] = time.monotonic() - t0
+    times = []
+    for _ in range(calls):
+        t0 = time.monotonic()
+        run_limited(_noop, deadline=time.monotonic() + 30)
+        times.append(time.monotonic() - t0)
+    times.sort()
+    out["median"] = times[len(times) // 2]
+    return out
+
+
+def _noop(*, progress: Callable[[Any], None]) -> int:
+    progress(1)
+    return os.getpid()
