@@ -400,6 +400,60 @@ class PlaneGraph:
             odd ^= {d >> 1}
         return frozenset(odd)
 
+    def with_weights(self, weights: Sequence[float] | Mapping[int, float]) -> "PlaneGraph":
+        """A copy with new edge weights; the embedding, faces and ids stay the same.
+
+        Parameters
+        ----------
+        weights : sequence or mapping
+            A weight per edge id (a sequence of length ``m``), or a mapping
+            ``{edge id: weight}``; edges missing from a mapping keep theirs.
+
+        Returns
+        -------
+        PlaneGraph
+            A new plane graph (this one is not modified).
+
+        Raises
+        ------
+        WeightError
+            A weight that is negative, NaN, infinite or not a number.
+        InvalidEmbeddingError
+            A sequence of the wrong length or a mapping naming a missing edge.
+
+        Notes
+        -----
+        O(V + E): the rotation and faces are shared, not recomputed.
+
+        Examples
+        --------
+        >>> import networkx as nx
+        >>> P = PlaneGraph.from_graph(nx.cycle_graph(3))
+        >>> P.with_weights([1, 2, 3]).face_length(0)
+        6.0
+        """
+        m = len(self._eu)
+        if isinstance(weights, Mapping):
+            w = list(self._w)
+            for e, x in weights.items():
+                if not (isinstance(e, (int, np.integer)) and 0 <= e < m):
+                    raise InvalidEmbeddingError(f"weight given for edge {e!r}, which is not an edge id in 0..{m - 1}")
+                w[int(e)] = check_weight(x, f"edge {e}")
+        else:
+            seq = list(weights)
+            if len(seq) != m:
+                raise InvalidEmbeddingError(f"{m} edges but {len(seq)} weights")
+            w = [check_weight(x, f"edge {e}") for e, x in enumerate(seq)]
+        new = object.__new__(PlaneGraph)
+        for slot in PlaneGraph.__slots__:
+            setattr(new, slot, getattr(self, slot))
+        new._w = w
+        new.meta = dict(self.meta)
+        new.pos = dict(self.pos) if self.pos is not None else None
+        if self.face_to_primal_vertex is not None:
+            new.face_to_primal_vertex = dict(self.face_to_primal_vertex)
+        return new
+
     # ------------------------------------------------------------- exports
     def to_networkx(self) -> nx.MultiGraph:
         """A MultiGraph keyed by edge id, with ``weight`` and ``id`` on edges, ``pos`` on nodes."""
