@@ -2,11 +2,24 @@
 
 Solvers in :mod:`sweepwidth.solve` receive an :class:`OrderingProblem`, never a
 networkx graph: the conversion and every check happen once, here.
+
+Pinned ends
+-----------
+With ``first = A`` and ``last = B`` an ordering must list ``A`` (in any order)
+before every other vertex and ``B`` after every other vertex, and its width is
+the largest cut over the prefixes ``S`` with ``A <= S <= V - B``, that is over
+the prefix sizes ``|A|, ..., n - |B|``.  Cuts inside ``A`` or inside ``B`` are
+not counted: ``A`` behaves as one start vertex, ``B`` as one end vertex.  The
+first counted cut is the full boundary ``w(delta(A))`` and the last one is
+``w(delta(B))``.  :meth:`OrderingProblem.contract_pins` turns any problem into an
+equivalent one whose pinned sets have at most one vertex each, so solvers only
+ever meet single pinned vertices (where both readings agree).
 """
 
 from __future__ import annotations
 
-from dataclasses import dataclass
+from dataclasses import dataclass, field
+from fractions import Fraction
 from typing import Any, Callable, Hashable, Iterable, Sequence
 
 import networkx as nx
@@ -15,7 +28,7 @@ import numpy as np
 from .._weights import check_weight, weight_function
 from ..errors import SweepwidthError, UnsupportedOptionError
 
-__all__ = ["OrderingProblem"]
+__all__ = ["OrderingProblem", "PinContraction"]
 
 
 def _as_set(x: Any, G: nx.Graph, what: str) -> frozenset:
@@ -123,20 +136,106 @@ class OrderingProblem:
             adj[v][u] = w
         return adj
 
+    def cut_profile(self, order: Sequence[int]) -> np.ndarray:
+        """Cut weights after each prefix: entry ``i`` is the cut after ``i`` vertices.
+
+        Returns an array of length ``n + 1`` (entries 0 and n are 0).
+        """
+        n = self.n
+        pos = np.empty(n, dtype=np.int64)
+        pos[np.asarray(order, dtype=np.int64)] = np.arange(n)
+        diff = np.zeros(n + 2)
+        if self.m:
+            a = pos[self.edges[:, 0]]
+            b = pos[self.edges[:, 1]]
+            np.add.at(diff, np.minimum(a, b) + 1, self.weights)
+            np.add.at(diff, np.maximum(a, b) + 1, -self.weights)
+        return np.cumsum(diff)[: n + 1]
+
     def width(self, order: Sequence[int]) -> float:
-        """Width of an ordering of ``0..n-1`` (pins not checked here)."""
-        pos = np.empty(self.n, dtype=np.int64)
-        pos[np.asarray(order, dtype=np.int64)] = np.arange(self.n)
-        if self.m == 0 or self.n < 2:
+        """Width of an ordering of ``0..n-1``: the largest counted cut.
+
+        Counted cuts are those after ``|first|, ..., n - |last|`` vertices (see
+        the module notes); whether ``order`` respects the pins is not checked.
+        """
+        if self.n == 0:
             return 0.0
-        a = pos[self.edges[:, 0]]
-        b = pos[self.edges[:, 1]]
-        lo = np.minimum(a, b)
-        hi = np.maximum(a, b)
-        diff = np.zeros(self.n + 1)
-        np.add.at(diff, lo, self.weights)
-        np.add.at(diff, hi, -self.weights)
-        return float(np.max(np.cumsum(diff)[: self.n - 1])) if self.n > 1 else 0.0
+        prof = self.cut_profile(order)
+        lo = len(self.first)
+        hi = self.n - len(self.last)
+        if lo > hi:
+            return 0.0
+        return float(np.max(prof[lo : hi + 1]))
+
+    def respects_pins(self, order: Sequence[int]) -> bool:
+        """True when ``order`` starts with ``first`` and ends with ``last``."""
+        k, l = len(self.first), len(self.last)
+        order = list(order)
+        return set(order[:k]) == set(self.first) and (l == 0 or set(order[-l:]) == set(self.last))
+
+    def degrees(self) -> np.ndarray:
+        """Weighted degree of every vertex (loops excluded)."""
+        d = np.zeros(self.n)
+        if self.m:
+            np.add.at(d, self.edges[:, 0], self.weights)
+            np.add.at(d, self.edges[:, 1], self.weights)
+        return d
+
+    def csr(self) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+        """Adjacency in compressed rows: ``(indptr, indices, weights)``, both directions."""
+        n, m = self.n, self.m
+        if m == 0:
+            return np.zeros(n + 1, dtype=np.int64), np.zeros(0, dtype=np.int64), np.zeros(0)
+        src = np.concatenate([self.edges[:, 0], self.edges[:, 1]])
+        dst = np.concatenate([self.edges[:, 1], self.edges[:, 0]])
+        w = np.concatenate([self.weights, self.weights])
+        idx = np.argsort(src, kind="stable")
+        indptr = np.zeros(n + 1, dtype=np.int64)
+        np.add.at(indptr, src + 1, 1)
+        return np.cumsum(indptr), dst[idx].astype(np.int64), w[idx]
+
+    def to_networkx(self) -> nx.Graph:
+        """The (merged, loop-free) graph on ``0..n-1`` with a ``weight`` attribute."""
+        H = nx.Graph()
+        H.add_nodes_from(range(self.n))
+        for (u, v), w in zip(self.edges.tolist(), self.weights.tolist()):
+            H.add_edge(u, v, weight=w)
+        return H
+
+    def is_forest(self) -> bool:
+        """True when the merged graph has no cycle."""
+        return self.m == self.n - len(self.components())
+
+    def integer_scale(self, max_denominator: int = 1000) -> int | None:
+        """Smallest ``q <= max_denominator`` making every ``q * weight`` an integer, or None.
+
+        Weights are read as exact binary fractions; ``1`` for integral problems.
+        """
+        if self.integral:
+            return 1
+        q = 1
+        for w in np.unique(self.weights).tolist():
+            f = Fraction(w)
+            d = f.denominator
+            if d > max_denominator:
+                return None
+            q = q * d // _gcd(q, d)
+            if q > max_denominator:
+                return None
+        return q
+
+    def scaled(self, factor: float) -> "OrderingProblem":
+        """The same problem with every weight multiplied by ``factor``."""
+        return OrderingProblem(self.labels, self.edges.copy(), self.weights * factor, self.first, self.last)
+
+    def contract_pins(self) -> "PinContraction":
+        """An equivalent problem whose ``first`` and ``last`` have at most one vertex each.
+
+        Every counted cut contains all of ``first`` and none of ``last``, so
+        each pinned set can be merged into one vertex (edges inside it vanish,
+        parallel edges add up) without changing any counted cut.
+        """
+        return PinContraction.build(self)
 
     def components(self) -> list[list[int]]:
         """Vertex sets of the connected components (isolated vertices included)."""
@@ -157,3 +256,68 @@ class OrderingProblem:
             first=frozenset(idx[v] for v in self.first if v in idx),
             last=frozenset(idx[v] for v in self.last if v in idx),
         )
+
+
+def _gcd(a: int, b: int) -> int:
+    while b:
+        a, b = b, a % b
+    return a
+
+
+@dataclass(frozen=True, eq=False)
+class PinContraction:
+    """A problem with its pinned sets merged, and the way back.
+
+    Attributes
+    ----------
+    original : OrderingProblem
+    problem : OrderingProblem
+        Vertices are ``original`` vertices, except that ``first`` (``last``) of
+        more than one vertex became one vertex (the lowest index in the set
+        represents it, ``labels`` keeps that vertex's label).
+    groups : tuple of tuple of int
+        ``groups[i]`` lists the original vertices behind vertex ``i``.
+    """
+
+    original: OrderingProblem
+    problem: OrderingProblem
+    groups: tuple = field(default=())
+
+    @classmethod
+    def build(cls, P: OrderingProblem) -> "PinContraction":
+        if len(P.first) <= 1 and len(P.last) <= 1:
+            return cls(P, P, tuple((i,) for i in range(P.n)))
+        rep = list(range(P.n))
+        for S in (P.first, P.last):
+            if len(S) > 1:
+                r = min(S)
+                for v in S:
+                    rep[v] = r
+        keep = sorted(set(rep))
+        new = {v: i for i, v in enumerate(keep)}
+        groups: list[list[int]] = [[] for _ in keep]
+        for v in range(P.n):
+            groups[new[rep[v]]].append(v)
+        acc: dict[tuple[int, int], float] = {}
+        for (u, v), w in zip(P.edges.tolist(), P.weights.tolist()):
+            a, b = new[rep[u]], new[rep[v]]
+            if a == b:
+                continue
+            key = (a, b) if a < b else (b, a)
+            acc[key] = acc.get(key, 0.0) + w
+        keys = sorted(acc)
+        Q = OrderingProblem(
+            labels=tuple(P.labels[v] for v in keep),
+            edges=np.array(keys, dtype=np.int64).reshape(-1, 2),
+            weights=np.array([acc[k] for k in keys], dtype=np.float64),
+            first=frozenset(new[rep[v]] for v in P.first),
+            last=frozenset(new[rep[v]] for v in P.last),
+        )
+        return cls(P, Q, tuple(tuple(g) for g in groups))
+
+    def expand(self, order: Sequence[int]) -> list[int]:
+        """An ordering of the original vertices from one of the contracted problem."""
+        out: list[int] = []
+        for i in order:
+            out.extend(self.groups[int(i)])
+        return out

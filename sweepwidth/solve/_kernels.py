@@ -1,0 +1,369 @@
+"""Compiled inner loops for the ordering solvers (numba), with numpy fallbacks.
+
+Every kernel exists twice: a numba-compiled version used when numba imports,
+and a plain numpy / Python version with the same results (slower, and used
+with smaller size limits).  Nothing outside :mod:`sweepwidth.solve` imports
+this module.
+"""
+
+from __future__ import annotations
+
+import numpy as np
+
+try:  # pragma: no cover - depends on the installation
+    import numba
+
+    HAVE_NUMBA = True
+except Exception:  # pragma: no cover
+    numba = None
+    HAVE_NUMBA = False
+
+__all__ = ["HAVE_NUMBA", "csr_with_ids", "edge_betweenness", "subset_dp", "move_pass"]
+
+
+def _jit(fn):
+    if HAVE_NUMBA:
+        return numba.njit(cache=True, nogil=True)(fn)
+    return fn
+
+
+def csr_with_ids(n: int, edges: np.ndarray) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+    """Adjacency in compressed rows with the edge id of every slot."""
+    m = edges.shape[0]
+    src = np.concatenate([edges[:, 0], edges[:, 1]]).astype(np.int64)
+    dst = np.concatenate([edges[:, 1], edges[:, 0]]).astype(np.int64)
+    ids = np.concatenate([np.arange(m), np.arange(m)]).astype(np.int64)
+    order = np.argsort(src, kind="stable")
+    indptr = np.zeros(n + 1, dtype=np.int64)
+    np.add.at(indptr, src + 1, 1)
+    return np.cumsum(indptr), dst[order], ids[order]
+
+
+# ---------------------------------------------------------------- betweenness
+
+
+def _betweenness_py(n, indptr, indices, eid, m):  # pragma: no cover - fallback
+    load = np.zeros(m)
+    for s in range(n):
+        dist = np.full(n, -1, dtype=np.int64)
+        sigma = np.zeros(n)
+        stack = []
+        dist[s] = 0
+        sigma[s] = 1.0
+        queue = [s]
+        head = 0
+        while head < len(queue):
+            v = queue[head]
+            head += 1
+            stack.append(v)
+            for j in range(indptr[v], indptr[v + 1]):
+                w = indices[j]
+                if dist[w] < 0:
+                    dist[w] = dist[v] + 1
+                    queue.append(w)
+                if dist[w] == dist[v] + 1:
+                    sigma[w] += sigma[v]
+        delta = np.zeros(n)
+        for w in reversed(stack):
+            for j in range(indptr[w], indptr[w + 1]):
+                v = indices[j]
+                if dist[v] == dist[w] - 1:
+                    c = sigma[v] / sigma[w] * (1.0 + delta[w])
+                    load[eid[j]] += c
+                    delta[v] += c
+    return load
+
+
+@_jit
+def _betweenness_nb(n, indptr, indices, eid, m):  # pragma: no cover - compiled
+    load = np.zeros(m)
+    dist = np.empty(n, dtype=np.int64)
+    sigma = np.empty(n)
+    delta = np.empty(n)
+    queue = np.empty(n, dtype=np.int64)
+    for s in range(n):
+        for i in range(n):
+            dist[i] = -1
+            sigma[i] = 0.0
+            delta[i] = 0.0
+        dist[s] = 0
+        sigma[s] = 1.0
+        queue[0] = s
+        head = 0
+        tail = 1
+        while head < tail:
+            v = queue[head]
+            head += 1
+            for j in range(indptr[v], indptr[v + 1]):
+                w = indices[j]
+                if dist[w] < 0:
+                    dist[w] = dist[v] + 1
+                    queue[tail] = w
+                    tail += 1
+                if dist[w] == dist[v] + 1:
+                    sigma[w] += sigma[v]
+        for q in range(tail - 1, -1, -1):
+            w = queue[q]
+            for j in range(indptr[w], indptr[w + 1]):
+                v = indices[j]
+                if dist[v] == dist[w] - 1:
+                    c = sigma[v] / sigma[w] * (1.0 + delta[w])
+                    load[eid[j]] += c
+                    delta[v] += c
+    return load
+
+
+def edge_betweenness(n: int, indptr: np.ndarray, indices: np.ndarray, eid: np.ndarray, m: int) -> np.ndarray:
+    """Shortest-path (hop count) load of every edge, pairs routed from both ends.
+
+    Each ordered pair ``(s, t)`` sends one unit split evenly over the shortest
+    ``s``-``t`` paths (Brandes' accumulation).  ``O(n m)``.
+    """
+    fn = _betweenness_nb if HAVE_NUMBA else _betweenness_py
+    return fn(n, indptr, indices, eid, m)
+
+
+# ---------------------------------------------------------------- subset DP
+
+
+@_jit
+def _subset_dp_nb(k, indptr, indices, wts, deg, base_in, cut0):  # pragma: no cover - compiled
+    size = 1 << k
+    cut = np.empty(size)
+    best = np.empty(size)
+    cut[0] = cut0
+    best[0] = cut0
+    for S in range(1, size):
+        low = S & (-S)
+        v = 0
+        while (1 << v) != low:
+            v += 1
+        inside = base_in[v]
+        rest = S ^ low
+        for j in range(indptr[v], indptr[v + 1]):
+            u = indices[j]
+            if (rest >> u) & 1:
+                inside += wts[j]
+        c = cut[rest] + deg[v] - 2.0 * inside
+        cut[S] = c
+        m = np.inf
+        T = S
+        while T:
+            b = T & (-T)
+            x = best[S ^ b]
+            if x < m:
+                m = x
+            T ^= b
+        best[S] = c if c > m else m
+    return cut, best
+
+
+def _subset_dp_np(k, indptr, indices, wts, deg, base_in, cut0):  # pragma: no cover - fallback
+    size = 1 << k
+    S = np.arange(size, dtype=np.int64)
+    cut = np.full(size, float(cut0))
+    # cut(T + pinned) = cut0 + sum_{v in T} (deg v - 2 base_in v) - 2 * w(inside T)
+    for v in range(k):
+        bit = (S >> v) & 1
+        cut += bit * (deg[v] - 2.0 * base_in[v])
+        for j in range(indptr[v], indptr[v + 1]):
+            u = indices[j]
+            if u > v:
+                cut -= 2.0 * wts[j] * (bit & ((S >> u) & 1))
+    pc = np.zeros(size, dtype=np.int64)
+    for v in range(k):
+        pc += (S >> v) & 1
+    layers = np.argsort(pc, kind="stable")
+    starts = np.searchsorted(pc[layers], np.arange(k + 2))
+    best = np.empty(size)
+    best[0] = cut[0]
+    for level in range(1, k + 1):
+        idx = layers[starts[level] : starts[level + 1]]
+        m = np.full(idx.shape[0], np.inf)
+        for v in range(k):
+            has = ((idx >> v) & 1).astype(bool)
+            cand = np.where(has, best[idx ^ (1 << v)], np.inf)
+            np.minimum(m, cand, out=m)
+        best[idx] = np.maximum(cut[idx], m)
+    return cut, best
+
+
+def subset_dp(k, indptr, indices, wts, deg, base_in, cut0):
+    """Tables ``cut[T]`` and ``best[T]`` over the subsets ``T`` of ``k`` free vertices.
+
+    ``cut[T]`` is the cut of ``T`` plus the pinned first vertex (``cut0`` is
+    that vertex's own cut, ``base_in[v]`` the weight from ``v`` to it), and
+    ``best[T]`` the least width of an ordering of ``T`` after the pinned vertex:
+    ``best[T] = max(cut[T], min_{v in T} best[T - v])``.
+    """
+    fn = _subset_dp_nb if HAVE_NUMBA else _subset_dp_np
+    return fn(k, indptr, indices, wts, deg, base_in, cut0)
+
+
+# ---------------------------------------------------------------- local search
+
+
+@_jit
+def _profile_nb(order, indptr, indices, wts):  # pragma: no cover - compiled
+    n = order.shape[0]
+    pos = np.empty(n, dtype=np.int64)
+    for i in range(n):
+        pos[order[i]] = i
+    diff = np.zeros(n + 2)
+    for i in range(n):
+        v = order[i]
+        for j in range(indptr[v], indptr[v + 1]):
+            pu = pos[indices[j]]
+            if pu > i:
+                diff[i + 1] += wts[j]
+                diff[pu + 1] -= wts[j]
+    prof = np.empty(n + 1)
+    run = 0.0
+    for i in range(n + 1):
+        run += diff[i]
+        prof[i] = run
+    return prof, pos
+
+
+@_jit
+def _move_pass_nb(order, indptr, indices, wts, nf, nl, cand, tol):  # pragma: no cover - compiled
+    """One pass of best single-vertex moves; returns the number of accepted moves.
+
+    The objective is lexicographic: (width, number of counted gaps at the
+    width, total of counted cuts).  ``order`` is changed in place.
+    """
+    n = order.shape[0]
+    lo = nf
+    hi = n - nl
+    prof, pos = _profile_nb(order, indptr, indices, wts)
+    A = np.empty(n)
+    B = np.empty(n)
+    Lv = np.empty(n + 1)
+    pmax = np.empty(n)
+    pcnt = np.empty(n, dtype=np.int64)
+    psum = np.empty(n)
+    smax = np.empty(n + 1)
+    scnt = np.empty(n + 1, dtype=np.int64)
+    ssum = np.empty(n + 1)
+    moves = 0
+    for ci in range(cand.shape[0]):
+        v = cand[ci]
+        p = pos[v]
+        if p < nf or p > n - nl - 1:
+            continue
+        # current objective
+        W = -1.0
+        cnt = 0
+        tot = 0.0
+        for g in range(lo, hi + 1):
+            c = prof[g]
+            tot += c
+            if c > W + tol:
+                W = c
+                cnt = 1
+            elif c > W - tol:
+                cnt += 1
+        deg = 0.0
+        for g in range(n + 1):
+            Lv[g] = 0.0
+        for j in range(indptr[v], indptr[v + 1]):
+            pu = pos[indices[j]]
+            if pu > p:
+                pu -= 1
+            Lv[pu + 1] += wts[j]
+            deg += wts[j]
+        run = 0.0
+        for g in range(n):
+            run += Lv[g]
+            Lv[g] = run
+        for g in range(n):
+            if g <= p:
+                r = prof[g] - Lv[g]
+            else:
+                r = prof[g + 1] - (deg - Lv[g])
+            A[g] = r + Lv[g]
+            B[g] = r + deg - Lv[g]
+        # prefix maxima of A over [lo, q], suffix maxima of B over [q, hi-1]
+        mx = -1.0
+        ct = 0
+        sm = 0.0
+        for g in range(lo, n):
+            c = A[g]
+            sm += c
+            if c > mx + tol:
+                mx = c
+                ct = 1
+            elif c > mx - tol:
+                ct += 1
+            pmax[g] = mx
+            pcnt[g] = ct
+            psum[g] = sm
+        mx = -1.0
+        ct = 0
+        sm = 0.0
+        smax[hi] = -1.0
+        scnt[hi] = 0
+        ssum[hi] = 0.0
+        for g in range(hi - 1, lo - 1, -1):
+            c = B[g]
+            sm += c
+            if c > mx + tol:
+                mx = c
+                ct = 1
+            elif c > mx - tol:
+                ct += 1
+            smax[g] = mx
+            scnt[g] = ct
+            ssum[g] = sm
+        bq = -1
+        bW = W
+        bc = cnt
+        bt = tot
+        for q in range(nf, n - nl):
+            if q == p:
+                continue
+            a = pmax[q]
+            b = smax[q]
+            if a > b + tol:
+                w2 = a
+                c2 = pcnt[q]
+            elif b > a + tol:
+                w2 = b
+                c2 = scnt[q]
+            else:
+                w2 = a
+                c2 = pcnt[q] + scnt[q]
+            t2 = psum[q] + ssum[q]
+            better = False
+            if w2 < bW - tol:
+                better = True
+            elif w2 < bW + tol:
+                if c2 < bc:
+                    better = True
+                elif c2 == bc and t2 < bt - tol:
+                    better = True
+            if better:
+                bq = q
+                bW = w2
+                bc = c2
+                bt = t2
+        if bq >= 0:
+            # move v from p to slot bq of the order without v
+            if bq > p:
+                for i in range(p, bq):
+                    order[i] = order[i + 1]
+                order[bq] = v
+            else:
+                for i in range(p, bq, -1):
+                    order[i] = order[i - 1]
+                order[bq] = v
+            prof, pos = _profile_nb(order, indptr, indices, wts)
+            moves += 1
+    return moves
+
+
+def move_pass(order, indptr, indices, wts, nf, nl, cand, tol=1e-9):
+    """One pass of best single-vertex moves over the vertices ``cand`` (in place)."""
+    if not HAVE_NUMBA:  # pragma: no cover - fallback keeps the pass short
+        cand = cand[: max(1, min(len(cand), 2000000 // max(1, len(order)) // 20))]
+    return _move_pass_nb(order, indptr, indices, wts, nf, nl, cand, tol)

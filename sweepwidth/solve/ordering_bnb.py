@@ -1,0 +1,298 @@
+"""Exact cutwidth by depth-first search over ordering prefixes.
+
+The search answers "is there an ordering of width at most ``k``?" for a
+rising sequence of thresholds ``k``.  A state is the *set* of vertices placed
+so far (an int bitmask): two prefixes with the same set have the same future,
+so a set from which the search failed is remembered and never expanded again.
+
+Reductions, each proven to keep some optimal ordering:
+
+* **free moves** -- if adding ``v`` to the prefix ``S`` does not raise the
+  cut, ``v`` is added at once without branching.  By submodularity of the cut
+  function, ``cut(S + P + v) <= cut(S + P) + cut(S + v) - cut(S) <= cut(S + P)``
+  for every later prefix ``S + P``, so moving ``v`` forward never hurts.
+* **twins** -- vertices with the same weighted neighbourhood are
+  interchangeable; only the first unplaced one of each class is tried.
+* **threshold jumps** -- when the search for ``k`` fails, every ordering has a
+  cut at least the smallest cut value that the search rejected, which is the
+  next threshold (and a proven lower bound).  This also makes real weights
+  exact without any scaling.
+"""
+
+from __future__ import annotations
+
+import sys
+import time
+from typing import Any
+
+import numpy as np
+
+from ..problems.ordering import OrderingProblem
+
+__all__ = ["solve_bnb", "BnbOutcome"]
+
+
+class _OutOfTime(Exception):
+    pass
+
+
+class BnbOutcome:
+    """Bounds and best ordering of a (possibly interrupted) search."""
+
+    __slots__ = ("lower", "upper", "order", "optimal", "stats")
+
+    def __init__(self, lower: float, upper: float, order: list[int], optimal: bool, stats: dict) -> None:
+        self.lower, self.upper, self.order, self.optimal, self.stats = lower, upper, order, optimal, stats
+
+    def __repr__(self) -> str:
+        return f"BnbOutcome(lower={self.lower}, upper={self.upper}, optimal={self.optimal})"
+
+
+def _twin_classes(problem: OrderingProblem) -> np.ndarray:
+    """``rep[v]``: the smallest vertex interchangeable with ``v``.
+
+    Open twins have equal weighted neighbourhoods; closed twins are adjacent
+    and have equal weighted neighbourhoods apart from each other.  Pinned
+    vertices are never twins.
+    """
+    adj = problem.neighbours()
+    n = problem.n
+    rep = np.arange(n)
+    pinned = problem.first | problem.last
+    open_key: dict = {}
+    closed_key: dict = {}
+    for v in range(n):
+        if v in pinned:
+            continue
+        ok = tuple(sorted(adj[v].items()))
+        if ok in open_key:
+            rep[v] = open_key[ok]
+            continue
+        open_key[ok] = v
+        # closed: the neighbourhood with v itself added, weights of the rest
+        for u, w in adj[v].items():
+            if u < v and rep[u] == u and u not in pinned:
+                a_ = {x: y for x, y in adj[u].items() if x != v}
+                b_ = {x: y for x, y in adj[v].items() if x != u}
+                if a_ == b_:
+                    rep[v] = u
+                    break
+    return rep
+
+
+def solve_bnb(
+    problem: OrderingProblem,
+    *,
+    lower: float = 0.0,
+    upper: float | None = None,
+    upper_order: list[int] | None = None,
+    deadline: float | None = None,
+    max_states: int = 4_000_000,
+) -> BnbOutcome:
+    """Exact (pinned) cutwidth by threshold search over prefix sets.
+
+    Parameters
+    ----------
+    problem : OrderingProblem
+        At most one first and one last vertex (``contract_pins`` first).
+    lower : float
+        A proven lower bound to start from.
+    upper, upper_order : optional
+        A known ordering and its width; the search stops when a threshold
+        reaches it.  Without one, the identity ordering (pins respected) is used.
+    deadline : float, optional
+        ``time.monotonic()`` value; the search returns its bounds there.
+    max_states : int
+        Remembered failed sets before the search gives up (bounded result).
+
+    Returns
+    -------
+    BnbOutcome
+        ``lower``, ``upper``, ``order`` (of width ``upper``), ``optimal``,
+        ``stats`` (thresholds tried, states expanded, states remembered).
+
+    Notes
+    -----
+    Worst case ``O(2^n n)`` like the subset DP, but only sets with cuts below
+    the threshold are reached, which on sparse graphs of small cutwidth is a
+    tiny fraction.  Works on disconnected graphs and real weights.
+
+    References
+    ----------
+    Martí, Pantrigo, Duarte and Pardo, "Branch and bound for the cutwidth
+    minimization problem", Computers & Operations Research 40 (2013): plain
+    branch and bound over prefixes; the threshold search and the state memory
+    used here replace its bounding rules.
+
+    Examples
+    --------
+    >>> import networkx as nx
+    >>> out = solve_bnb(OrderingProblem.from_graph(nx.grid_2d_graph(4, 4)))
+    >>> out.upper, out.optimal
+    (5.0, True)
+    """
+    if len(problem.first) > 1 or len(problem.last) > 1:
+        raise ValueError("solve_bnb needs pinned sets of at most one vertex; call contract_pins() first")
+    t0 = time.perf_counter()
+    n = problem.n
+    a = next(iter(problem.first)) if problem.first else None
+    b = next(iter(problem.last)) if problem.last else None
+    if upper_order is None:
+        mid = [v for v in range(n) if v != a and v != b]
+        upper_order = ([a] if a is not None else []) + mid + ([b] if b is not None else [])
+    best_order = list(upper_order)
+    best = problem.width(best_order)
+    if upper is not None and upper < best - 1e-12:
+        raise ValueError("upper does not match the width of upper_order")
+    stats: dict[str, Any] = {"thresholds": [], "expanded": 0, "remembered": 0}
+    if n <= 1 or problem.m == 0:
+        return BnbOutcome(best, best, best_order, True, stats)
+    integral = problem.integral
+    tol = 1e-9 * max(1.0, float(problem.weights.max()))
+    deg = problem.degrees()
+    indptr, indices, wts = problem.csr()
+    nbr = [indices[indptr[v] : indptr[v + 1]] for v in range(n)]
+    nbw = [wts[indptr[v] : indptr[v + 1]] for v in range(n)]
+    rep = _twin_classes(problem)
+    has_twins = bool(np.any(rep != np.arange(n)))
+    full = (1 << n) - 1
+    goal = full if b is None else full ^ (1 << b)
+    final_cut = 0.0 if b is None else float(deg[b])
+    inS = np.zeros(n, dtype=bool)
+    wS = np.zeros(n)
+    counter = [0]
+    sys.setrecursionlimit(max(sys.getrecursionlimit(), 4 * n + 100))
+
+    def place(v: int) -> None:
+        inS[v] = True
+        wS[nbr[v]] += nbw[v]
+
+    def unplace(v: int) -> None:
+        inS[v] = False
+        wS[nbr[v]] -= nbw[v]
+
+    lb = float(lower)
+    if integral:
+        lb = float(np.ceil(lb - tol))
+    lb = max(lb, 0.0)
+    if b is not None:
+        lb = max(lb, final_cut)
+    if a is not None:
+        lb = max(lb, float(deg[a]))
+
+    while best > lb + tol:
+        k = lb
+        failed: set[int] = set()
+        rejected = [np.inf]
+        path: list[int] = []
+        stats["thresholds"].append(k)
+
+        def dfs(S: int, cut: float) -> bool:
+            counter[0] += 1
+            if counter[0] & 1023 == 0 and deadline is not None and time.monotonic() > deadline:
+                raise _OutOfTime
+            added: list[int] = []
+            # free moves
+            while True:
+                delta = deg - 2.0 * wS
+                free = np.nonzero((~inS) & (delta <= tol))[0]
+                if b is not None:
+                    free = free[free != b]
+                if free.shape[0] == 0:
+                    break
+                for v in free.tolist():
+                    if inS[v]:
+                        continue
+                    d = deg[v] - 2.0 * wS[v]
+                    if d <= tol:
+                        place(v)
+                        cut += d
+                        S |= 1 << v
+                        added.append(v)
+            ok = False
+            if S == goal:
+                if final_cut <= k + tol:
+                    path.extend(reversed(added))
+                    return True
+                rejected[0] = min(rejected[0], final_cut)
+            elif S in failed:
+                pass
+            else:
+                delta = deg - 2.0 * wS
+                newcut = cut + delta
+                mask = ~inS
+                if b is not None:
+                    mask[b] = False
+                cand = np.nonzero(mask)[0]
+                over = newcut[cand] > k + tol
+                if over.any():
+                    rejected[0] = min(rejected[0], float(newcut[cand][over].min()))
+                cand = cand[~over]
+                if has_twins and cand.shape[0]:
+                    # keep one unplaced vertex per twin class
+                    seen_rep: set[int] = set()
+                    keep = []
+                    for v in cand.tolist():
+                        r = int(rep[v])
+                        if r in seen_rep:
+                            continue
+                        seen_rep.add(r)
+                        keep.append(v)
+                    cand = np.array(keep, dtype=np.int64)
+                if cand.shape[0]:
+                    # most promising first: smallest next cut, then most weight into S
+                    order_c = cand[np.lexsort((-wS[cand], newcut[cand]))]
+                    for v in order_c.tolist():
+                        place(v)
+                        if dfs(S | (1 << v), float(newcut[v])):
+                            path.append(v)
+                            ok = True
+                            break
+                        unplace(v)
+                    if ok:
+                        path.extend(reversed(added))
+                        # leave S placed: the caller reconstructs from `path`
+                        return True
+                failed.add(S)
+                if len(failed) > max_states:
+                    raise MemoryError
+            for v in reversed(added):
+                unplace(v)
+            return ok
+
+        inS[:] = False
+        wS[:] = 0.0
+        S0 = 0
+        cut0 = 0.0
+        if a is not None:
+            place(a)
+            S0 = 1 << a
+            cut0 = float(deg[a])
+        try:
+            found = dfs(S0, cut0)
+        except _OutOfTime:
+            stats["stopped"] = "time limit"
+            break
+        except MemoryError:
+            stats["stopped"] = f"more than {max_states} remembered states"
+            break
+        finally:
+            stats["remembered"] += len(failed)
+        stats["expanded"] = counter[0]
+        if found:
+            # path holds the vertices in reverse order of the last successful branch
+            order = ([a] if a is not None else []) + path[::-1] + ([b] if b is not None else [])
+            w = problem.width(order)
+            if w < best - tol:
+                best, best_order = w, order
+            break
+        nxt = rejected[0]
+        if not np.isfinite(nxt):  # nothing rejected: cannot happen while best > k
+            break
+        lb = max(lb, float(nxt))
+    stats["expanded"] = counter[0]
+    stats["seconds"] = time.perf_counter() - t0
+    optimal = best <= lb + tol
+    if optimal:
+        lb = best
+    return BnbOutcome(min(lb, best), best, best_order, optimal, stats)
