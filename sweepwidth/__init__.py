@@ -38,7 +38,13 @@ _PUBLIC = {
 __all__ = sorted(_PUBLIC) + ["__version__"]
 
 
+# subpackages reachable as attributes (``sw.io.dumps``) without an explicit import
+_SUBPACKAGES = ("io", "generators", "plane")
+
+
 def __getattr__(name: str) -> Any:
+    if name in _SUBPACKAGES:
+        return importlib.import_module(f"sweepwidth.{name}")
     try:
         module = _PUBLIC[name]
     except KeyError:

@@ -1,0 +1,295 @@
+"""Reading and writing plane graphs and graphs: our JSON document and common exchange formats.
+
+Formats (``format=`` names, file extensions, and what ``read`` returns):
+
+=============  =========================  ==============================================
+name           extensions                 read returns
+=============  =========================  ==============================================
+``json``       ``.json``                  PlaneGraph (``sweepwidth-plane`` document) or a
+                                          networkx graph (``sweepwidth-graph`` document)
+``gr``         ``.gr``                    PlaneGraph when connected and planar, else a
+                                          networkx graph (embedding from networkx)
+``planar_code`` ``.plc``, ``.pc``,        PlaneGraph (the first graph; all graphs with
+               ``.planar_code``           :func:`read_all`)
+``off``        ``.off``                   PlaneGraph (``from_faces``)
+``obj``        ``.obj``                   PlaneGraph (``from_faces``)
+``graphml``    ``.graphml``, ``.xml``     PlaneGraph (rotation, x/y drawing, or networkx
+                                          embedding when connected and planar), else a
+                                          networkx graph
+=============  =========================  ==============================================
+
+``kind='plane'`` forces a PlaneGraph (an error when the file's graph is not
+connected and planar); ``kind='graph'`` always returns a networkx graph
+(a PlaneGraph read from the file is turned into a MultiGraph keyed by edge
+id).  Without ``format=`` the extension decides, and for an unknown
+extension the first bytes of the file do.  The full description of each
+format, including our extensions, is in ``docs/formats.md``.
+
+Examples
+--------
+>>> import networkx as nx, sweepwidth as sw
+>>> P = sw.PlaneGraph.from_graph(nx.cycle_graph(4))
+>>> Q = sw.io.loads(sw.io.dumps(P))
+>>> Q.same_embedding(P)
+True
+"""
+
+from __future__ import annotations
+
+import os
+from typing import Any, Callable
+
+import networkx as nx
+
+from ..errors import FileFormatError, SweepwidthError, UnsupportedOptionError
+from ..plane import PlaneGraph
+from ._common import path_name
+from ._json import dumps, from_document, loads, to_document
+
+__all__ = ["read", "write", "read_all", "dumps", "loads", "to_document", "from_document", "FORMATS", "detect_format"]
+
+#: format name -> file extensions (lower case, with the dot)
+FORMATS: dict[str, tuple[str, ...]] = {
+    "json": (".json",),
+    "gr": (".gr",),
+    "planar_code": (".plc", ".pc", ".planar_code"),
+    "off": (".off",),
+    "obj": (".obj",),
+    "graphml": (".graphml", ".xml"),
+}
+
+_KINDS = ("auto", "plane", "graph")
+
+
+def _by_extension(path: Any) -> str | None:
+    name = str(path_name(path)).lower()
+    for fmt, exts in FORMATS.items():
+        if any(name.endswith(x) for x in exts):
+            return fmt
+    return None
+
+
+def detect_format(data: bytes) -> str | None:
+    """Guess the format from the first bytes of a file (None when nothing fits).
+
+    Examples
+    --------
+    >>> detect_format(b">>planar_code<<")
+    'planar_code'
+    >>> detect_format(b'{"format": "sweepwidth-plane"}')
+    'json'
+    """
+    head = data[:4096]
+    if head.startswith(b">>planar_code"):
+        return "planar_code"
+    text = head.lstrip(b"\xef\xbb\xbf").lstrip()
+    if text.startswith(b"{"):
+        return "json"
+    if text.startswith(b"<"):
+        return "graphml"
+    first = text.split(b"\n", 1)[0].strip()
+    if first[:3] in (b"OFF",) or first[:4] in (b"COFF", b"NOFF") or first[:5] == b"STOFF":
+        return "off"
+    for line in text.splitlines():
+        s = line.strip()
+        if not s:
+            continue
+        if s.startswith(b"p ") or s == b"p":
+            return "gr"
+        if s.startswith((b"v ", b"f ", b"vt ", b"vn ", b"o ", b"g ", b"mtllib", b"usemtl")):
+            return "obj"
+        if s.startswith((b"c ", b"c\t")) or s == b"c":
+            continue  # a .gr comment; keep looking for the header
+        if s.startswith(b"#"):
+            continue
+        break
+    return None
+
+
+def _reader(fmt: str) -> Callable[..., list]:
+    """A function ``(data: bytes, path, **options) -> list of graphs``."""
+    if fmt == "json":
+        return lambda data, path, **kw: [loads(data, path=path, **kw)]
+    if fmt == "gr":
+        from ._gr import read_gr
+
+        return lambda data, path, **kw: [read_gr(data, path=path, **kw)]
+    if fmt == "planar_code":
+        from ._planar_code import read_planar_code
+
+        return read_planar_code
+    if fmt in ("off", "obj"):
+        from ._mesh import read_mesh
+
+        return lambda data, path, **kw: [read_mesh(data, fmt, path=path, **kw)]
+    if fmt == "graphml":
+        from ._graphml import read_graphml
+
+        return lambda data, path, **kw: [read_graphml(data, path=path, **kw)]
+    raise UnsupportedOptionError("format", fmt, list(FORMATS))
+
+
+def _writer(fmt: str) -> Callable[..., bytes]:
+    if fmt == "json":
+        return lambda obj, **kw: dumps(obj, **kw).encode("utf-8")
+    if fmt == "gr":
+        from ._gr import write_gr
+
+        return write_gr
+    if fmt == "planar_code":
+        from ._planar_code import write_planar_code
+
+        return write_planar_code
+    if fmt in ("off", "obj"):
+        from ._mesh import write_mesh
+
+        return lambda obj, **kw: write_mesh(obj, fmt, **kw)
+    if fmt == "graphml":
+        from ._graphml import write_graphml
+
+        return write_graphml
+    raise UnsupportedOptionError("format", fmt, list(FORMATS))
+
+
+def _load(path: Any, format: str | None) -> tuple[bytes, str]:
+    if format is not None and format not in FORMATS:
+        raise UnsupportedOptionError("format", format, list(FORMATS))
+    try:
+        with open(path, "rb") as fh:
+            data = fh.read()
+    except FileNotFoundError:
+        raise FileFormatError("no such file", path=path_name(path)) from None
+    except IsADirectoryError:
+        raise FileFormatError("is a directory, not a file", path=path_name(path)) from None
+    except OSError as err:
+        raise FileFormatError(f"cannot be read: {err.strerror}", path=path_name(path)) from err
+    fmt = format or _by_extension(path) or detect_format(data)
+    if fmt is None:
+        raise FileFormatError(
+            "unknown format: the extension is none of "
+            + ", ".join(x for exts in FORMATS.values() for x in exts)
+            + " and the content matches no format; pass format=",
+            path=path_name(path),
+        )
+    return data, fmt
+
+
+def _as_kind(obj: Any, kind: str, path: Any) -> Any:
+    if kind == "graph":
+        return obj.to_networkx() if isinstance(obj, PlaneGraph) else obj
+    if kind == "plane" and not isinstance(obj, PlaneGraph):
+        from ..errors import InvalidEmbeddingError, NonPlanarError
+
+        try:
+            return PlaneGraph.from_graph(obj, meta=dict(obj.graph))
+        except (NonPlanarError, InvalidEmbeddingError) as err:
+            from ._common import located
+
+            raise located(err, path) from None
+    return obj
+
+
+def read_all(path: str | os.PathLike, *, format: str | None = None, kind: str = "auto", **options: Any) -> list:
+    """Every graph in a file (planar_code files may hold many; other formats hold one).
+
+    Parameters and returns as :func:`read`, but a list.
+    """
+    if kind not in _KINDS:
+        raise UnsupportedOptionError("kind", kind, list(_KINDS))
+    data, fmt = _load(path, format)
+    graphs = _reader(fmt)(data, path, **options)
+    return [_as_kind(g, kind, path) for g in graphs]
+
+
+def read(path: str | os.PathLike, *, format: str | None = None, kind: str = "auto", **options: Any) -> Any:
+    """Read a plane graph (or a graph) from a file.
+
+    Parameters
+    ----------
+    path : str or os.PathLike
+        The file.
+    format : str, optional
+        One of ``FORMATS`` ('json', 'gr', 'planar_code', 'off', 'obj',
+        'graphml'); default: by extension, else by content.
+    kind : {'auto', 'plane', 'graph'}
+        'auto' returns what the file holds (see the module table); 'plane'
+        insists on a PlaneGraph; 'graph' returns a networkx graph.
+    **options
+        Format options: ``mirror=True`` (planar_code: read the neighbour
+        lists as clockwise), ``index`` (planar_code: which graph, default 0),
+        ``weight_column`` (gr), ``outer`` (off/obj: index of the given face
+        that is the outer one, for spheres).
+
+    Returns
+    -------
+    PlaneGraph or networkx.Graph
+        File metadata (name, provenance, curves, holes, known values) is in
+        ``P.meta`` (``G.graph`` for networkx graphs).
+
+    Raises
+    ------
+    FileFormatError
+        The file is missing, unreadable or malformed; the message gives the
+        file, the line (text) or byte offset (binary) and what was expected.
+    InvalidEmbeddingError, NonPlanarError, CrossingEdgesError, WeightError
+        The file is well formed but describes no valid plane graph (message
+        starts with the file name).
+    UnsupportedOptionError
+        Unknown ``format`` or ``kind``.
+
+    Examples
+    --------
+    >>> import networkx as nx, os, tempfile, sweepwidth as sw
+    >>> P = sw.PlaneGraph.from_graph(nx.octahedral_graph())
+    >>> path = os.path.join(tempfile.mkdtemp(), "octahedron.json")
+    >>> sw.write(P, path)
+    >>> sw.read(path).same_embedding(P)
+    True
+    """
+    if kind not in _KINDS:
+        raise UnsupportedOptionError("kind", kind, list(_KINDS))
+    data, fmt = _load(path, format)
+    if fmt == "planar_code":
+        from ._planar_code import read_planar_code
+
+        index = options.pop("index", 0)
+        graphs = read_planar_code(data, path, limit=index + 1, **options)
+        if index >= len(graphs):
+            raise FileFormatError(f"holds {len(graphs)} graphs; graph {index} was asked for", path=path_name(path))
+        return _as_kind(graphs[index], kind, path)
+    return _as_kind(_reader(fmt)(data, path, **options)[0], kind, path)
+
+
+def write(obj: Any, path: str | os.PathLike, *, format: str | None = None, **options: Any) -> None:
+    """Write a plane graph (or a networkx graph) to a file, in the format of its extension.
+
+    Parameters
+    ----------
+    obj : PlaneGraph, networkx.Graph, or a list of PlaneGraph (planar_code)
+    path : str or os.PathLike
+    format : str, optional
+        One of ``FORMATS``; default: by extension.
+    **options
+        Format options: ``mirror`` and ``endian`` (planar_code),
+        ``weight_column`` (gr), ``indent`` (json).
+
+    Raises
+    ------
+    SweepwidthError
+        The object cannot be represented in the format (for example
+        parallel edges in planar_code, or a label JSON cannot hold).
+    UnsupportedOptionError
+        Unknown or undeducible format.
+    """
+    fmt = format or _by_extension(path)
+    if fmt is None:
+        raise UnsupportedOptionError("format (from the file extension)", os.path.splitext(str(path))[1], list(FORMATS))
+    if fmt not in FORMATS:
+        raise UnsupportedOptionError("format", fmt, list(FORMATS))
+    data = _writer(fmt)(obj, **options)
+    try:
+        with open(path, "wb") as fh:
+            fh.write(data)
+    except OSError as err:
+        raise SweepwidthError(f"{path_name(path)}: cannot be written: {err.strerror}") from err
+
