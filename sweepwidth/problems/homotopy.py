@@ -458,10 +458,13 @@ class HomotopyProblem:
         return float(sum(c[d] for d in darts))
 
     def is_simple(self, curve: Curve) -> bool:
-        """A simple cycle (closed) or simple path (open); a point counts as simple."""
+        """A simple cycle (closed) or simple path (open).
+
+        A point is not simple (the rules allow it only as the final curve).
+        """
         w = curve.darts
         if not w:
-            return True
+            return False
         tails = [self.tail[d] for d in w]
         if self.closed:
             if len(set(tails)) != len(tails):
