@@ -1,0 +1,344 @@
+"""Pictures of one embedding: faces, edges, weights, vertices, the outer face and the dual."""
+
+from __future__ import annotations
+
+from typing import Any, Hashable, Iterable, Mapping, Sequence
+
+import numpy as np
+
+from ..errors import SweepwidthError
+from ..plane import PlaneGraph
+from ._layout import Geometry, _bezier2, _bezier3, _unit
+from ._style import LINES, PALETTE, new_figure, require_matplotlib
+
+__all__ = ["draw", "Scene"]
+
+
+def _fmt_weight(w: float) -> str:
+    return str(int(w)) if float(w).is_integer() else f"{w:.3g}"
+
+
+class Scene:
+    """Layered drawing of a plane graph on one Axes; sweep pictures add layers on top.
+
+    Parameters
+    ----------
+    P : PlaneGraph
+    ax : matplotlib Axes
+    geometry : Geometry, optional
+        Reuse the curves of an earlier scene (frames of one sweep share it).
+    """
+
+    # z-orders of the layers, bottom to top
+    Z_FACE, Z_SHADE, Z_EDGE, Z_DUAL, Z_CURVE, Z_MOVE, Z_VERTEX, Z_TEXT = 0, 1, 2, 3, 4, 5, 6, 7
+
+    def __init__(self, P: PlaneGraph, ax: Any, geometry: Geometry | None = None) -> None:
+        self.P = P
+        self.ax = ax
+        self.g = geometry if geometry is not None else Geometry(P)
+        n = P.number_of_vertices()
+        self.vertex_size = float(np.clip(260.0 / np.sqrt(max(n, 1)), 9.0, 90.0))
+
+    # ------------------------------------------------------------ layers
+    def frame(self, margin: float = 0.12, ring: bool = False) -> None:
+        """Limits, aspect and the tinted background that marks the outer face.
+
+        ``ring=True`` makes room for the dual edges that run around the drawing.
+        """
+        ax = self.ax
+        lo, hi = self.g.bounds()
+        pts = [lo, hi]
+        if self.P.number_of_edges():
+            pts.append(self.g.face_point(self.P.outer_face) + np.array([0.0, 0.5 * self.g.scale]))
+        if ring:
+            c, R = self.g.ring()
+            pts += [c - R, c + R]
+        allp = np.vstack(pts)
+        lo, hi = allp.min(axis=0), allp.max(axis=0)
+        span = float(max(hi[0] - lo[0], hi[1] - lo[1], self.g.scale))
+        pad = margin * span + 0.15 * self.g.scale
+        ax.set_xlim(lo[0] - pad, hi[0] + pad)
+        ax.set_ylim(lo[1] - pad, hi[1] + pad)
+        ax.set_aspect("equal", adjustable="box")
+        ax.set_facecolor(PALETTE["outer"])
+        ax.set_xticks([])
+        ax.set_yticks([])
+        for s in ax.spines.values():
+            s.set_visible(False)
+
+    def faces(self, shade: Iterable[int] = (), holes: Iterable[int] = (), fresh: Iterable[int] = ()) -> None:
+        """Fill inner faces white, swept faces pale, holes grey and hatched, fresh faces outlined."""
+        from matplotlib.patches import Polygon
+
+        P = self.P
+        shade, holes, fresh = set(shade), set(holes), set(fresh)
+        for f in P.faces:
+            if f == P.outer_face and f not in shade:
+                continue
+            poly = self.g.face_polygon(f)
+            if len(poly) < 3:
+                continue
+            if f == P.outer_face:
+                # a swept outer face: tint the whole background
+                self.ax.set_facecolor(PALETTE["swept"])
+                continue
+            if f in holes:
+                patch = Polygon(poly, closed=True, facecolor=PALETTE["hole"], edgecolor="none",
+                                hatch="///", zorder=self.Z_SHADE)
+            elif f in shade:
+                patch = Polygon(poly, closed=True, facecolor=PALETTE["swept"], edgecolor="none",
+                                zorder=self.Z_SHADE)
+            else:
+                patch = Polygon(poly, closed=True, facecolor="white", edgecolor="none", zorder=self.Z_FACE)
+            self.ax.add_patch(patch)
+        for f in fresh:
+            if f == P.outer_face:
+                continue
+            poly = self.g.face_polygon(f)
+            if len(poly) >= 3:
+                self.ax.add_patch(Polygon(poly, closed=True, facecolor="none", edgecolor=PALETTE["move"],
+                                          hatch="..", linewidth=0, zorder=self.Z_SHADE))
+
+    def edges(self, weights: bool | str = True, colour: str | None = None, width: float | None = None) -> None:
+        """All edges (curves for parallels and loops) and, optionally, their weights."""
+        from matplotlib.collections import LineCollection
+
+        P = self.P
+        m = P.number_of_edges()
+        if m == 0:
+            return
+        style, lw = LINES["edge"]
+        segs = [self.g.edge_points(e) for e in range(m)]
+        self.ax.add_collection(LineCollection(segs, colors=colour or PALETTE["ink"], linewidths=width or lw,
+                                              linestyles=style, zorder=self.Z_EDGE, capstyle="round"))
+        w = P.weights
+        show = weights == "all" or (weights and not np.all(w == 1.0))
+        if show:
+            fs = float(np.clip(11.0 - 0.04 * m, 5.0, 9.0))
+            for e in range(m):
+                p = self.g.midpoint(e)
+                self.ax.text(p[0], p[1], _fmt_weight(w[e]), fontsize=fs, ha="center", va="center",
+                             color=PALETTE["label"], zorder=self.Z_TEXT,
+                             bbox=dict(boxstyle="round,pad=0.12", fc=PALETTE["weight_box"], ec="none", alpha=0.85))
+
+    def heavy_edges(self, edges: Iterable[int], colour: str | None = None, style: str = "curve") -> None:
+        """Edges drawn heavy: a cut or a Z2 cycle."""
+        from matplotlib.collections import LineCollection
+
+        es = sorted(set(edges))
+        if not es:
+            return
+        ls, lw = LINES[style]
+        segs = [self.g.edge_points(e) for e in es]
+        self.ax.add_collection(LineCollection(segs, colors=colour or PALETTE["curve"], linewidths=lw,
+                                              linestyles=ls, zorder=self.Z_CURVE if style == "curve" else self.Z_MOVE,
+                                              capstyle="round"))
+
+    def vertices(self, labels: bool = False, filled: Iterable[Hashable] = (), mark: Iterable[Hashable] = ()) -> None:
+        """Vertex discs; ``filled`` ones drawn dark (e.g. already placed by an ordering)."""
+        P = self.P
+        filled, mark = set(filled), set(mark)
+        vs = P.vertices
+        xy = np.array([self.g.xy[v] for v in vs])
+        face = [PALETTE["curve"] if v in filled else PALETTE["vertex_face"] for v in vs]
+        size = self.vertex_size * (3.2 if labels else 1.0)
+        self.ax.scatter(xy[:, 0], xy[:, 1], s=size, c=face, edgecolors=PALETTE["vertex_edge"],
+                        linewidths=0.9, zorder=self.Z_VERTEX)
+        if mark:
+            mxy = np.array([self.g.xy[v] for v in vs if v in mark])
+            self.ax.scatter(mxy[:, 0], mxy[:, 1], s=size * 2.6, facecolors="none", edgecolors=PALETTE["move"],
+                            linewidths=2.0, zorder=self.Z_VERTEX)
+        if labels:
+            fs = float(np.clip(10.0 - 0.03 * len(vs), 5.0, 8.5))
+            for v, p in zip(vs, xy):
+                txt = "".join(str(v).split()) if isinstance(v, tuple) else str(v)
+                self.ax.text(p[0], p[1], txt, fontsize=fs, ha="center", va="center", zorder=self.Z_TEXT,
+                             color=PALETTE["ink"] if v not in filled else "white")
+
+    def outer_label(self) -> None:
+        """A small note on the outer face."""
+        P = self.P
+        if P.number_of_edges() == 0:
+            return
+        p = self.g.face_point(P.outer_face)
+        self.ax.text(p[0], p[1] + 0.22 * self.g.scale, "outer face", fontsize=7, style="italic", ha="center",
+                     va="bottom",
+                     color=PALETTE["label"], zorder=self.Z_TEXT)
+
+    def face_labels(self) -> None:
+        for f in self.P.faces:
+            if f == self.P.outer_face:
+                continue
+            p = self.g.face_point(f)
+            self.ax.text(p[0], p[1], f"f{f}", fontsize=6.5, ha="center", va="center", color=PALETTE["dual"],
+                         zorder=self.Z_TEXT)
+
+    def dual_curve(self, e: int) -> np.ndarray:
+        """The dual edge of primal edge ``e``: from the face on its left to the face on its right,
+        crossing ``e`` at its midpoint."""
+        P, g = self.P, self.g
+        fl, fr = P.edge_faces(e)
+        m = g.midpoint(e)
+        a, b = g.face_point(fl), g.face_point(fr)
+        if fl == fr:  # a bridge: a loop through the midpoint
+            t = _unit(g.point_on(2 * e, 0.55) - g.point_on(2 * e, 0.45))
+            out = _unit(m - a)
+            s = 0.45 * g.scale
+            return _bezier3(a, m + out * s + t * s, m + out * s - t * s, a)
+        outer = P.outer_face
+        if outer in (fl, fr):
+            inner_pt = a if fr == outer else b
+            # normal of e pointing into the outer face: left of the dart that has the outer face on its left
+            d = 2 * e if fl == outer else 2 * e + 1
+            nrm = g.dart_normal(d)
+            p1 = m + nrm * 0.25 * g.scale
+            c, R = g.ring()
+            phi1 = float(np.arctan2(p1[1] - c[1], p1[0] - c[0]))
+            phi0 = g.OUTER_ANGLE
+            turn = (phi0 - phi1 + np.pi) % (2 * np.pi) - np.pi
+            steps = max(2, int(abs(turn) / 0.05))
+            arc = [c + R * np.array([np.cos(phi1 + turn * i / steps), np.sin(phi1 + turn * i / steps)])
+                   for i in range(steps + 1)]
+            pts = np.vstack([inner_pt, m, p1] + arc + [g.face_point(outer)])
+            return pts if fr == outer else pts[::-1]
+        c = 2 * m - 0.5 * (a + b)
+        return _bezier2(a, c, b)
+
+    def dual(self) -> None:
+        """The dual overlaid: a vertex in each face, each dual edge crossing its primal edge."""
+        from matplotlib.collections import LineCollection
+
+        P = self.P
+        if P.number_of_edges() == 0:
+            return
+        ls, lw = LINES["dual"]
+        segs = [self.dual_curve(e) for e in range(P.number_of_edges())]
+        self.ax.add_collection(LineCollection(segs, colors=PALETTE["dual"], linewidths=lw, linestyles=ls,
+                                              zorder=self.Z_DUAL))
+        pts = np.array([self.g.face_point(f) for f in P.faces])
+        self.ax.scatter(pts[:, 0], pts[:, 1], marker="D", s=max(self.vertex_size * 0.8, 14.0),
+                        c=PALETTE["dual"], edgecolors="white", linewidths=0.6, zorder=self.Z_DUAL)
+
+
+def _coerce_highlight(P: PlaneGraph, highlight: Any) -> set[int]:
+    if highlight is None:
+        return set()
+    try:
+        items = list(highlight)
+    except TypeError:
+        raise SweepwidthError(f"highlight must be a collection of edge ids, got {highlight!r}") from None
+    m = P.number_of_edges()
+    out = set()
+    for x in items:
+        if isinstance(x, (bool, np.bool_)) or not isinstance(x, (int, np.integer)) or not 0 <= int(x) < m:
+            raise SweepwidthError(f"highlight names {x!r}, which is not an edge id in 0..{m - 1}")
+        out.add(int(x))
+    return out
+
+
+def draw(
+    P: PlaneGraph,
+    *,
+    ax: Any = None,
+    dual: bool = False,
+    weights: bool | str = True,
+    labels: bool = False,
+    highlight: Iterable[int] | None = None,
+    shade: Iterable[int] | None = None,
+    holes: Iterable[int] | None = None,
+    face_labels: bool = False,
+    pos: Mapping[Hashable, Sequence[float]] | None = None,
+    title: str | None = None,
+    figsize: tuple[float, float] = (6.0, 6.0),
+    dpi: float = 100.0,
+) -> Any:
+    """Draw a plane graph: its embedding, weights, outer face and optionally its dual.
+
+    The picture follows the rotation system, not just the graph: parallel
+    edges fan out as arcs in the order the rotation gives them, loops are
+    petals in the angular gap where the rotation puts them (nested loops
+    nested), and the outer face is the tinted background with a note on it.
+    Vertex positions come from ``pos``, else ``P.pos``, else a planar layout
+    computed from the rotation (see :func:`sweepwidth.draw.layout_positions`).
+
+    Parameters
+    ----------
+    P : PlaneGraph
+    ax : matplotlib Axes, optional
+        Draw into it; by default a new Figure (Agg canvas, no pyplot) is made.
+    dual : bool
+        Overlay the dual: a diamond in each face, dashed dual edges each
+        crossing its primal edge at the midpoint.
+    weights : bool or 'all'
+        Label edges with their weights (skipped when every weight is 1,
+        unless ``'all'``).
+    labels : bool
+        Write vertex labels inside the vertex discs.
+    highlight : iterable of int, optional
+        Edge ids drawn heavy.
+    shade : iterable of int, optional
+        Face ids filled as swept.
+    holes : iterable of int, optional
+        Face ids drawn grey and hatched (faces a sweep may not cross).
+    face_labels : bool
+        Write face ids in the faces.
+    pos : mapping, optional
+        Vertex positions overriding ``P.pos``.
+    title : str, optional
+    figsize, dpi
+        Size of a new figure (ignored when ``ax`` is given).
+
+    Returns
+    -------
+    matplotlib.axes.Axes
+        The Axes drawn into; ``ax.figure.savefig(path)`` writes it.
+
+    Raises
+    ------
+    SweepwidthError
+        When matplotlib is missing (install the ``plot`` extra), ``P`` is not a
+        PlaneGraph, or ``highlight``/``shade``/``holes`` name missing edges or faces.
+
+    Notes
+    -----
+    O(n + m) drawing primitives after the layout; face points cost O(length
+    of the face boundary squared) each.
+
+    Examples
+    --------
+    >>> import networkx as nx
+    >>> from sweepwidth.plane import PlaneGraph
+    >>> P = PlaneGraph.from_graph(nx.cycle_graph(4))
+    >>> ax = draw(P, dual=True, labels=True)
+    >>> len(ax.collections) >= 3          # edges, vertices, dual
+    True
+    """
+    require_matplotlib()
+    if not isinstance(P, PlaneGraph):
+        raise SweepwidthError(f"draw expects a PlaneGraph, got {type(P).__name__}")
+    hl = _coerce_highlight(P, highlight)
+    F = P.number_of_faces()
+    sh = set(shade or ())
+    hs = set(holes or ())
+    for name, fs in (("shade", sh), ("holes", hs)):
+        bad = [f for f in fs if not isinstance(f, (int, np.integer)) or not 0 <= f < F]
+        if bad:
+            raise SweepwidthError(f"{name} names {bad[0]!r}, which is not a face id in 0..{F - 1}")
+    if ax is None:
+        fig = new_figure(figsize, dpi)
+        ax = fig.add_axes((0.02, 0.02, 0.96, 0.9 if title else 0.96))
+    geom = Geometry(P, dict(pos) if pos is not None else None)
+    sc = Scene(P, ax, geom)
+    sc.frame(ring=dual)
+    sc.faces(shade=sh, holes=hs)
+    sc.edges(weights=weights)
+    if dual:
+        sc.dual()
+    sc.heavy_edges(hl)
+    sc.vertices(labels=labels)
+    sc.outer_label()
+    if face_labels:
+        sc.face_labels()
+    if title:
+        ax.set_title(title, fontsize=10)
+    return ax
