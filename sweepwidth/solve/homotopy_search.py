@@ -1,0 +1,674 @@
+"""Exact discrete homotopy height by a bottleneck search over walk states.
+
+Definition
+----------
+A *homotopy* of a plane graph moves a closed walk (or a walk with fixed ends)
+by face flips, spikes and unspikes (see the shared curve spec and
+:mod:`sweepwidth.problems.homotopy`); its *height* is the largest length of a
+walk along it, start and end included.  The homotopy height from a start to
+an end condition is the least height of a homotopy between them.
+
+Method
+------
+The walks of a plane graph and the legal moves between them form an infinite
+undirected graph (every move has an inverse move: a flip's inverse is the
+flip of the same face putting the piece back, a spike's is an unspike).  The
+homotopy height is the *bottleneck distance* from the start to the set of
+end states, with the length of a walk as the cost of visiting it.  We run
+Dijkstra's algorithm for bottleneck costs: a state's key is the largest
+length along the best path found to it, and states are settled in order of
+their keys.  When a state with key ``K`` is settled, every state whose
+bottleneck is below ``K`` has already been settled, so ``K`` is a proven
+lower bound; the first end state settled gives the exact height.  This is the
+incremental "is the height at most H?" search for H = 1, 2, ... with all the
+work of the smaller bounds reused, and it only ever touches walks of length
+below the optimum plus the part of the optimal level it needs.
+
+Each ingredient is exact for the definition:
+
+* *Canonical forms.*  A closed walk is stored as its least rotation
+  (:func:`~sweepwidth.solve._walks.least_rotation`): rotations of one closed
+  walk have the same moves up to renumbering positions, so they are one
+  state.  Open walks are stored as they are.
+* *Clamping by a lower bound.*  Keys are ``max(bottleneck, B)`` where ``B`` is
+  a proven lower bound on the optimum: the lengths of the start and end
+  walks, and, when available, the homology width of the same problem
+  (reducing every walk of a homotopy mod 2 gives a homology sweep of no
+  greater width).  Dijkstra on the clamped cost is still exact for the
+  clamped cost, whose optimum is ``max(OPT, B) = OPT``.  Clamping merges all
+  levels below ``B`` into one, so the search never exhausts walks that are
+  shorter than a bound it already knows.
+* *Tie-breaking.*  Within one key the order does not affect exactness; we
+  prefer states whose winding numbers are closest to the end's (the sum of
+  ``|w(f) - w_end(f)|`` is a lower bound on the number of flips left), then
+  shorter walks.  Within the optimal level this makes the search a greedy
+  descent that usually reaches the end state after few settled states.
+* *Strict upper bound.*  With a known homotopy of height ``U`` (passed in or
+  found on the way) walks of length ``>= U`` are never generated: they cannot
+  lie on a strictly better homotopy.  When the key reaches ``U`` the known
+  homotopy is optimal.
+* *Variants.*  ``monotone=True`` adds the set of flipped faces to the state
+  (a face already flipped is never flipped again); ``simple=True`` drops
+  every non-simple walk except an end point; ``spikes=False`` drops spike and
+  unspike moves.  Holes are never flipped.
+
+No other pruning is applied: in particular spikes are not removed eagerly,
+since a homotopy may need a spike that a later flip uses.
+
+Before the exact search a short greedy dive (states ordered by the winding
+estimate alone) usually finds a good homotopy, which gives an upper bound and
+a witness early (useful under a deadline) and enables the strict-bound
+pruning.
+
+References
+----------
+E. W. Dijkstra, "A note on two problems in connexion with graphs",
+Numerische Mathematik 1 (1959) -- with the bottleneck (minimax) path cost.
+K. S. Booth, "Lexicographically least circular substrings", Information
+Processing Letters 10(4), 1980 -- the canonical rotation idea.
+E. W. Chambers, G. R. Chambers, A. de Mesmay, T. Ophelders, R. Rotman,
+"Constructing monotone homotopies and sweepouts", J. Geom. Anal. 2021.
+B. Burton, E. W. Chambers, M. van Kreveld, W. Meulemans, T. Ophelders,
+B. Speckmann, "Computing optimal homotopies over a spiked plane with
+polygonal boundary", ESA 2017 -- discrete homotopies with spikes.
+"""
+
+from __future__ import annotations
+
+import heapq
+import itertools
+import time
+from dataclasses import dataclass, field
+from typing import Any, Callable, Hashable, Sequence
+
+from ..errors import InvalidCurveError, SweepwidthError
+from ._walks import WalkSpace, find_rotation, least_rotation
+
+__all__ = ["SearchOutcome", "search_homotopy", "WalkSpec"]
+
+#: default limit on stored states (each costs a few hundred bytes)
+MAX_STATES = 3_000_000
+
+
+@dataclass
+class SearchOutcome:
+    """What :func:`search_homotopy` proved.
+
+    Attributes
+    ----------
+    lower : float
+        Proven lower bound on the homotopy height.
+    upper : float or None
+        Height of ``witness`` (None when no homotopy is known).
+    witness : dict or None
+        ``{"start": walk_json, "moves": [...]}`` in the shared spec's form.
+    optimal : bool
+        ``lower == upper`` and the witness is optimal.
+    stats : dict
+        'states' (settled), 'generated', 'stored', 'dive_states', 'lower_from',
+        'upper_from', 'reason' (for infeasible or stopped searches), ...
+    """
+
+    lower: float
+    upper: float | None
+    witness: dict | None
+    optimal: bool
+    stats: dict = field(default_factory=dict)
+
+
+@dataclass
+class WalkSpec:
+    """A homotopy problem reduced to what the search needs (vertex indices and darts).
+
+    ``end_darts is None`` means "a point anywhere" (closed walks only);
+    ``end_darts == ()`` with ``end_vertex`` set means that particular point.
+    """
+
+    P: Any
+    start_darts: tuple
+    start_vertex: int
+    end_darts: tuple | None = None
+    end_vertex: int | None = None
+    closed: bool = True
+    holes: frozenset | None = None
+    spikes: bool = True
+    simple: bool = False
+    monotone: bool = False
+    length: str = "weight"
+
+
+def _label_index(P: Any, v: Any) -> int:
+    return P.index(v)
+
+
+def _walk_from(P: Any, w: Any, what: str) -> tuple[tuple, int | None]:
+    """(darts, vertex index or None) from the many shapes a walk may come in."""
+    if w is None:
+        return (), None
+    if isinstance(w, dict):
+        darts = tuple(int(d) for d in w.get("darts", ()))
+        v = w.get("vertex")
+        return darts, (P.index(v) if v is not None else (P.tail_index(darts[0]) if darts else None))
+    if hasattr(w, "darts"):
+        darts = tuple(int(d) for d in w.darts)
+        v = getattr(w, "vertex", None)
+        vi = None
+        if v is not None:
+            vi = v if isinstance(v, int) and not P.has_vertex(v) else P.index(v)
+        if vi is None and darts:
+            vi = P.tail_index(darts[0])
+        return darts, vi
+    darts = tuple(int(d) for d in w)
+    return darts, (P.tail_index(darts[0]) if darts else None)
+
+
+def spec_from_problem(problem: Any) -> WalkSpec:
+    """Read a :class:`~sweepwidth.problems.homotopy.HomotopyProblem` (or a :class:`WalkSpec`)."""
+    if isinstance(problem, WalkSpec):
+        return problem
+    P = getattr(problem, "P", None) or getattr(problem, "graph", None) or getattr(problem, "plane", None)
+    if P is None:
+        raise SweepwidthError(f"expected a HomotopyProblem, got {type(problem).__name__}")
+    sd, sv = _walk_from(P, getattr(problem, "start"), "start")
+    end = getattr(problem, "end", None)
+    if end is None:
+        ed, ev = None, None
+    else:
+        ed, ev = _walk_from(P, end, "end")
+        if not ed and getattr(problem, "end_anywhere", False):
+            ed, ev = None, None
+    closed = bool(getattr(problem, "closed", True))
+    if sv is None:
+        raise InvalidCurveError("the start walk has no vertex")
+    holes = getattr(problem, "holes", None)
+    return WalkSpec(
+        P=P,
+        start_darts=sd,
+        start_vertex=sv,
+        end_darts=ed,
+        end_vertex=ev,
+        closed=closed,
+        holes=frozenset(holes) if holes is not None else None,
+        spikes=bool(getattr(problem, "spikes", True)),
+        simple=bool(getattr(problem, "simple", False)),
+        monotone=bool(getattr(problem, "monotone", False)),
+        length=str(getattr(problem, "length", "weight")),
+    )
+
+
+def _walk_json(sp: WalkSpace, darts: tuple, vertex: int) -> dict:
+    v = sp.tail[darts[0]] if darts else vertex
+    return {"vertex": sp.labels[v], "darts": [int(d) for d in darts]}
+
+
+class _Search:
+    """One search (state bookkeeping shared by the dive and the exact phase)."""
+
+    def __init__(self, spec: WalkSpec, sp: WalkSpace) -> None:
+        self.spec = spec
+        self.sp = sp
+        self.start_key = sp.key_of(spec.start_darts, spec.start_vertex)
+        if spec.end_darts is None:
+            self.goal_key = None
+        else:
+            ev = spec.end_vertex if spec.end_vertex is not None else spec.start_vertex
+            self.goal_key = sp.key_of(spec.end_darts, ev)
+        # winding target for the tie-break estimate
+        F = len(sp.flen)
+        if sp.closed:
+            self.wend = sp.winding(self.goal_key) if self.goal_key is not None else [0] * F
+            self.rev_end = ()
+        else:
+            self.wend = [0] * F
+            ed = spec.end_darts or ()
+            self.rev_end = tuple(d ^ 1 for d in reversed(ed))
+        self.free = [f for f in range(F) if not sp.hole[f]]
+
+    # state = walk key, or (walk key, mask) when monotone
+    def walk(self, state: Any) -> tuple:
+        return state[0] if self.sp.monotone else state
+
+    def is_goal(self, key: tuple) -> bool:
+        if self.goal_key is None:
+            return self.sp.is_point(key)
+        return key == self.goal_key
+
+    def potential_and_winding(self, key: tuple) -> tuple[int, list]:
+        sp = self.sp
+        if sp.closed:
+            wn = sp.winding(key)
+        else:
+            w = sp.darts_of(key) + self.rev_end
+            wn = sp.winding(w if w else sp.point(0))
+        we = self.wend
+        return sum(abs(wn[f] - we[f]) for f in self.free), wn
+
+    def end_length(self) -> Any:
+        if self.goal_key is None:
+            return 1 if self.sp.mode == "vertices" else 0
+        return self.sp.length(self.goal_key)
+
+
+def _invariant_check(search: _Search) -> tuple[bool, str | None, bool]:
+    """(feasible so far, reason, invariant complete) from winding numbers at holes."""
+    sp = search.sp
+    holes = [f for f in range(len(sp.flen)) if sp.hole[f]]
+    if sp.closed:
+        wn = sp.winding(search.start_key)
+        we = search.wend
+    else:
+        spec = search.spec
+
+        def ends(darts: tuple, v: int | None) -> tuple[int, int]:
+            if darts:
+                return sp.tail[darts[0]], sp.head[darts[-1]]
+            v = spec.start_vertex if v is None else v
+            return v, v
+
+        se = ends(spec.start_darts, spec.start_vertex)
+        ee = ends(spec.end_darts or (), spec.end_vertex)
+        if se != ee:
+            return False, (
+                f"the start walk runs {sp.labels[se[0]]!r} -> {sp.labels[se[1]]!r} but the end walk "
+                f"{sp.labels[ee[0]]!r} -> {sp.labels[ee[1]]!r}: open walks keep their ends"
+            ), True
+        w = sp.darts_of(search.start_key) + search.rev_end
+        wn = sp.winding(w if w else sp.point(0))
+        we = [0] * len(sp.flen)
+    complete = len(holes) <= 2
+    if len(holes) >= 2:
+        h0 = holes[0]
+        for h in holes[1:]:
+            if wn[h] - wn[h0] != we[h] - we[h0]:
+                return (
+                    False,
+                    f"the start and end are not homotopic: their winding numbers around hole faces "
+                    f"{h0} and {h} differ by {wn[h] - wn[h0]} and {we[h] - we[h0]}",
+                    True,
+                )
+    return True, None, complete
+
+
+def _run(
+    search: _Search,
+    *,
+    lower: float,
+    upper: float | None,
+    deadline: float | None,
+    max_states: int,
+    greedy: bool,
+    on_upper: Callable[[float, Any, dict], None] | None,
+    on_lower: Callable[[float], None] | None,
+    expand_limit: int | None = None,
+) -> dict:
+    """Best-first search; returns a dict with the outcome of this phase.
+
+    ``greedy=False``: bottleneck Dijkstra with keys clamped at ``lower`` (exact).
+    ``greedy=True``: order by the winding estimate first (a dive for an upper bound).
+    """
+    sp = search.sp
+    monotone = sp.monotone
+    simple = sp.simple
+    length = sp.length
+    closed = sp.closed
+    is_goal = search.is_goal
+    hole = sp.hole
+    outer = sp.outer
+    wend = search.wend
+    start_walk = search.start_key
+    start = (start_walk, 0) if monotone else start_walk
+    f0 = max(length(start_walk), lower)
+    best: dict = {start: f0}
+    parent: dict = {start: None}
+    done: set = set()
+    counter = itertools.count()
+    pot0, _ = search.potential_and_winding(start_walk)
+    heap: list = []
+    if greedy:
+        heap.append((pot0, f0, length(start_walk), 0, start))
+    else:
+        heap.append((f0, pot0, length(start_walk), 0, start))
+    level = f0
+    settled = 0
+    generated = 0
+    found: Any = None  # (height, state)
+    cap = upper  # strict: only walks of length < cap, paths of height < cap
+    reason = None
+    exhausted = False
+    while True:
+        if not heap:
+            exhausted = True
+            break
+        item = heapq.heappop(heap)
+        if greedy:
+            pot, f, _, _, state = item
+        else:
+            f, pot, _, _, state = item
+        if state in done or best.get(state, f) < f:
+            continue
+        if not greedy and f > level:
+            level = f
+            if on_lower is not None:
+                on_lower(level)
+        if cap is not None and f >= cap:
+            if greedy:
+                continue
+            # everything left has key >= cap: the known homotopy is optimal
+            exhausted = True
+            break
+        key = search.walk(state)
+        if is_goal(key):
+            found = (f, state)
+            break
+        done.add(state)
+        settled += 1
+        if (settled & 63) == 0:
+            if deadline is not None and time.monotonic() > deadline:
+                reason = "deadline"
+                break
+            if len(best) > max_states:
+                reason = f"state limit {max_states} reached"
+                break
+            if expand_limit is not None and settled > expand_limit:
+                reason = "dive budget"
+                break
+        mask = state[1] if monotone else 0
+        _, wn = search.potential_and_winding(key)
+        for new, v, move, face, sign in sp.moves(key):
+            generated += 1
+            if face >= 0 and monotone and (mask >> face) & 1:
+                continue
+            if new:
+                nkey = least_rotation(new) if closed else new
+            else:
+                nkey = sp.point(v)
+            nl = length(nkey)
+            if cap is not None and nl >= cap:
+                continue
+            f2 = f if f >= nl else nl
+            if cap is not None and f2 >= cap:
+                continue
+            goal = is_goal(nkey)
+            if simple and not goal and not sp.is_simple(nkey):
+                continue
+            nstate = (nkey, mask | (1 << face) if face >= 0 else mask) if monotone else nkey
+            if nstate in done:
+                continue
+            old = best.get(nstate)
+            if old is not None and old <= f2:
+                continue
+            best[nstate] = f2
+            parent[nstate] = (state, move)
+            if face >= 0 and face != outer:
+                a = wn[face] - wend[face]
+                pot2 = pot - abs(a) + abs(a + sign)
+            else:
+                pot2 = pot
+            if goal:
+                # a complete homotopy of height f2
+                if cap is None or f2 < cap:
+                    cap = f2
+                    if on_upper is not None:
+                        on_upper(f2, nstate, parent)
+                if not greedy and f2 <= f:
+                    found = (f2, nstate)
+                    break
+            c = next(counter)
+            if greedy:
+                heapq.heappush(heap, (pot2, f2, nl, c, nstate))
+            else:
+                heapq.heappush(heap, (f2, pot2, nl, c, nstate))
+        if found is not None:
+            break
+    return {
+        "found": found,
+        "level": level,
+        "exhausted": exhausted,
+        "reason": reason,
+        "settled": settled,
+        "generated": generated,
+        "stored": len(best),
+        "parent": parent,
+        "cap": cap,
+    }
+
+
+def _witness(search: _Search, parent: dict, state: Any) -> dict:
+    """Rebuild the witness (actual dart sequences, positions adjusted to rotations)."""
+    sp = search.sp
+    chain = []
+    s = state
+    while parent[s] is not None:
+        ps, move = parent[s]
+        chain.append((ps, move))
+        s = ps
+    chain.reverse()
+    spec = search.spec
+    A = tuple(spec.start_darts)
+    vert = spec.start_vertex if not A else sp.tail[A[0]]
+    moves = []
+    for ps, move in chain:
+        key = search.walk(ps)
+        mv = dict(move)
+        if sp.closed and not sp.is_point(key):
+            L = len(key)
+            r = find_rotation(A, key)
+            if r < 0:  # pragma: no cover - internal consistency
+                raise SweepwidthError("internal error: witness walk lost track of its state")
+            mv["pos"] = (move["pos"] - r) % L
+        if "put" in mv:
+            mv["put"] = list(mv["put"])
+        moves.append(mv)
+        A, vert2 = sp.apply(A, vert, mv)
+        if A:
+            vert = sp.tail[A[0]]
+        else:
+            vert = vert2
+    return {"start": _walk_json(sp, tuple(spec.start_darts), spec.start_vertex), "moves": moves}
+
+
+def _homology_lower(spec: WalkSpec, deadline: float | None) -> tuple[float | None, str]:
+    """Homology width of the same start, end and holes, when that solver is present."""
+    try:
+        from . import homology as _h  # noqa: F401
+    except ImportError:
+        return None, "homology solver not available"
+    try:
+        fn = _h.homology_width
+        P = spec.P
+        if spec.closed:
+            start = {"vertex": P.label(spec.start_vertex), "darts": list(spec.start_darts)}
+            end = None if spec.end_darts is None else {
+                "vertex": P.label(spec.end_vertex if spec.end_vertex is not None else spec.start_vertex),
+                "darts": list(spec.end_darts),
+            }
+        else:
+            # an open walk and its end close up into one closed walk: sweeping it to nothing
+            w = list(spec.start_darts) + [d ^ 1 for d in reversed(spec.end_darts or ())]
+            if not w:
+                return None, "trivial"
+            start = {"vertex": P.tail(w[0]), "darts": w}
+            end = None
+            return None, "open walks: homology bound not used"
+        if spec.length != "weight":
+            return None, "vertex-count length: homology bound not used"
+        limit = None
+        if deadline is not None:
+            limit = max(0.2, 0.25 * (deadline - time.monotonic()))
+        kw: dict = {"start": start, "end": end}
+        if spec.holes is not None:
+            kw["holes"] = set(spec.holes)
+        if limit is not None:
+            kw["time_limit"] = limit
+        r = fn(P, **kw)
+        if r.status == "infeasible":
+            return None, "homology: infeasible"
+        return (float(r.lower) if r.lower is not None else None), f"homology width ({r.status}, {r.method})"
+    except Exception as err:  # the bound is optional: never let it break the exact search
+        return None, f"homology bound failed: {type(err).__name__}: {err}"
+
+
+def search_homotopy(
+    problem: Any,
+    *,
+    upper: float | None = None,
+    upper_witness: dict | None = None,
+    deadline: float | None = None,
+    progress: Callable[[SearchOutcome], None] | None = None,
+    lower: float | None = None,
+    use_homology: bool = True,
+    dive: int = 4000,
+    max_states: int = MAX_STATES,
+) -> SearchOutcome:
+    """Exact discrete homotopy height by a bottleneck search over walk states.
+
+    Parameters
+    ----------
+    problem : HomotopyProblem or WalkSpec
+        Plane graph, start walk, end condition, holes, variant flags, length mode.
+    upper : float, optional
+        Height of a known homotopy (``upper_witness``); only strictly better
+        homotopies are searched for.
+    upper_witness : dict, optional
+        Witness of ``upper``, returned when nothing better exists.
+    deadline : float, optional
+        A ``time.monotonic()`` value; the best proven bounds are returned by then.
+    progress : callable, optional
+        Called with a :class:`SearchOutcome` whenever a bound improves.
+    lower : float, optional
+        A proven lower bound to clamp the search at (e.g. a homology width).
+    use_homology : bool
+        Ask :func:`sweepwidth.solve.homology.homology_width` for a lower bound
+        first (closed walks, weight length) when that solver is present.
+    dive : int
+        Settled-state budget of the greedy dive for an early upper bound (0: none).
+    max_states : int
+        Stop (with bounds) when this many states are stored.
+
+    Returns
+    -------
+    SearchOutcome
+
+    Raises
+    ------
+    SweepwidthError
+        When ``problem`` is not a homotopy problem.
+
+    Notes
+    -----
+    Exponential in the worst case: the number of walks of length below the
+    optimum reachable from the start.  Each settled state costs
+    ``O(L * (deg + face length) * L)`` for a walk of ``L`` darts.
+
+    Examples
+    --------
+    >>> from sweepwidth.generators import triangulated_grid
+    >>> from sweepwidth.solve.homotopy_search import WalkSpec, search_homotopy
+    >>> P = triangulated_grid(1)                       # a square split into two triangles
+    >>> start = tuple(P.face_darts(P.outer_face))[::-1]
+    >>> start = tuple(d ^ 1 for d in start)             # the boundary, counterclockwise
+    >>> out = search_homotopy(WalkSpec(P, start, P.tail_index(start[0])), use_homology=False)
+    >>> out.optimal, out.upper
+    (True, 4.0)
+    """
+    t0 = time.monotonic()
+    spec = spec_from_problem(problem)
+    sp = WalkSpace.build(
+        spec.P, holes=spec.holes, closed=spec.closed, spikes=spec.spikes, simple=spec.simple,
+        monotone=spec.monotone, length=spec.length,
+    )
+    search = _Search(spec, sp)
+    stats: dict = {"states": 0, "generated": 0, "stored": 0, "dive_states": 0}
+    ok, reason, complete = _invariant_check(search)
+    stats["invariant_complete"] = complete
+    if not ok:
+        stats["reason"] = reason
+        stats["infeasible"] = True
+        return SearchOutcome(lower=float("inf"), upper=None, witness=None, optimal=False, stats=stats)
+
+    lo = max(sp.length(search.start_key), search.end_length())
+    lower_from = "lengths of the start and end walks"
+    if lower is not None and lower > lo:
+        lo, lower_from = lower, "given lower bound"
+    if use_homology:
+        hl, how = _homology_lower(spec, deadline)
+        stats["homology"] = how
+        if hl is not None and hl > lo:
+            lo, lower_from = hl, how
+    state = {"lower": lo, "upper": upper, "witness": upper_witness, "upper_from": "given" if upper is not None else None}
+    stats["lower_from"] = lower_from
+
+    def outcome(optimal: bool) -> SearchOutcome:
+        st = dict(stats)
+        st["upper_from"] = state["upper_from"]
+        st["seconds"] = time.monotonic() - t0
+        up = state["upper"]
+        lw = state["lower"]
+        if up is not None and lw > up:
+            lw = up
+        return SearchOutcome(
+            lower=float(lw), upper=None if up is None else float(up), witness=state["witness"],
+            optimal=optimal, stats=st,
+        )
+
+    def report() -> None:
+        if progress is not None:
+            progress(outcome(False))
+
+    # the start already satisfies the end condition
+    if search.is_goal(search.start_key) and (not spec.monotone or True):
+        h = sp.length(search.start_key)
+        state.update(lower=h, upper=h, upper_from="start is an end state",
+                     witness={"start": _walk_json(sp, spec.start_darts, spec.start_vertex), "moves": []})
+        return outcome(True)
+
+    def on_upper_factory(phase: str) -> Callable:
+        def on_upper(h: float, st_: Any, parent: dict) -> None:
+            if state["upper"] is None or h < state["upper"]:
+                state["upper"] = h
+                state["witness"] = _witness(search, parent, st_)
+                state["upper_from"] = phase
+                report()
+        return on_upper
+
+    def on_lower(v: float) -> None:
+        if v > state["lower"]:
+            state["lower"] = v
+            report()
+
+    if dive and (deadline is None or time.monotonic() < deadline):
+        dl = deadline
+        r = _run(search, lower=lo, upper=state["upper"], deadline=dl, max_states=max_states, greedy=True,
+                 on_upper=on_upper_factory("greedy dive"), on_lower=None, expand_limit=dive)
+        stats["dive_states"] = r["settled"]
+        if r["found"] is not None:
+            h, st_ = r["found"]
+            on_upper_factory("greedy dive")(h, st_, r["parent"])
+        if state["upper"] is not None and state["upper"] <= lo:
+            state["lower"] = state["upper"]
+            return outcome(True)
+    r = _run(search, lower=lo, upper=state["upper"], deadline=deadline, max_states=max_states, greedy=False,
+             on_upper=on_upper_factory("exact search"), on_lower=on_lower)
+    stats["states"] = r["settled"]
+    stats["generated"] = r["generated"]
+    stats["stored"] = r["stored"]
+    if r["found"] is not None:
+        h, st_ = r["found"]
+        if state["upper"] is None or h < state["upper"]:
+            state["upper"] = h
+            state["witness"] = _witness(search, r["parent"], st_)
+            state["upper_from"] = "exact search"
+        state["lower"] = h
+        return outcome(True)
+    if r["exhausted"]:
+        if state["upper"] is not None:
+            state["lower"] = state["upper"]
+            return outcome(True)
+        # finite component without an end state: not homotopic
+        stats["reason"] = "no end state is reachable (all walks reachable from the start were explored)"
+        stats["infeasible"] = True
+        state["lower"] = float("inf")
+        return outcome(False)
+    stats["reason"] = r["reason"]
+    state["lower"] = max(state["lower"], r["level"])
+    return outcome(False)
