@@ -1,0 +1,424 @@
+"""Running one task in its own limited child process.
+
+:func:`execute_task` is what an executor runs (a thread of the local pool,
+a dask worker, anything with ``submit``).  It starts a child process that
+
+1. asks the kernel to kill it when its parent dies (Linux ``PR_SET_PDEATHSIG``),
+   so that killing a benchmark run leaves no stray solvers behind;
+2. caps its address space with ``resource.setrlimit(RLIMIT_AS)``;
+3. loads the instance, solves it with the task's time limit, replays the
+   witness with the independent checker, and reports back.
+
+The solver is asked to stop at the time limit itself; the parent kills the
+child at ``time_limit + grace`` in case it does not (a native SAT call that
+ignores signals).  Progress reports (bounds found so far) travel through the
+same channel, so a killed task keeps whatever bounds it had reported.
+
+Children are forked from a forkserver where the calling process may have
+children (fast: a fork, not a new interpreter); inside a daemonic process
+(where :mod:`multiprocessing` refuses to start children, e.g. a dask worker
+process) a fresh interpreter is started with :mod:`subprocess` instead and
+talks JSON lines over its standard output.
+
+Outcome statuses
+----------------
+'optimal', 'bounded', 'infeasible'   from the solver's result
+'bounded'                            killed or out of memory after reporting bounds
+'timeout'                            killed at the hard limit with no bounds reported
+'memory'                             MemoryError, or died by a signal under a memory limit
+'error'                              any other failure; ``message`` says what
+"""
+
+from __future__ import annotations
+
+import json
+import multiprocessing as mp
+import os
+import queue
+import signal
+import subprocess
+import sys
+import threading
+import time
+import traceback
+from typing import Any, Callable, Mapping
+
+__all__ = ["execute_task", "cancel_all", "OUTCOME_STATUSES"]
+
+OUTCOME_STATUSES = ("optimal", "bounded", "infeasible", "timeout", "memory", "error")
+
+_ACTIVE: dict[int, Callable[[], None]] = {}
+_ACTIVE_LOCK = threading.Lock()
+_PRELOAD = ["numpy", "networkx", "pysat.solvers", "sweepwidth.plane", "sweepwidth.bench.child"]
+
+
+# ---------------------------------------------------------------- child side
+def _die_with_parent() -> None:
+    """Linux: deliver SIGKILL to this process when its parent exits."""
+    if not sys.platform.startswith("linux"):
+        return
+    try:
+        import ctypes
+
+        libc = ctypes.CDLL(None, use_errno=True)
+        PR_SET_PDEATHSIG = 1
+        libc.prctl(PR_SET_PDEATHSIG, signal.SIGKILL, 0, 0, 0)
+    except Exception:  # pragma: no cover - no prctl
+        pass
+
+
+def _limit_memory(memory_mb: Any) -> None:
+    if not memory_mb:
+        return
+    try:
+        import resource
+
+        limit = int(float(memory_mb) * 1024 * 1024)
+        _soft, hard = resource.getrlimit(resource.RLIMIT_AS)
+        if hard != resource.RLIM_INFINITY:
+            limit = min(limit, hard)
+        resource.setrlimit(resource.RLIMIT_AS, (limit, hard))
+    except (ImportError, ValueError, OSError):  # pragma: no cover - non-POSIX
+        pass
+
+
+def _bounds_of(p: Any) -> dict:
+    """Lower bound, upper bound and witness of a progress report of any shape."""
+    from ..result import _jsonable
+
+    if hasattr(p, "to_dict") and callable(p.to_dict):
+        p = p.to_dict()
+    if isinstance(p, Mapping):
+        get = p.get
+    elif isinstance(p, (tuple, list)) and len(p) >= 2:
+        return {"lower": _jsonable(p[0]), "upper": _jsonable(p[1]), "witness": None}
+    else:
+        get = lambda k, default=None: getattr(p, k, default)  # noqa: E731
+    witness = get("witness", None)
+    if witness is None:
+        witness = get("order", None)
+    return {"lower": _jsonable(get("lower", None)), "upper": _jsonable(get("upper", None)), "witness": _jsonable(witness)}
+
+
+def _body(task: Mapping[str, Any], send: Callable[[list], None]) -> None:
+    """Load, solve, check; every outcome goes through ``send`` as a JSON-able list."""
+    _die_with_parent()
+    _limit_memory(task.get("memory_mb"))
+    try:
+        from ..errors import SweepwidthError
+        from .loading import check_object, load_instance, solve_object
+
+        obj = load_instance(task["instance"])
+
+        def progress(p: Any) -> None:
+            try:
+                send(["progress", _bounds_of(p)])
+            except Exception:  # a report that cannot be sent is dropped, not fatal
+                pass
+
+        res = solve_object(
+            obj,
+            task["parameter"],
+            method=task.get("method", "auto"),
+            time_limit=task.get("time_limit"),
+            seed=task.get("seed"),
+            options=task.get("options") or {},
+            progress=progress,
+        )
+        checked: float | None = None
+        check_error: str | None = None
+        if res.witness is not None:
+            try:
+                checked = check_object(res, obj)
+            except SweepwidthError as err:
+                check_error = f"{type(err).__name__}: {err}"
+        send(["done", res.to_dict(), checked, check_error])
+    except MemoryError as err:
+        send(["memory", f"{type(err).__name__}: {err}"])
+    except Exception as err:  # noqa: BLE001 - every failure is reported, none escapes
+        from ..errors import SweepwidthError
+
+        if isinstance(err, SweepwidthError):
+            send(["error", f"{type(err).__name__}: {err}", ""])
+        else:
+            send(["error", f"{type(err).__name__}: {err}", traceback.format_exc()])
+
+
+def _fork_main(conn: Any, task: Mapping[str, Any]) -> None:
+    try:
+        _body(task, conn.send)
+    finally:
+        conn.close()
+
+
+def _subprocess_main() -> None:
+    """Entry point of ``python -m sweepwidth.bench.child``: task JSON on stdin, JSON lines out."""
+    out = os.fdopen(os.dup(1), "w", buffering=1, encoding="utf-8")
+    # anything else printed to stdout must not corrupt the channel
+    os.dup2(2, 1)
+    task = json.loads(sys.stdin.read())
+
+    def send(msg: list) -> None:
+        out.write(json.dumps(msg) + "\n")
+        out.flush()
+
+    _body(task, send)
+    out.close()
+
+
+# --------------------------------------------------------------- parent side
+def _context() -> Any:
+    ctx = mp.get_context("forkserver") if "forkserver" in mp.get_all_start_methods() else mp.get_context("spawn")
+    if ctx.get_start_method() == "forkserver":
+        try:
+            ctx.set_forkserver_preload(list(_PRELOAD))
+        except Exception:  # pragma: no cover
+            pass
+    return ctx
+
+
+class _ForkChannel:
+    def __init__(self, task: Mapping[str, Any]) -> None:
+        ctx = _context()
+        self.conn, child_conn = ctx.Pipe(duplex=False)
+        self.proc = ctx.Process(target=_fork_main, args=(child_conn, dict(task)))
+        self.proc.start()
+        child_conn.close()
+
+    def recv(self, timeout: float) -> list | None:
+        """A message, None on timeout; raises EOFError when the child is gone."""
+        if self.conn.poll(max(0.0, timeout)):
+            return self.conn.recv()
+        if not self.proc.is_alive() and not self.conn.poll(0):
+            raise EOFError
+        return None
+
+    def kill(self) -> None:
+        if self.proc.is_alive():
+            self.proc.kill()
+
+    def close(self) -> int | None:
+        self.proc.join(timeout=5)
+        if self.proc.is_alive():  # pragma: no cover
+            self.proc.kill()
+            self.proc.join(timeout=2)
+        try:
+            self.conn.close()
+        except OSError:  # pragma: no cover
+            pass
+        return self.proc.exitcode
+
+
+class _SubprocessChannel:
+    def __init__(self, task: Mapping[str, Any]) -> None:
+        env = dict(os.environ)
+        pkg_root = os.path.dirname(os.path.dirname(os.path.dirname(os.path.abspath(__file__))))
+        env["PYTHONPATH"] = pkg_root + (os.pathsep + env["PYTHONPATH"] if env.get("PYTHONPATH") else "")
+        self.proc = subprocess.Popen(
+            [sys.executable, "-m", "sweepwidth.bench.child"],
+            stdin=subprocess.PIPE,
+            stdout=subprocess.PIPE,
+            stderr=subprocess.DEVNULL,
+            env=env,
+            text=True,
+        )
+        assert self.proc.stdin is not None and self.proc.stdout is not None
+        self.proc.stdin.write(json.dumps(dict(task)))
+        self.proc.stdin.close()
+        self.lines: queue.Queue = queue.Queue()
+        self.reader = threading.Thread(target=self._read, daemon=True)
+        self.reader.start()
+
+    def _read(self) -> None:
+        assert self.proc.stdout is not None
+        for line in self.proc.stdout:
+            line = line.strip()
+            if line:
+                try:
+                    self.lines.put(json.loads(line))
+                except json.JSONDecodeError:
+                    continue
+        self.lines.put(None)  # end of stream
+
+    def recv(self, timeout: float) -> list | None:
+        try:
+            msg = self.lines.get(timeout=max(0.0, timeout))
+        except queue.Empty:
+            return None
+        if msg is None:
+            raise EOFError
+        return msg
+
+    def kill(self) -> None:
+        if self.proc.poll() is None:
+            self.proc.kill()
+
+    def close(self) -> int | None:
+        try:
+            self.proc.wait(timeout=5)
+        except subprocess.TimeoutExpired:  # pragma: no cover
+            self.proc.kill()
+            self.proc.wait(timeout=2)
+        self.reader.join(timeout=2)
+        return self.proc.returncode
+
+
+def _daemonic() -> bool:
+    try:
+        return bool(mp.current_process().daemon)
+    except Exception:  # pragma: no cover
+        return False
+
+
+def execute_task(task: Any, *, isolation: str = "auto") -> dict:
+    """Run one task in a limited child process and describe what happened.
+
+    Parameters
+    ----------
+    task : Task or dict
+        A :class:`~sweepwidth.bench.tasks.Task` or its :meth:`~Task.to_dict`.
+    isolation : {'auto', 'fork', 'subprocess'}
+        How to start the child: 'fork' (forkserver), 'subprocess' (a new
+        interpreter), or 'auto' (forkserver unless this process is daemonic).
+
+    Returns
+    -------
+    dict
+        ``status`` (one of :data:`OUTCOME_STATUSES`), ``value``, ``lower``,
+        ``upper``, ``seconds`` (the solver's own time, else the wall time),
+        ``wall`` (seconds including process start), ``method`` (what the
+        solver says it ran), ``message``, ``checked`` (the width recomputed by
+        the independent checker, or None), ``check_error``, ``result`` (the
+        result dict, or the last progress report) and ``exitcode``.
+
+    Notes
+    -----
+    Never raises for a failure of the task itself; only a failure to start a
+    process at all propagates.  Returns within about ``time_limit + grace``
+    plus a fraction of a second.
+    """
+    t = task.to_dict() if hasattr(task, "to_dict") else dict(task)
+    mode = isolation
+    if mode == "auto":
+        mode = "subprocess" if _daemonic() else "fork"
+    if mode not in ("fork", "subprocess"):
+        from ..errors import UnsupportedOptionError
+
+        raise UnsupportedOptionError("isolation", isolation, ["auto", "fork", "subprocess"])
+    hard = None
+    if t.get("time_limit") is not None:
+        hard = float(t["time_limit"]) + float(t.get("grace", 5.0))
+    t0 = time.monotonic()
+    chan = _ForkChannel(t) if mode == "fork" else _SubprocessChannel(t)
+    ident = id(chan)
+    with _ACTIVE_LOCK:
+        _ACTIVE[ident] = chan.kill
+    last: dict | None = None
+    final: list | None = None
+    killed = False
+    try:
+        while final is None:
+            wait = 0.2
+            if hard is not None:
+                left = hard - (time.monotonic() - t0)
+                if left <= 0:
+                    killed = True
+                    break
+                wait = min(wait, left)
+            try:
+                msg = chan.recv(wait)
+            except (EOFError, OSError):
+                break
+            if msg is None:
+                continue
+            if msg[0] == "progress":
+                last = msg[1]
+            else:
+                final = msg
+    finally:
+        if final is None:
+            chan.kill()
+        code = chan.close()
+        with _ACTIVE_LOCK:
+            _ACTIVE.pop(ident, None)
+    wall = time.monotonic() - t0
+    return _outcome(t, final, last, killed, code, wall)
+
+
+def _outcome(t: Mapping[str, Any], final: list | None, last: dict | None, killed: bool, code: int | None, wall: float) -> dict:
+    out: dict[str, Any] = {
+        "status": "error",
+        "value": None,
+        "lower": None,
+        "upper": None,
+        "seconds": wall,
+        "wall": wall,
+        "method": "",
+        "message": "",
+        "checked": None,
+        "check_error": None,
+        "result": None,
+        "exitcode": code,
+    }
+
+    def from_progress(status_without: str, why: str) -> None:
+        if last is not None and (last.get("lower") is not None or last.get("upper") is not None):
+            out.update(status="bounded", lower=last.get("lower"), upper=last.get("upper"), result=last)
+            out["message"] = why + "; bounds from the last progress report"
+        else:
+            out.update(status=status_without, message=why)
+
+    if final is not None and final[0] == "done":
+        r = final[1]
+        out.update(
+            status=r["status"],
+            value=r.get("value"),
+            lower=r.get("lower"),
+            upper=r.get("upper"),
+            seconds=float(r.get("seconds") or wall),
+            method=r.get("method", ""),
+            checked=final[2],
+            check_error=final[3],
+            result=r,
+        )
+        if final[3]:
+            out["message"] = "witness refused by the checker: " + final[3]
+        return out
+    if final is not None and final[0] == "memory":
+        from_progress("memory", f"out of memory under the {t.get('memory_mb')} MiB limit ({final[1]})")
+        return out
+    if final is not None and final[0] == "error":
+        out["message"] = final[1]
+        if len(final) > 2 and final[2]:
+            out["traceback"] = final[2]
+        return out
+    if killed:
+        from_progress("timeout", f"killed at the hard limit of {t.get('time_limit')} + {t.get('grace', 5.0)} s")
+        return out
+    # died without a word
+    sig = -code if code is not None and code < 0 else None
+    if sig is not None:
+        name = signal.Signals(sig).name if sig in signal.Signals._value2member_map_ else f"signal {sig}"
+        if t.get("memory_mb") and sig in (signal.SIGKILL, signal.SIGSEGV, signal.SIGABRT, signal.SIGBUS):
+            from_progress("memory", f"child died with {name}, taken as running out of its {t.get('memory_mb')} MiB")
+        else:
+            from_progress("error", f"child died with {name}")
+    else:
+        from_progress("error", f"child exited with code {code} without reporting")
+    return out
+
+
+def cancel_all() -> int:
+    """Kill every child process started by :func:`execute_task` in this process; return how many."""
+    with _ACTIVE_LOCK:
+        kills = list(_ACTIVE.values())
+    for k in kills:
+        try:
+            k()
+        except Exception:  # pragma: no cover
+            pass
+    return len(kills)
+
+
+if __name__ == "__main__":  # pragma: no cover - exercised through subprocess
+    _subprocess_main()

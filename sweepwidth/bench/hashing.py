@@ -1,0 +1,143 @@
+"""Content hashes of instances and configurations.
+
+A results database keys every finished task by two hashes: the *instance
+hash* (what was solved) and the *configuration hash* (how it was solved).
+Both are SHA-256 digests of a canonical JSON text: keys sorted, no
+whitespace, UTF-8, floats that are whole numbers written as integers, so the
+same content always gives the same key whatever the file's layout.
+"""
+
+from __future__ import annotations
+
+import hashlib
+import json
+import math
+import os
+from typing import Any, Mapping
+
+from ..errors import FileFormatError
+
+__all__ = ["canonical_json", "digest", "instance_hash", "object_hash", "config_hash", "object_document"]
+
+
+def _normalise(x: Any) -> Any:
+    if isinstance(x, Mapping):
+        return {str(k): _normalise(v) for k, v in x.items()}
+    if isinstance(x, (list, tuple)):
+        return [_normalise(v) for v in x]
+    if isinstance(x, (set, frozenset)):
+        items = [_normalise(v) for v in x]
+        return sorted(items, key=lambda v: json.dumps(v, sort_keys=True))
+    if isinstance(x, bool) or x is None or isinstance(x, str):
+        return x
+    if hasattr(x, "item") and callable(x.item):  # numpy scalar
+        x = x.item()
+    if isinstance(x, float):
+        if not math.isfinite(x):
+            return "nan" if math.isnan(x) else ("inf" if x > 0 else "-inf")
+        if x.is_integer() and abs(x) < 2**53:
+            return int(x)
+        return x
+    if isinstance(x, int):
+        return x
+    return str(x)
+
+
+def canonical_json(obj: Any) -> str:
+    """The canonical JSON text of ``obj`` (sorted keys, no spaces, whole floats as ints).
+
+    Examples
+    --------
+    >>> canonical_json({"b": 1.0, "a": [2, 0.5]})
+    '{"a":[2,0.5],"b":1}'
+    """
+    return json.dumps(_normalise(obj), sort_keys=True, separators=(",", ":"), ensure_ascii=False)
+
+
+def digest(obj: Any) -> str:
+    """SHA-256 hex digest of :func:`canonical_json` of ``obj``.
+
+    Examples
+    --------
+    >>> digest({"x": 1}) == digest({"x": 1.0})
+    True
+    """
+    return hashlib.sha256(canonical_json(obj).encode("utf-8")).hexdigest()
+
+
+def object_document(obj: Any) -> dict:
+    """A canonical plain-data description of a loaded instance (plane graph or graph).
+
+    Used to hash instances read from formats other than our JSON document.
+    A plane graph is described by its vertex labels, edge ends and weights,
+    rotation and outer face; a networkx graph by its nodes and weighted edges.
+    """
+    if hasattr(obj, "rotation_by_edges") and hasattr(obj, "outer_face"):
+        verts = [repr(v) for v in obj.vertices]
+        edges = []
+        for e in range(obj.number_of_edges()):
+            a, b = obj.edge_ends(e)
+            edges.append([repr(a), repr(b), float(obj.weight(e))])
+        rot = {repr(v): [list(x) for x in lst] for v, lst in obj.rotation_by_edges().items()}
+        return {"kind": "plane", "vertices": verts, "edges": edges, "rotation": rot, "outer": int(obj.outer_face)}
+    import networkx as nx
+
+    if isinstance(obj, nx.Graph):
+        nodes = sorted(repr(v) for v in obj.nodes())
+        if obj.is_multigraph():
+            it = ((u, v, d) for u, v, _k, d in obj.edges(keys=True, data=True))
+        else:
+            it = obj.edges(data=True)
+        edges = sorted(
+            (sorted([repr(u), repr(v)]) + [float(d.get("weight", 1))] for u, v, d in it),
+            key=lambda e: (e[0], e[1], e[2]),
+        )
+        return {"kind": "graph", "nodes": nodes, "edges": edges}
+    raise TypeError(f"cannot describe an instance of type {type(obj).__name__}")
+
+
+def instance_hash(path: str | os.PathLike | None = None, *, obj: Any = None) -> str:
+    """Content hash of an instance file (or of a loaded object).
+
+    For a ``.json`` file this is the digest of the file's canonical JSON, so
+    re-indenting or reordering keys keeps the hash; other formats are read
+    with :func:`sweepwidth.read` and hashed through :func:`object_document`.
+
+    Raises
+    ------
+    FileFormatError
+        If the file cannot be read or is not valid JSON.
+    """
+    if path is None:
+        if obj is None:
+            raise TypeError("instance_hash needs a path or an object")
+        return object_hash(obj)
+    p = os.fspath(path)
+    if p.lower().endswith(".json"):
+        try:
+            with open(p, "r", encoding="utf-8") as fh:
+                data = json.load(fh)
+        except OSError as err:
+            raise FileFormatError(f"cannot read: {err.strerror or err}", path=p) from err
+        except json.JSONDecodeError as err:
+            raise FileFormatError(f"not valid JSON: {err.msg}", path=p, line=err.lineno) from err
+        return digest(data)
+    if obj is None:
+        from .loading import load_instance
+
+        obj = load_instance(p)
+    return object_hash(obj)
+
+
+def object_hash(obj: Any) -> str:
+    """Digest of a loaded instance: its JSON document (:func:`sweepwidth.io.to_document`) when available."""
+    try:
+        from ..io import to_document
+    except ImportError:
+        return digest(object_document(obj))
+    return digest(to_document(obj))
+
+
+def config_hash(config: Mapping[str, Any]) -> str:
+    """Digest of a task configuration (parameter, method, options, seed, limits)."""
+    return digest(dict(config))
