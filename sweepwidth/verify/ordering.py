@@ -163,6 +163,8 @@ def ordering_width(
     >>> ordering_width(nx.cycle_graph(5), [0, 1, 2, 3, 4])
     2.0
     >>> ordering_width(nx.star_graph(4), [1, 0, 2, 3, 4], first=1)
+    3.0
+    >>> ordering_width(nx.star_graph(4), [1, 2, 0, 3, 4], first=1)
     2.0
     """
     G = _graph(G)

@@ -1,0 +1,479 @@
+"""The cutwidth dispatcher: one entry point, a registry of methods, one Result.
+
+Definition
+----------
+For an ordering ``v1, ..., vn`` of the vertices of a graph ``H`` with edge
+weights ``w``, the cut after ``i`` vertices is the total weight of the edges
+with one end among ``v1..vi`` and the other after them, and the width of the
+ordering is its largest cut.  The cutwidth ``cw(H)`` is the least width.  With
+a pinned first set ``A`` (last set ``B``) the orderings start with ``A`` (end
+with ``B``) and only the prefixes containing all of ``A`` and none of ``B``
+count: ``A`` and ``B`` behave as single merged vertices.  Loops never cross a
+cut and parallel edges add up.
+
+Methods
+-------
+==============  ===========================================================
+'auto'          forest -> 'tree'; few vertices -> 'dp'; otherwise heuristic
+                upper bound, lower bounds, a short 'bnb' run, then 'sat'
+                (integral weights, or rationals with a small common
+                denominator) or 'bnb' (other real weights) for the rest of
+                the time.  ``stats['auto']`` says what was chosen and why.
+'dp'            subset dynamic programming (:mod:`.ordering_dp`), exact,
+                ``O(2^n n)`` time and ``16 * 2^n`` bytes.
+'bnb'           threshold search over prefix sets (:mod:`.ordering_bnb`),
+                exact, handles real weights exactly.
+'sat'           incremental SAT (:mod:`.cutwidth_sat`), exact, integral weights
+                (rational weights are scaled by their common denominator).
+'tree'          for forests: the prefix-set search, whose free-move rule
+                places every leaf at no cost; exact.
+'heuristic'     constructions plus local search (:mod:`.ordering_heuristics`)
+                and the lower bounds of :mod:`.ordering_bounds`; bounded.
+callable        ``fn(problem, *, lower, upper, upper_order, deadline, seed,
+                **options)`` returning an object with ``lower``, ``upper``,
+                ``order`` (on the problem's vertex indices) and optionally
+                ``optimal`` and ``stats``.
+==============  ===========================================================
+
+Disconnected graphs are solved one component at a time (the width is the
+largest component width) unless a component holds both pinned ends while
+other components exist: then the parts interact (the others must be swept
+while the pinned one sits at some non-zero cut) and the graph is solved whole.
+"""
+
+from __future__ import annotations
+
+import math
+import numbers
+import time
+from typing import Any, Callable
+
+import numpy as np
+
+from ..errors import ProblemTooLargeError, SweepwidthError, UnsupportedOptionError
+from ..problems.ordering import OrderingProblem
+from ..result import Result
+from .ordering_bnb import solve_bnb
+from .ordering_bounds import lower_bounds
+from .ordering_dp import DEFAULT_MAX_MEMORY, dp_estimate, solve_dp
+from .ordering_heuristics import heuristic_ordering
+
+__all__ = ["cutwidth", "METHODS", "OPTIONS"]
+
+#: options accepted by ``cutwidth`` (besides the named arguments), per method
+OPTIONS: dict[str, tuple[str, ...]] = {
+    "auto": ("max_memory", "solver", "max_states", "improve", "dp_limit", "sat_options"),
+    "dp": ("max_memory",),
+    "bnb": ("max_states", "improve"),
+    "sat": ("solver", "improve", "sat_options"),
+    "tree": ("max_states",),
+    "heuristic": ("improve", "effort"),
+}
+
+_TINY_DP = 20  # 'auto' uses the DP up to this many unpinned vertices
+
+Outcome = tuple[float, float, list[int], dict]  # lower, upper, order, stats
+
+
+class _Part:
+    """Result of one component: bounds, an ordering of its vertices, stats."""
+
+    __slots__ = ("lower", "upper", "order", "stats", "method")
+
+    def __init__(self, lower: float, upper: float, order: list[int], stats: dict, method: str) -> None:
+        self.lower, self.upper, self.order, self.stats, self.method = lower, upper, order, stats, method
+
+
+def _left(deadline: float | None) -> float:
+    return math.inf if deadline is None else deadline - time.monotonic()
+
+
+def _sub_deadline(deadline: float | None, seconds: float) -> float:
+    end = time.monotonic() + seconds
+    return end if deadline is None else min(deadline, end)
+
+
+def _heuristic(P: OrderingProblem, seed: int | None, deadline: float | None, improve: bool = True, effort: int = 6) -> tuple[float, list[int], dict]:
+    # the heuristic gets a fraction of the time: exact methods need the rest
+    share = 0.25 * _left(deadline) if deadline is not None else 5.0 + P.n / 500.0
+    return heuristic_ordering(P, seed=seed, deadline=_sub_deadline(deadline, share), improve=improve, effort=effort)
+
+
+def _bounds(P: OrderingProblem, deadline: float | None) -> tuple[float, dict]:
+    b = lower_bounds(P, deadline=deadline)
+    return max(b.values()) if b else 0.0, b
+
+
+def _dp_child(P, max_memory, *, progress=None):
+    return solve_dp(P, max_memory=max_memory)
+
+
+def _m_dp(P, *, lower, upper, upper_order, deadline, seed, max_memory=DEFAULT_MAX_MEMORY, **_):
+    nbytes, secs = dp_estimate(P)
+    if nbytes > max_memory:
+        solve_dp(P, max_memory=max_memory)  # raises ProblemTooLargeError with the numbers
+    if deadline is not None and secs > _left(deadline):
+        raise _TooSlow(f"subset DP estimated at {secs:.1f} s, more than the {max(0.0, _left(deadline)):.1f} s left")
+    if deadline is not None and secs > 0.5:
+        from ._deadline import run_limited
+
+        finished, value, _ = run_limited(_dp_child, (P, max_memory), {}, deadline=deadline)
+        if not finished:
+            raise _TooSlow("subset DP did not finish before the time limit")
+        w, o, st = value
+    else:
+        w, o, st = solve_dp(P, max_memory=max_memory)
+    return w, w, o, st
+
+
+class _TooSlow(Exception):
+    pass
+
+
+def _m_bnb(P, *, lower, upper, upper_order, deadline, seed, max_states=4_000_000, **_):
+    out = solve_bnb(P, lower=lower, upper=upper, upper_order=upper_order, deadline=deadline, max_states=max_states)
+    return out.lower, out.upper, out.order, dict(out.stats)
+
+
+def _m_sat(P, *, lower, upper, upper_order, deadline, seed, solver="cadical195", sat_options=None, **_):
+    from .cutwidth_sat import solve_sat
+
+    q = P.integer_scale()
+    if q is None:
+        raise _NeedsOther("weights are not rationals with a common denominator <= 1000")
+    Q = P if q == 1 else P.scaled(q)
+    lo = int(math.ceil(lower * q - 1e-6))
+    up = int(round(upper * q)) if upper is not None else None
+    out = solve_sat(Q, lower=lo, upper=up, upper_order=upper_order, deadline=deadline, solver=solver, **(sat_options or {}))
+    order = out.order if out.order is not None else upper_order
+    width = P.width(order)
+    st = dict(out.stats)
+    if q != 1:
+        st["weight_scale"] = q
+    lower_val = out.lower / q
+    return (width if out.optimal else min(lower_val, width)), width, order, st
+
+
+class _NeedsOther(Exception):
+    pass
+
+
+METHODS: dict[str, Callable[..., Outcome]] = {
+    "dp": _m_dp,
+    "bnb": _m_bnb,
+    "sat": _m_sat,
+    "tree": _m_bnb,
+}
+
+
+def _validate(method: Any, time_limit: Any, seed: Any, options: dict) -> None:
+    valid = ["auto", "heuristic"] + sorted(METHODS)
+    if not callable(method) and method not in valid:
+        raise UnsupportedOptionError("cutwidth method", method, valid)
+    if time_limit is not None:
+        if isinstance(time_limit, bool) or not isinstance(time_limit, numbers.Real) or not time_limit > 0 or math.isnan(time_limit):
+            raise SweepwidthError(f"time_limit must be a positive number of seconds or None, got {time_limit!r}")
+    if seed is not None and (isinstance(seed, bool) or not isinstance(seed, numbers.Integral)):
+        raise SweepwidthError(f"seed must be an integer or None, got {seed!r}")
+    if not callable(method):
+        allowed = OPTIONS[method]
+        for k in options:
+            if k not in allowed:
+                raise UnsupportedOptionError(f"option for method {method!r}", k, list(allowed))
+    if "max_memory" in options:
+        mm = options["max_memory"]
+        if isinstance(mm, bool) or not isinstance(mm, numbers.Real) or mm <= 0:
+            raise SweepwidthError(f"max_memory must be a positive number of bytes, got {mm!r}")
+    if "solver" in options:
+        from .cutwidth_sat import SOLVERS
+
+        if options["solver"] not in SOLVERS:
+            raise UnsupportedOptionError("SAT solver", options["solver"], list(SOLVERS))
+
+
+def _solve_part(P: OrderingProblem, method: Any, deadline: float | None, seed: int | None, options: dict) -> _Part:
+    """Bounds and an ordering for one (contracted) problem."""
+    n = P.n
+    trivial_order = sorted(P.first) + [v for v in range(n) if v not in P.first and v not in P.last] + sorted(P.last)
+    if n <= 2 or P.m == 0:
+        w = P.width(trivial_order)
+        return _Part(w, w, trivial_order, {}, method if isinstance(method, str) else "callable")
+    opts = dict(options)
+    improve = opts.pop("improve", True)
+    effort = opts.pop("effort", 6)
+    stats: dict[str, Any] = {}
+    t0 = time.monotonic()
+    if method == "dp":
+        try:
+            lo, up, order, st = _m_dp(P, lower=0, upper=None, upper_order=None, deadline=deadline, seed=seed, **opts)
+            return _Part(lo, up, order, st, "dp")
+        except _TooSlow as err:
+            # the time limit wins: fall back to bounds and a heuristic ordering
+            p = _solve_part(P, "heuristic", deadline, seed, {})
+            p.stats["dp"] = {"skipped": str(err)}
+            p.method = "dp"
+            return p
+    if method == "tree" and not P.is_forest():
+        raise SweepwidthError("method 'tree' needs a forest (a graph without cycles after merging parallel edges)")
+    # bounds and a heuristic ordering for everything else
+    lb, lbs = _bounds(P, deadline)
+    stats["lower_bounds"] = lbs
+    hw, horder, hst = _heuristic(P, seed, deadline, improve=improve, effort=effort)
+    stats["heuristic"] = hst
+    stats["heuristic_width"] = hw
+    stats["bounds_seconds"] = time.monotonic() - t0
+    if lb >= hw - 1e-9:
+        return _Part(hw, hw, horder, stats, method if isinstance(method, str) else "callable")
+    if method == "heuristic":
+        return _Part(lb, hw, horder, stats, "heuristic")
+    if callable(method):
+        out = method(P, lower=lb, upper=hw, upper_order=horder, deadline=deadline, seed=seed, **opts)
+        order = list(out.order) if getattr(out, "order", None) is not None else horder
+        w = P.width(order)
+        if w > hw:
+            order, w = horder, hw
+        lower = max(lb, float(getattr(out, "lower", lb)))
+        stats["callable"] = dict(getattr(out, "stats", {}) or {})
+        return _Part(min(lower, w), w, order, stats, getattr(method, "__name__", "callable"))
+    fn = METHODS[method]
+    lo, up, order, st = fn(P, lower=lb, upper=hw, upper_order=horder, deadline=deadline, seed=seed, **opts)
+    stats[method] = st
+    return _Part(max(lb, lo) if up > lo else up, up, order, stats, method)
+
+
+def _auto_part(P: OrderingProblem, deadline: float | None, seed: int | None, options: dict) -> _Part:
+    """'auto' on one component: pick by size and structure, record why."""
+    n = P.n
+    opts = dict(options)
+    dp_limit = int(opts.pop("dp_limit", _TINY_DP))
+    max_memory = opts.pop("max_memory", DEFAULT_MAX_MEMORY)
+    max_states = opts.pop("max_states", 4_000_000)
+    solver = opts.pop("solver", "cadical195")
+    sat_options = opts.pop("sat_options", None)
+    improve = opts.pop("improve", True)
+    if n <= 2 or P.m == 0:
+        p = _solve_part(P, "bnb", deadline, seed, {})
+        p.stats["auto"] = {"choice": "trivial", "reason": "at most two vertices or no edges"}
+        p.method = "trivial"
+        return p
+    free = n - len(P.first) - len(P.last)
+    if P.is_forest():
+        p = _solve_part(P, "tree", deadline, seed, {"max_states": max_states, "improve": improve})
+        p.stats["auto"] = {"choice": "tree", "reason": "the graph is a forest"}
+        p.method = "tree"
+        return p
+    nbytes, secs = dp_estimate(P)
+    if free <= dp_limit and nbytes <= max_memory and secs <= _left(deadline):
+        p = _solve_part(P, "dp", deadline, seed, {"max_memory": max_memory})
+        p.stats["auto"] = {"choice": "dp", "reason": f"{free} unpinned vertices (<= {dp_limit})"}
+        return p
+    why: list[str] = []
+    if free <= dp_limit:
+        why.append(f"dp skipped: needs {nbytes / 2**20:.0f} MiB / about {secs:.1f} s")
+    p = _solve_part(P, "heuristic", deadline, seed, {"improve": improve})
+    stats = p.stats
+    if p.lower >= p.upper - 1e-9:
+        stats["auto"] = {"choice": "heuristic", "reason": "heuristic ordering meets the lower bound", "notes": why}
+        p.method = "heuristic"
+        return p
+    lb, ub, order = p.lower, p.upper, p.order
+    chain = ["heuristic"]
+    # a short prefix-set search first: on sparse graphs of small width it is instant
+    slice_s = min(3.0 + n / 50.0, 0.15 * _left(deadline)) if deadline is not None else 3.0 + n / 50.0
+    out = solve_bnb(P, lower=lb, upper=ub, upper_order=order, deadline=_sub_deadline(deadline, slice_s), max_states=min(max_states, 1_000_000))
+    chain.append("bnb")
+    stats["bnb"] = dict(out.stats)
+    lb, ub, order = max(lb, out.lower), out.upper, out.order
+    if out.optimal or lb >= ub - 1e-9:
+        stats["auto"] = {"choice": "bnb", "reason": "prefix-set search finished within its slice", "chain": chain, "notes": why}
+        return _Part(ub, ub, order, stats, "bnb")
+    if _left(deadline) <= 0.3:
+        stats["auto"] = {"choice": "bnb", "reason": "time limit reached", "chain": chain, "notes": why}
+        return _Part(lb, ub, order, stats, "bnb")
+    q = P.integer_scale()
+    if q is not None:
+        try:
+            lo2, up2, o2, st = _m_sat(P, lower=lb, upper=ub, upper_order=order, deadline=deadline, seed=seed, solver=solver, sat_options=sat_options)
+            chain.append("sat")
+            stats["sat"] = st
+            lb, ub, order = max(lb, lo2), up2, o2
+            reason = "integral weights" if q == 1 else f"rational weights scaled by {q}"
+            stats["auto"] = {"choice": "sat", "reason": reason + "; prefix-set search did not finish in its slice", "chain": chain, "notes": why}
+            return _Part(ub if lb >= ub - 1e-9 else lb, ub, order, stats, "sat")
+        except ImportError as err:  # pragma: no cover - SAT engine missing
+            why.append(f"sat unavailable: {err}")
+    else:
+        why.append("sat skipped: weights are not rationals with a small common denominator")
+    out = solve_bnb(P, lower=lb, upper=ub, upper_order=order, deadline=deadline, max_states=max_states)
+    chain.append("bnb")
+    stats["bnb_full"] = dict(out.stats)
+    lb, ub, order = max(lb, out.lower), out.upper, out.order
+    stats["auto"] = {"choice": "bnb", "reason": "real weights: the prefix-set search is exact on them", "chain": chain, "notes": why}
+    return _Part(ub if out.optimal else lb, ub, order, stats, "bnb")
+
+
+def cutwidth(
+    G: Any,
+    *,
+    method: str | Callable = "auto",
+    time_limit: float | None = None,
+    first: Any = None,
+    last: Any = None,
+    weight: str | Callable | None = "weight",
+    seed: int | None = None,
+    **options: Any,
+) -> Result:
+    """Cutwidth of a graph, exact or with proven bounds, with a witness ordering.
+
+    The width of an ordering is its heaviest cut between a prefix and the
+    rest; the cutwidth is the least width over all orderings (pinned variants:
+    see the module docstring).
+
+    Parameters
+    ----------
+    G : networkx.Graph, MultiGraph, or an object with ``to_networkx()``
+        Loops are ignored, parallel edges add up, directions are dropped.
+    method : str or callable
+        'auto', 'dp', 'bnb', 'sat', 'tree', 'heuristic', or a callable (see the
+        module docstring).
+    time_limit : float, optional
+        Seconds.  When it runs out the result is 'bounded' with the best
+        ordering and proven bounds so far (returned within about a second).
+        'dp' runs in a child process killed at the limit, and does not start
+        when its time estimate exceeds the limit (bounds and a heuristic
+        ordering are returned then).
+    first, last : node or collection of nodes, optional
+        Pinned start and end sets.
+    weight : str, callable or None
+        Edge attribute holding the weight (missing means 1), a function
+        ``(u, v, data) -> weight``, or None for unit weights.  Weights must be
+        finite and non-negative.  'dp' and 'bnb' use real weights exactly;
+        'sat' needs integers and scales rationals with a common denominator up
+        to 1000 (binary fractions such as 0.5 or 0.25 qualify; 0.1 does not).
+    seed : int, optional
+        Seed of the heuristics (results are reproducible with it).
+    **options
+        ``max_memory`` (bytes, DP tables; default 1 GiB), ``solver`` (python-sat
+        name for 'sat'), ``sat_options`` (dict passed to the SAT engine),
+        ``max_states`` (remembered sets of 'bnb'), ``improve`` (local search
+        on/off), ``effort`` (heuristic constructions), ``dp_limit`` ('auto'
+        uses the DP up to that many unpinned vertices).
+
+    Returns
+    -------
+    Result
+        ``parameter='cutwidth'``; ``witness`` is an ordering of the node labels;
+        ``stats['options']`` records the pins and weight so ``result.check(G)``
+        can replay it; ``stats['auto']`` explains an automatic choice.
+
+    Raises
+    ------
+    UnsupportedOptionError
+        Unknown method, option or SAT solver (the message lists valid ones).
+    WeightError
+        A negative, NaN, infinite or non-numeric weight.
+    ProblemTooLargeError
+        ``method='dp'`` on a problem whose tables exceed ``max_memory``.
+    SweepwidthError
+        Pinned vertices missing from ``G`` or pinned both first and last; a
+        bad time limit or seed; 'tree' on a graph with a cycle.
+
+    Notes
+    -----
+    Cutwidth is NP-hard (Gavril 1977); the exact methods are exponential in
+    the worst case.  See the module docstring for what 'auto' does.
+
+    References
+    ----------
+    Bodlaender, Fomin, Koster, Kratsch and Thilikos, "A note on exact
+    algorithms for vertex ordering problems on graphs", Theory of Computing
+    Systems 50 (2012).
+
+    Examples
+    --------
+    >>> import networkx as nx
+    >>> r = cutwidth(nx.grid_2d_graph(4, 4))
+    >>> r.status, r.value
+    ('optimal', 5.0)
+    >>> r.check(nx.grid_2d_graph(4, 4))
+    5.0
+    >>> cutwidth(nx.star_graph(6), first=1).value   # leaves 1, 2, 3, then the centre
+    3.0
+    """
+    t0 = time.monotonic()
+    _validate(method, time_limit, seed, options)
+    deadline = None if time_limit is None else t0 + float(time_limit) - 0.05
+    P = OrderingProblem.from_graph(G, weight=weight, first=first, last=last)
+    C = P.contract_pins()
+    Q = C.problem
+    a = next(iter(Q.first)) if Q.first else None
+    b = next(iter(Q.last)) if Q.last else None
+    comps = Q.components()
+    if a is not None and b is not None and len(comps) > 1:
+        ca = next(c for c in comps if a in c)
+        if b in ca:
+            comps = [list(range(Q.n))]
+    parts: list[tuple[list[int], _Part]] = []
+    # biggest components last, so small ones cannot starve on the time limit
+    comps.sort(key=len)
+    for comp in comps:
+        sub = Q if len(comp) == Q.n else Q.subproblem(comp)
+        if method == "auto":
+            part = _auto_part(sub, deadline, seed, options)
+        else:
+            part = _solve_part(sub, method, deadline, seed, options)
+        parts.append((comp, part))
+    # concatenate: the part with the first pin, then the free parts, then the one with the last pin
+    def rank(item: tuple[list[int], _Part]) -> int:
+        comp = item[0]
+        if a is not None and a in comp:
+            return 0
+        if b is not None and b in comp:
+            return 2
+        return 1
+
+    parts.sort(key=rank)
+    order_q: list[int] = []
+    for comp, part in parts:
+        order_q.extend(comp[i] for i in part.order)
+    order_p = C.expand(order_q)
+    witness = [P.labels[v] for v in order_p]
+    upper = P.width(order_p)
+    lower = max([part.lower for _, part in parts] + [0.0])
+    lower = min(lower, upper)
+    optimal = all(part.lower >= part.upper - 1e-9 for _, part in parts)
+    if optimal:
+        lower = upper
+    names = sorted({part.method for _, part in parts})
+    mname = getattr(method, "__name__", "callable") if callable(method) else method
+    label = mname if method != "auto" else "auto:" + "+".join(names)
+    stats: dict[str, Any] = {
+        "options": {
+            "first": [P.labels[v] for v in sorted(P.first)] or None,
+            "last": [P.labels[v] for v in sorted(P.last)] or None,
+            "weight": weight if (weight is None or isinstance(weight, str)) else None,
+        },
+        "n": P.n,
+        "m": P.m,
+        "components": len(parts),
+        "seed": seed,
+    }
+    if len(parts) == 1:
+        stats.update(parts[0][1].stats)
+    else:
+        stats["parts"] = [dict(part.stats, n=len(comp), lower=part.lower, upper=part.upper) for comp, part in parts]
+        if method == "auto":
+            stats["auto"] = {"choice": "per component", "reason": f"{len(parts)} components solved separately", "chosen": names}
+    if time_limit is not None and time.monotonic() - t0 > time_limit:
+        stats["overran_seconds"] = time.monotonic() - t0 - time_limit
+    return Result(
+        parameter="cutwidth",
+        status="optimal" if optimal else "bounded",
+        value=upper if optimal else None,
+        lower=lower,
+        upper=upper,
+        witness=witness,
+        method=label,
+        seconds=time.monotonic() - t0,
+        stats=stats,
+    )
