@@ -269,17 +269,18 @@ class WalkSpace:
         return wn
 
     def is_simple(self, key: tuple) -> bool:
-        """Simple cycle (distinct vertices, no edge used twice) or simple path."""
+        """Simple cycle (distinct vertices, no edge used twice) or simple path.
+
+        A point is not simple (the rules allow it only as the final walk).
+        """
         if self.is_point(key):
-            return True
+            return False
         tl = self.tail
         if self.closed:
             L = len(key)
             if len({tl[d] for d in key}) != L:
                 return False
-            if L == 2 and (key[0] >> 1) == (key[1] >> 1):
-                return False
-            return True
+            return len({d >> 1 for d in key}) == L
         vs = [tl[d] for d in key]
         vs.append(self.head[key[-1]])
         return len(set(vs)) == len(vs)

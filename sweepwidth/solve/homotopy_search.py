@@ -150,14 +150,12 @@ def _walk_from(P: Any, w: Any, what: str) -> tuple[tuple, int | None]:
         v = w.get("vertex")
         return darts, (P.index(v) if v is not None else (P.tail_index(darts[0]) if darts else None))
     if hasattr(w, "darts"):
+        # a Curve of sweepwidth.problems.homotopy: its vertex is an index
         darts = tuple(int(d) for d in w.darts)
         v = getattr(w, "vertex", None)
-        vi = None
-        if v is not None:
-            vi = v if isinstance(v, int) and not P.has_vertex(v) else P.index(v)
-        if vi is None and darts:
-            vi = P.tail_index(darts[0])
-        return darts, vi
+        if v is None and darts:
+            v = P.tail_index(darts[0])
+        return darts, (None if v is None else int(v))
     darts = tuple(int(d) for d in w)
     return darts, (P.tail_index(darts[0]) if darts else None)
 
@@ -166,7 +164,11 @@ def spec_from_problem(problem: Any) -> WalkSpec:
     """Read a :class:`~sweepwidth.problems.homotopy.HomotopyProblem` (or a :class:`WalkSpec`)."""
     if isinstance(problem, WalkSpec):
         return problem
-    P = getattr(problem, "P", None) or getattr(problem, "graph", None) or getattr(problem, "plane", None)
+    P = None
+    for name in ("graph", "P", "plane"):
+        P = getattr(problem, name, None)
+        if P is not None:
+            break
     if P is None:
         raise SweepwidthError(f"expected a HomotopyProblem, got {type(problem).__name__}")
     sd, sv = _walk_from(P, getattr(problem, "start"), "start")
@@ -389,7 +391,7 @@ def _run(
             if cap is not None and f2 >= cap:
                 continue
             goal = is_goal(nkey)
-            if simple and not goal and not sp.is_simple(nkey):
+            if simple and not (goal and not new) and not sp.is_simple(nkey):
                 continue
             nstate = (nkey, mask | (1 << face) if face >= 0 else mask) if monotone else nkey
             if nstate in done:
@@ -586,6 +588,10 @@ def search_homotopy(
         stats["infeasible"] = True
         return SearchOutcome(lower=float("inf"), upper=None, witness=None, optimal=False, stats=stats)
 
+    if spec.simple and not sp.is_simple(search.start_key):
+        stats["reason"] = "simple homotopy: the start walk is not simple"
+        stats["infeasible"] = True
+        return SearchOutcome(lower=float("inf"), upper=None, witness=None, optimal=False, stats=stats)
     lo = max(sp.length(search.start_key), search.end_length())
     lower_from = "lengths of the start and end walks"
     if lower is not None and lower > lo:
