@@ -48,11 +48,9 @@ class Scene:
         ax = self.ax
         lo, hi = self.g.bounds()
         pts = [lo, hi]
-        if self.P.number_of_edges():
-            pts.append(self.g.face_point(self.P.outer_face) + np.array([0.0, 0.5 * self.g.scale]))
-        if ring:
+        if ring and self.P.number_of_edges():
             c, R = self.g.ring()
-            pts += [c - R, c + R]
+            pts += [c - R, c + R, self.g.face_point(self.P.outer_face)]
         allp = np.vstack(pts)
         lo, hi = allp.min(axis=0), allp.max(axis=0)
         span = float(max(hi[0] - lo[0], hi[1] - lo[1], self.g.scale))
@@ -160,9 +158,8 @@ class Scene:
         P = self.P
         if P.number_of_edges() == 0:
             return
-        p = self.g.face_point(P.outer_face)
-        self.ax.text(p[0], p[1] + 0.22 * self.g.scale, "outer face", fontsize=7, style="italic", ha="center",
-                     va="bottom",
+        self.ax.text(0.012, 0.988, "outer face", transform=self.ax.transAxes, fontsize=7, style="italic",
+                     ha="left", va="top",
                      color=PALETTE["label"], zorder=self.Z_TEXT)
 
     def face_labels(self) -> None:

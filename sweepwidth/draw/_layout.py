@@ -154,6 +154,50 @@ def _tutte(
     return pos
 
 
+_FRAME = "__sweepwidth_frame__"
+
+
+def _framed_tutte(P: PlaneGraph, rot: dict[Hashable, list[Hashable]]) -> dict[Hashable, np.ndarray]:
+    """Barycentric drawing inside a frame: one helper vertex per corner of the outer face.
+
+    The helpers form a cycle around the graph and each is joined to its
+    corner, so the outer boundary becomes a simple cycle even when the outer
+    face's walk repeats vertices (trees, loops, cut vertices).
+    """
+    walk = P.face_darts(P.outer_face)
+    k = len(walk)
+    if k < 3:
+        raise SweepwidthError("outer face too short for a frame")
+    frame = [(_FRAME, i) for i in range(k)]
+    frot = {v: list(nbrs) for v, nbrs in rot.items()}
+    # the corner of the outer face at tail(d) follows head(d) counterclockwise
+    inserts: dict[Hashable, list[tuple[Hashable, Hashable]]] = {}
+    for i, d in enumerate(walk):
+        inserts.setdefault(P.tail(d), []).append((P.head(d), frame[i]))
+    for u, items in inserts.items():
+        lst = frot[u]
+        for w, fv in items:
+            j = lst.index(w)
+            lst.insert(j + 1, fv)
+    for i in range(k):
+        frot[frame[i]] = [frame[i - 1], P.tail(walk[i]), frame[(i + 1) % k]]
+    Pf = PlaneGraph.from_rotation(frot, outer=list(frame))
+    cycle = Pf.boundary_walk(Pf.outer_face)
+    # a helper in every inner face, joined to each of its corners, keeps degree-2
+    # vertices (bends of loops and parallel edges) off the lines through their neighbours
+    adj = {v: list(nbrs) for v, nbrs in frot.items()}
+    for f in Pf.faces:
+        if f == Pf.outer_face:
+            continue
+        z = (_FRAME, "face", f)
+        corners = Pf.boundary_walk(f)
+        adj[z] = list(corners)
+        for c in corners:
+            adj[c].append(z)
+    pos = _tutte(Pf, adj, cycle)
+    return {v: pos[v] for v in rot}
+
+
 def _chrobak_payne(P: PlaneGraph, rot: dict[Hashable, list[Hashable]]) -> dict[Hashable, np.ndarray]:
     """networkx's grid drawing of the simple rotation, with our outer face made outer.
 
@@ -191,53 +235,47 @@ def _chrobak_payne(P: PlaneGraph, rot: dict[Hashable, list[Hashable]]) -> dict[H
     return {v: np.array(raw[v], dtype=float) for v in verts}
 
 
-def layout_positions(P: PlaneGraph, *, keep_pos: bool = False) -> dict[Hashable, tuple[float, float]]:
-    """Vertex positions for drawing ``P``: its own drawing, else a planar layout of its rotation.
+def _needs_bends(P: PlaneGraph) -> bool:
+    """Whether drawing ``P`` needs bend vertices: a loop whose two darts are separated by a
+    non-loop dart, or a bundle of parallel edges whose darts are not consecutive at an end."""
+    for u in P.vertices:
+        ring = P.darts_at(u)
+        k = len(ring)
+        isloop = [P.head(d) == u for d in ring]
+        if any(isloop) and not all(isloop):
+            start = (isloop.index(False) + 1) % k
+            lin = ring[start:] + ring[:start]
+            gap_of, g = {}, 0
+            for d in lin:
+                if P.head(d) == u:
+                    gap_of[d] = g
+                else:
+                    g += 1
+            if any(gap_of[2 * (d >> 1)] != gap_of[2 * (d >> 1) + 1] for d in gap_of):
+                return True
+        heads = [P.head(d) for d in ring]
+        for w in set(heads):
+            if w == u or heads.count(w) < 2:
+                continue
+            inb = [h == w for h in heads]
+            starts = sum(1 for i in range(k) if inb[i] and not inb[i - 1])
+            if starts > 1:
+                return True
+    return False
 
-    ``P.pos`` is used when it covers every vertex and its straight segments
-    realise the rotation without crossings (always so for graphs built with
-    ``from_positions``); with ``keep_pos=True`` it is used whenever it covers
-    every vertex.  Positions that do not fit the rotation, such as the face
-    points a dual carries, are replaced by a layout.  Otherwise the
-    simple underlying graph (loops dropped, one edge per bundle of parallel
-    edges) is laid out from the rotation: a barycentric drawing with the outer
-    face on a circle when that keeps the rotation and has no crossings (always
-    the case for 3-connected graphs), else the Chrobak-Payne grid drawing.
-    The result is checked against the rotation and mirrored when needed, so
-    the picture shows *this* embedding, with ``P.outer_face`` outside.
 
-    Parameters
-    ----------
-    P : PlaneGraph
+def _given_positions(P: PlaneGraph) -> dict[Hashable, tuple[float, float]] | None:
+    """``P.pos`` when it covers every vertex and its straight segments realise the rotation."""
+    if P.pos is None or not all(v in P.pos for v in P.vertices):
+        return None
+    given = {v: (float(P.pos[v][0]), float(P.pos[v][1])) for v in P.vertices}
+    if _drawing_agrees(_simple_rotation(P), {v: np.array(p) for v, p in given.items()}) == 1:
+        return given
+    return None
 
-    Returns
-    -------
-    dict
-        ``{vertex: (x, y)}``.
 
-    Notes
-    -----
-    O(n) for the grid drawing, a sparse solve for the barycentric one, and a
-    near-linear crossing check.
-
-    References
-    ----------
-    .. [1] W. T. Tutte, "How to draw a graph", Proc. London Math. Soc. 13, 1963.
-    .. [2] M. Chrobak and T. H. Payne, "A linear-time algorithm for drawing a
-       planar graph on a grid", Information Processing Letters 54(4), 1995.
-
-    Examples
-    --------
-    >>> import networkx as nx
-    >>> P = PlaneGraph.from_graph(nx.octahedral_graph())
-    >>> pos = layout_positions(P)
-    >>> sorted(pos) == sorted(P.vertices)
-    True
-    """
-    if P.pos is not None and all(v in P.pos for v in P.vertices):
-        given = {v: (float(P.pos[v][0]), float(P.pos[v][1])) for v in P.vertices}
-        if keep_pos or _drawing_agrees(_simple_rotation(P), {v: np.array(p) for v, p in given.items()}) == 1:
-            return given
+def _layout_simple(P: PlaneGraph) -> dict[Hashable, tuple[float, float]]:
+    """A planar straight-line layout of the simple underlying graph of ``P`` (ignores ``P.pos``)."""
     verts = P.vertices
     n = len(verts)
     if n == 1:
@@ -252,6 +290,10 @@ def layout_positions(P: PlaneGraph, *, keep_pos: bool = False) -> dict[Hashable,
             candidates.append(_tutte(P, rot, cycle))
         except Exception:  # a singular system (disconnected interior): use the grid drawing
             pass
+    try:
+        candidates.append(_framed_tutte(P, rot))
+    except Exception:  # fall back to the grid drawing
+        pass
     candidates.append(_chrobak_payne(P, rot))
     for pos in candidates:
         sign = _drawing_agrees(rot, pos)
@@ -259,6 +301,117 @@ def layout_positions(P: PlaneGraph, *, keep_pos: bool = False) -> dict[Hashable,
             return {v: (float(sign * p[0]), float(p[1])) for v, p in pos.items()}
     # the grid drawing always realises the rotation; reaching here means a bug upstream
     raise SweepwidthError("could not lay out the embedding without crossings")
+
+
+
+
+_DUMMY = "__sweepwidth_bend__"
+
+
+def _subdivided(P: PlaneGraph) -> tuple[PlaneGraph, list[list[Hashable]]]:
+    """``P`` with bend vertices on loops (two) and on all but one edge of each parallel bundle (one).
+
+    The result is a simple plane graph with the same rotation (each dart
+    replaced by the first piece of its subdivided edge) and the same outer
+    face; ``chains[e]`` lists the vertices along edge ``e`` from
+    ``edge_ends(e)[0]`` to ``edge_ends(e)[1]``.
+    """
+    m = P.number_of_edges()
+    seen: set[frozenset] = set()
+    chains: list[list[Hashable]] = []
+    for e in range(m):
+        u, v = P.edge_ends(e)
+        if u == v:
+            chains.append([u, (_DUMMY, e, 0), (_DUMMY, e, 1), v])
+            continue
+        key = frozenset((u, v))
+        if key in seen:
+            chains.append([u, (_DUMMY, e, 0), v])
+        else:
+            seen.add(key)
+            chains.append([u, v])
+    rot: dict[Hashable, list[Hashable]] = {}
+    for v in P.vertices:
+        lst = []
+        for d in P.darts_at(v):
+            ch = chains[d >> 1]
+            lst.append(ch[1] if d % 2 == 0 else ch[-2])
+        rot[v] = lst
+    for ch in chains:
+        for i in range(1, len(ch) - 1):
+            rot[ch[i]] = [ch[i - 1], ch[i + 1]]
+    outer_darts = P.face_darts(P.outer_face)
+    outer = None
+    if outer_darts:
+        d = outer_darts[0]
+        ch = chains[d >> 1]
+        outer = (ch[0], ch[1]) if d % 2 == 0 else (ch[-1], ch[-2])
+    S = PlaneGraph.from_rotation(rot, outer=outer)
+    return S, chains
+
+
+def layout_positions(P: PlaneGraph, *, keep_pos: bool = False) -> dict[Hashable, tuple[float, float]]:
+    """Vertex positions for drawing ``P``: its own drawing, else a planar layout of its rotation.
+
+    ``P.pos`` is used when it covers every vertex and its straight segments
+    realise the rotation without crossings (always so for graphs built with
+    ``from_positions``); with ``keep_pos=True`` it is used whenever it covers
+    every vertex.  Positions that do not fit the rotation, such as the face
+    points a dual carries, are replaced by a layout: loops and parallel
+    edges get bend vertices, and the resulting simple graph is drawn with a
+    barycentric drawing with the outer face on a circle when that keeps the
+    rotation and has no crossings (always the case for 3-connected graphs),
+    else with the Chrobak-Payne grid drawing.  The result is checked against
+    the rotation and mirrored when needed, so the picture shows *this*
+    embedding, with ``P.outer_face`` outside.
+
+    Parameters
+    ----------
+    P : PlaneGraph
+    keep_pos : bool
+        Use ``P.pos`` whenever it covers every vertex, without checking it.
+
+    Returns
+    -------
+    dict
+        ``{vertex: (x, y)}``.
+
+    Notes
+    -----
+    O(n + m) for the grid drawing, a few sparse solves for the barycentric
+    one, and a near-linear crossing check.
+
+    References
+    ----------
+    .. [1] W. T. Tutte, "How to draw a graph", Proc. London Math. Soc. 13, 1963.
+    .. [2] M. S. Floater, "One-to-one piecewise linear mappings over
+       triangulations", Mathematics of Computation 72(242), 2003.
+    .. [3] M. Chrobak and T. H. Payne, "A linear-time algorithm for drawing a
+       planar graph on a grid", Information Processing Letters 54(4), 1995.
+
+    Examples
+    --------
+    >>> import networkx as nx
+    >>> P = PlaneGraph.from_graph(nx.octahedral_graph())
+    >>> pos = layout_positions(P)
+    >>> sorted(pos) == sorted(P.vertices)
+    True
+    """
+    if keep_pos and P.pos is not None and all(v in P.pos for v in P.vertices):
+        return {v: (float(P.pos[v][0]), float(P.pos[v][1])) for v in P.vertices}
+    given = _given_positions(P)
+    if given is not None:
+        return given
+    if not _needs_bends(P):
+        return _layout_simple(P)
+    plan = _plan(P)
+    return {v: plan[0][v] for v in P.vertices}
+
+
+def _plan(P: PlaneGraph) -> tuple[dict[Hashable, tuple[float, float]], list[list[Hashable]]]:
+    """Positions of the vertices and bend points of a computed layout, and the chains of each edge."""
+    S, chains = _subdivided(P)
+    return _layout_simple(S), chains
 
 
 # ----------------------------------------------------------------- geometry
@@ -270,6 +423,46 @@ def _bezier2(a: np.ndarray, c: np.ndarray, b: np.ndarray, n: int = _SAMPLES) -> 
 def _bezier3(a: np.ndarray, c1: np.ndarray, c2: np.ndarray, b: np.ndarray, n: int = _SAMPLES) -> np.ndarray:
     t = np.linspace(0.0, 1.0, n)[:, None]
     return (1 - t) ** 3 * a + 3 * (1 - t) ** 2 * t * c1 + 3 * (1 - t) * t**2 * c2 + t**3 * b
+
+
+def _through(points: list[np.ndarray], per: int = 16) -> np.ndarray:
+    """A smooth curve through ``points`` (Catmull-Rom); closed when the first and last coincide."""
+    if len(points) == 2:
+        return np.vstack(points)
+    closed = bool(np.allclose(points[0], points[-1]))
+    pts = points[:-1] if closed else points
+    k = len(pts)
+    out = []
+    segs = k if closed else k - 1
+    for i in range(segs):
+        if closed:
+            p0, p1, p2, p3 = pts[(i - 1) % k], pts[i], pts[(i + 1) % k], pts[(i + 2) % k]
+        else:
+            p1, p2 = pts[i], pts[i + 1]
+            p0 = pts[i - 1] if i > 0 else 2 * p1 - p2
+            p3 = pts[i + 2] if i + 2 < k else 2 * p2 - p1
+        t = np.linspace(0.0, 1.0, per, endpoint=False)[:, None]
+        t2, t3 = t * t, t * t * t
+        seg = 0.5 * (2 * p1 + (-p0 + p2) * t + (2 * p0 - 5 * p1 + 4 * p2 - p3) * t2 + (-p0 + 3 * p1 - 3 * p2 + p3) * t3)
+        out.append(seg)
+    out.append((pts[0] if closed else pts[-1])[None, :])
+    return np.vstack(out)
+
+
+def _petal(a: np.ndarray, lo: float, hi: float, radius: float, n: int = 41) -> np.ndarray:
+    """A loop at ``a`` filling the angular sector ``lo..hi`` (counterclockwise), ``radius`` deep.
+
+    In polar form r(t) = radius * sin(pi t) ** 0.35 for t in 0..1: the curve
+    stays inside its sector, so loops with nested sectors and smaller radii
+    are drawn nested.
+    """
+    t = np.linspace(0.0, 1.0, n)
+    th = lo + (hi - lo) * t
+    r = radius * np.sin(np.pi * t).clip(0.0) ** 0.35
+    pts = a + np.column_stack([r * np.cos(th), r * np.sin(th)])
+    pts[0] = a
+    pts[-1] = a
+    return pts
 
 
 def _unit(v: np.ndarray) -> np.ndarray:
@@ -340,21 +533,37 @@ class Geometry:
 
     def __init__(self, P: PlaneGraph, pos: dict | None = None) -> None:
         self.P = P
-        raw = layout_positions(P) if pos is None else pos
-        self.xy: dict[Hashable, np.ndarray] = {v: np.asarray(raw[v], dtype=float) for v in P.vertices}
+        chains = None
+        if pos is None:
+            pos = _given_positions(P)
+            if pos is None:
+                if _needs_bends(P):
+                    pos, chains = _plan(P)
+                else:
+                    pos = _layout_simple(P)
+        self.xy: dict[Hashable, np.ndarray] = {v: np.asarray(pos[v], dtype=float) for v in P.vertices}
         m = P.number_of_edges()
         lengths = []
-        for e in range(m):
-            u, v = P.edge_ends(e)
-            if u != v:
-                lengths.append(float(np.hypot(*(self.xy[v] - self.xy[u]))))
+        if chains is None:
+            for e in range(m):
+                u, v = P.edge_ends(e)
+                if u != v:
+                    lengths.append(float(np.hypot(*(self.xy[v] - self.xy[u]))))
+        else:
+            for ch in chains:
+                for a, b in zip(ch, ch[1:]):
+                    lengths.append(float(np.hypot(*(np.asarray(pos[b]) - np.asarray(pos[a])))))
         pts = np.array(list(self.xy.values()))
         span = float(np.max(pts.max(axis=0) - pts.min(axis=0))) if len(pts) > 1 else 0.0
         positive = [x for x in lengths if x > 0]
         self.scale = float(np.median(positive)) if positive else (span / 3 if span > 0 else 1.0)
         self._curves: list[np.ndarray] = [np.zeros((2, 2))] * m
-        self._build_bundles()
-        self._build_loops()
+        if chains is None:
+            self._build_bundles()
+            self._build_loops()
+        else:
+            for e, ch in enumerate(chains):
+                self._curves[e] = _through([np.asarray(pos[x], dtype=float) for x in ch])
         self._face_pts: dict[int, np.ndarray] = {}
 
     # ------------------------------------------------------------ edges
@@ -401,63 +610,79 @@ class Geometry:
         v = c[1] - c[0]
         return math.atan2(v[1], v[0])
 
+    def _loop_rings(self) -> dict[Hashable, list[int]]:
+        """At each vertex with loops, its darts counterclockwise, starting where drawing may cut the ring.
+
+        The cut is just after a non-loop dart (so loops are nested within the
+        gaps between non-loop darts) or, at a vertex with only loops, at a
+        corner of the outer face (so the outer face stays unbounded).
+        """
+        P = self.P
+        rings = {}
+        for u in P.vertices:
+            ring = P.darts_at(u)
+            if not any(P.head(d) == u for d in ring):
+                continue
+            fixed = [i for i, d in enumerate(ring) if P.head(d) != u]
+            if fixed:
+                start = (fixed[0] + 1) % len(ring)
+            else:
+                start = 0
+                for d in P.face_darts(P.outer_face):
+                    if P.tail(d) == u:
+                        start = (ring.index(d) + 1) % len(ring)
+                        break
+            rings[u] = ring[start:] + ring[:start]
+        return rings
+
     def _build_loops(self) -> None:
         P = self.P
-        loops = [e for e in range(P.number_of_edges()) if P.edge_ends(e)[0] == P.edge_ends(e)[1]]
-        if not loops:
-            return
-        loopset = set(loops)
-        angle: dict[int, float] = {}
-        by_vertex: dict[Hashable, list[int]] = {}
-        for e in loops:
-            by_vertex.setdefault(P.edge_ends(e)[0], []).append(e)
-        for u in by_vertex:
-            ring = P.darts_at(u)
-            fixed = [i for i, d in enumerate(ring) if (d >> 1) not in loopset]
-            if not fixed:
-                for i, d in enumerate(ring):
-                    angle[d] = math.pi / 2 + 2 * math.pi * i / len(ring)
-                continue
-            for j, i0 in enumerate(fixed):
-                i1 = fixed[(j + 1) % len(fixed)]
-                a0 = self._leaving_angle(ring[i0])
-                a1 = self._leaving_angle(ring[i1])
-                gap = (a1 - a0) % (2 * math.pi)
-                if gap < 1e-9:
-                    gap = 2 * math.pi
-                run = []
-                i = (i0 + 1) % len(ring)
-                while i != i1:
-                    run.append(ring[i])
-                    i = (i + 1) % len(ring)
-                for r, d in enumerate(run):
-                    angle[d] = a0 + gap * (r + 1) / (len(run) + 1)
-        # nesting height: a loop whose darts enclose other loops' darts is drawn bigger
-        height: dict[int, int] = {}
-        for u, es in by_vertex.items():
-            ring = P.darts_at(u)
-            where = {d: i for i, d in enumerate(ring)}
-
-            def inside(e: int, f: int) -> bool:
-                lo, hi = sorted((where[2 * e], where[2 * e + 1]))
-                return lo < where[2 * f] < hi and lo < where[2 * f + 1] < hi
-
-            for e in sorted(es, key=lambda e: abs(where[2 * e] - where[2 * e + 1])):
-                height[e] = 1 + max((height[f] for f in es if f != e and f in height and inside(e, f)), default=0)
-        for e in loops:
-            u = P.edge_ends(e)[0]
+        rings = self._loop_rings()
+        for u, ring in rings.items():
             a = self.xy[u]
-            ta, tb = angle[2 * e], angle[2 * e + 1]
-            spread = abs(((tb - ta + math.pi) % (2 * math.pi)) - math.pi)
-            size = self.scale * (0.38 + 0.22 * (height[e] - 1)) * (1.0 if spread > 0.6 else 1.25)
-            # widen narrow petals symmetrically so that they stay visible
-            mid = ta + (((tb - ta + math.pi) % (2 * math.pi)) - math.pi) / 2
-            half = max(spread / 2, 0.35)
-            sgn = 1.0 if ((tb - ta) % (2 * math.pi)) < math.pi else -1.0
-            t1, t2 = mid - sgn * half, mid + sgn * half
-            c1 = a + 1.6 * size * np.array([math.cos(t1), math.sin(t1)])
-            c2 = a + 1.6 * size * np.array([math.cos(t2), math.sin(t2)])
-            self._curves[e] = _bezier3(a, c1, c2, a)
+            isloop = [P.head(d) == u for d in ring]
+            if all(isloop):
+                gaps = [(ring, -math.pi / 2 + 1e-3, 2 * math.pi - 2e-3)]
+            else:
+                gaps = []
+                k = len(ring)
+                # the ring starts just after a non-loop dart and ends with one
+                idx = [i for i in range(k) if not isloop[i]]
+                prev = ring[-1]
+                lo = 0
+                for i in idx:
+                    run = ring[lo:i]
+                    if run:
+                        a0 = self._leaving_angle(prev)
+                        a1 = self._leaving_angle(ring[i])
+                        gap = (a1 - a0) % (2 * math.pi) or 2 * math.pi
+                        gaps.append((run, a0, gap))
+                    prev = ring[i]
+                    lo = i + 1
+            for run, a0, gap in gaps:
+                where = {d: r for r, d in enumerate(run)}
+                ang = {d: a0 + gap * (r + 1) / (len(run) + 1) for r, d in enumerate(run)}
+                loops = sorted({d >> 1 for d in run})
+                span = {e: tuple(sorted((where[2 * e], where[2 * e + 1]))) for e in loops if 2 * e in where and 2 * e + 1 in where}
+                height: dict[int, int] = {}
+                for e in sorted(span, key=lambda e: span[e][1] - span[e][0]):
+                    lo_, hi_ = span[e]
+                    height[e] = 1 + max(
+                        (height[f] for f in span if f in height and f != e and lo_ < span[f][0] and span[f][1] < hi_),
+                        default=0,
+                    )
+                step = gap / (len(run) + 1)
+                for e, (i, j) in span.items():
+                    lo_a = ang[run[i]] - 0.42 * step
+                    hi_a = ang[run[j]] + 0.42 * step
+                    radius = self.scale * (0.38 + 0.2 * (height[e] - 1))
+                    curve = _petal(a, lo_a, hi_a, radius)
+                    # dart 2e leaves along the first side when it comes first counterclockwise
+                    self._curves[e] = curve if where[2 * e] == i else curve[::-1].copy()
+
+    def needs_bends(self) -> bool:
+        """True when arcs and petals cannot show the rotation (a loop or a bundle enclosing other edges)."""
+        return _needs_bends(self.P)
 
     # ------------------------------------------------------------ queries
     def edge_points(self, e: int) -> np.ndarray:
