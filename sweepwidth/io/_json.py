@@ -528,26 +528,35 @@ def _from_planarity(labels, ends, weights, outer_dart) -> PlaneGraph:  # type: i
     for e, (a, b) in enumerate(ends):
         G.add_edge(labels[a], labels[b], key=e, fid=e, weight=weights[e])
     Q = PlaneGraph.from_graph(G)
-    return renumber_edges(Q, [Q.edge_data(e)["fid"] for e in range(Q.number_of_edges())], outer_dart=outer_dart)
+    new_id = [Q.edge_data(e)["fid"] for e in range(Q.number_of_edges())]
+    flip = [Q.index(Q.edge_ends(e)[0]) != ends[new_id[e]][0] for e in range(Q.number_of_edges())]
+    return renumber_edges(Q, new_id, flip=flip, outer_dart=outer_dart)
 
 
-def renumber_edges(Q: PlaneGraph, new_id: list[int], *, outer_dart: int | None = None) -> PlaneGraph:
+def renumber_edges(
+    Q: PlaneGraph, new_id: list[int], *, flip: list[bool] | None = None, outer_dart: int | None = None
+) -> PlaneGraph:
     """The same plane graph with edge ``e`` renamed ``new_id[e]`` (and its darts with it).
 
-    ``outer_dart`` (in the new numbering) picks the outer face; default: Q's.
+    ``flip[e]`` reverses the direction of edge ``e`` (its two darts swap
+    numbers); ``outer_dart`` (in the new numbering) picks the outer face;
+    default: Q's.
     """
     m = Q.number_of_edges()
+    fl = flip or [False] * m
     ends = [(0, 0)] * m
     wts = [0.0] * m
     edata: list[dict] = [{}] * m
     for e in range(m):
         u, v = Q.edge_ends(e)
+        if fl[e]:
+            u, v = v, u
         ends[new_id[e]] = (Q.index(u), Q.index(v))
         wts[new_id[e]] = Q.weight(e)
         edata[new_id[e]] = {k: x for k, x in Q.edge_data(e).items() if k != "fid"}
 
     def nd(d: int) -> int:
-        return 2 * new_id[d >> 1] + (d & 1)
+        return 2 * new_id[d >> 1] + ((d & 1) ^ int(fl[d >> 1]))
 
     nxt = [0] * (2 * m)
     for d in range(2 * m):
