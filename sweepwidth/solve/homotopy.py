@@ -1,0 +1,1049 @@
+"""Discrete homotopy height: the dispatcher, proven bounds and constructed homotopies.
+
+Definition
+----------
+A homotopy moves a closed walk (or a walk with fixed ends) of a plane graph
+by face flips, spikes and unspikes (see :mod:`sweepwidth.problems.homotopy`);
+its height is the largest length of a walk along it, start and end included.
+The homotopy height of a problem is the least height of a homotopy from the
+start curve to the end condition.
+
+Methods
+-------
+'bounds'
+    Lower bound: the homology sweep width with the same start, end and holes
+    (:func:`sweepwidth.solve.homology.homology_width`; reducing every walk of
+    a homotopy mod 2 gives a homology sweep of no greater width, so the bound
+    is proved), and the lengths of the start and end curves.  Upper bound: an
+    explicit homotopy, built by sweeping faces one at a time (below) for
+    several face orders, keeping the best.
+'search'
+    The exact bottleneck search of :mod:`sweepwidth.solve.homotopy_search`.
+'auto'
+    'bounds' first; when a gap remains and the instance is small enough, the
+    exact search (given the constructed homotopy as its upper bound) in the
+    time left.  ``stats['auto']`` says what ran and why.
+
+Constructing a homotopy
+-----------------------
+The integer chain of ``start - end`` is the boundary of a unique 2-chain
+``sum c_f f`` vanishing on the holes (with no holes, the one with the
+fewest flips).  The sweep repeatedly picks a face ``f`` with ``c_f != 0`` that
+the current walk runs along (a *run*: consecutive darts of the walk that are
+consecutive darts of f's boundary, with f on the side that reduces
+``|c_f|``) and flips that run to the rest of f's boundary.  When the swept
+region splits, the walk stays one curve: the flip leaves the two pieces
+joined by a path traversed both ways, which later flips and unspikes
+remove.  After every flip all adjacent ``d, d^1`` pairs are unspiked.  At the
+end the walk must reduce to the (reduced) end curve; the reduction of the end
+curve is replayed backwards with spikes, and a point end is reached by moving
+the point along a shortest path (spike + unspike per edge).
+
+Face orders tried: the homology witness order, breadth-first order of the
+dual from the holes, and greedy by the change in length (ties by the
+breadth-first order).  With ``simple=True`` only flips that keep the walk
+simple are used ("peeling"), with no spikes; when none applies, no
+homotopy is reported.  A constructed homotopy that does not end where it
+should (possible with several holes) is discarded.
+
+Infeasibility
+-------------
+Curves are homotopic iff they are equal in the fundamental group of the
+2-complex made of the graph and the non-hole faces, a free group of rank
+``holes - 1`` (trivial with at most one hole).  The group is computed from a
+primal spanning tree (its complement is a spanning tree of the dual); the
+relator of each non-hole face eliminates the dual tree edge to its parent,
+bottom-up from a root hole, so every edge gets a reduced word in the free
+generators (one per non-root hole).  Closed curves are compared by cyclically
+reduced words up to rotation (free homotopy = conjugacy), open curves by the
+reduced word of ``start * end^-1`` (homotopy rel ends).  The variants can only
+be harder: ``simple=True`` with a non-simple start or end curve is
+infeasible; other variant restrictions are left to the search.
+
+References
+----------
+Reidemeister-Schreier / Tietze elimination as in R. C. Lyndon and P. E. Schupp,
+"Combinatorial Group Theory", Springer 1977 (free groups, cyclic reduction and
+conjugacy).  D. Eppstein, "Dynamic generators of topologically embedded
+graphs", SODA 2003 (tree-cotree decompositions).  E. W. Chambers, G. R. Chambers,
+A. de Mesmay, T. Ophelders, R. Rotman, "Constructing monotone homotopies and
+sweepouts", J. Geom. Anal. 2021 (monotone sweeps from a disk boundary suffice).
+G. Brightwell and P. Winkler, "Submodular percolation", SIAM J. Discrete Math.
+23(3), 2009.
+"""
+
+from __future__ import annotations
+
+import heapq
+import math
+import time
+from collections import deque
+from typing import Any, Callable, Sequence
+
+from ..errors import SweepwidthError, UnsupportedOptionError
+from ..problems.homotopy import Curve, HomotopyProblem, apply_move
+from ..result import Result
+
+__all__ = [
+    "homotopy_height",
+    "homotopy_bounds",
+    "homotopy_classes_equal",
+    "construct_homotopy",
+    "METHODS",
+]
+
+METHODS = ("auto", "bounds", "search")
+
+#: 'auto' runs the exact search after the bounds only up to this many sweepable faces
+AUTO_SEARCH_FACES = 40
+#: share of the time limit given to the homology lower bound in 'bounds'
+HOMOLOGY_SHARE = 0.35
+#: homology budget (s) when no time limit is given
+HOMOLOGY_DEFAULT_BUDGET = 20.0
+
+_EPS = 1e-9
+
+
+# ====================================================================== free group
+def _reduce(word: list[int]) -> list[int]:
+    out: list[int] = []
+    for x in word:
+        if out and out[-1] == -x:
+            out.pop()
+        else:
+            out.append(x)
+    return out
+
+
+def _cyclic_reduce(word: list[int]) -> list[int]:
+    w = _reduce(word)
+    a, b = 0, len(w)
+    while b - a >= 2 and w[a] == -w[b - 1]:
+        a += 1
+        b -= 1
+    return w[a:b]
+
+
+def _inverse(word: Sequence[int]) -> list[int]:
+    return [-x for x in reversed(word)]
+
+
+class _FreeGroup:
+    """Words of walks in the fundamental group of graph + non-hole faces (see module docstring)."""
+
+    def __init__(self, problem: HomotopyProblem) -> None:
+        P = problem.graph
+        n, m = P.number_of_vertices(), P.number_of_edges()
+        tail, head = problem.tail, problem.head
+        out: list[list[int]] = [[] for _ in range(n)]
+        for d in range(2 * m):
+            out[tail[d]].append(d)
+        intree = [False] * m
+        seen = [False] * n
+        seen[0] = True
+        queue = deque([0])
+        while queue:
+            v = queue.popleft()
+            for d in out[v]:
+                h = head[d]
+                if not seen[h]:
+                    seen[h] = True
+                    intree[d >> 1] = True
+                    queue.append(h)
+        F = problem.n_faces
+        adj: list[list[int]] = [[] for _ in range(F)]
+        for e in range(m):
+            if not intree[e]:
+                adj[problem.dart_face[2 * e]].append(e)
+                adj[problem.dart_face[2 * e + 1]].append(e)
+        holes = problem.holes
+        root = min(holes) if holes else 0
+        parent_edge = [-1] * F
+        order = [root]
+        fseen = [False] * F
+        fseen[root] = True
+        i = 0
+        while i < len(order):
+            a = order[i]
+            i += 1
+            for e in adj[a]:
+                b = problem.dart_face[2 * e + 1] if problem.dart_face[2 * e] == a else problem.dart_face[2 * e]
+                if not fseen[b]:
+                    fseen[b] = True
+                    parent_edge[b] = e
+                    order.append(b)
+        word: dict[int, list[int]] = {}
+        gens = 0
+        for c in reversed(order[1:]):
+            ep = parent_edge[c]
+            if c in holes:
+                gens += 1
+                word[ep] = [gens]
+                continue
+            rel = [(d >> 1, 1 if d % 2 == 0 else -1) for d in problem.face_walks[c] if not intree[d >> 1]]
+            k = next(x for x, (e, _) in enumerate(rel) if e == ep)
+            eps = rel[k][1]
+            R: list[int] = []
+            for e, sgn in rel[k + 1:] + rel[:k]:
+                R.extend(word[e] if sgn > 0 else _inverse(word[e]))
+            word[ep] = _reduce(_inverse(R)) if eps > 0 else _reduce(R)
+        self.rank = gens
+        self._word = word
+
+    def word(self, darts: Sequence[int]) -> list[int]:
+        out: list[int] = []
+        wd = self._word
+        for d in darts:
+            w = wd.get(d >> 1)
+            if w:
+                out.extend(w if d % 2 == 0 else _inverse(w))
+        return _reduce(out)
+
+
+def homotopy_classes_equal(problem: HomotopyProblem) -> tuple[bool, str]:
+    """Whether the start can reach the end condition at all (topologically), with the reason.
+
+    Closed curves: free homotopy in the plane minus the holes (conjugacy of
+    cyclically reduced words); open curves: homotopy relative to the ends.
+    ``simple=True`` also needs simple start and end curves.
+
+    Returns
+    -------
+    (bool, str)
+
+    Examples
+    --------
+    >>> from sweepwidth.generators import grid
+    >>> from sweepwidth.problems.homotopy import HomotopyProblem
+    >>> P = grid(3, 3)
+    >>> inner = [f for f in P.faces if f != P.outer_face]
+    >>> H = HomotopyProblem.build(P, holes={P.outer_face, inner[0]})
+    >>> homotopy_classes_equal(H)[0]     # the outer boundary winds around the hole
+    False
+    """
+    if problem.simple:
+        if not problem.is_simple(problem.start):
+            return False, "simple homotopy: the start curve is not a simple cycle or path"
+        if problem.end is not None and problem.end.darts and not problem.is_simple(problem.end):
+            return False, "simple homotopy: the end curve is not a simple cycle or path"
+    G = _FreeGroup(problem)
+    w0 = G.word(problem.start.darts)
+    if problem.closed:
+        w1 = [] if problem.end is None else G.word(problem.end.darts)
+        a, b = _cyclic_reduce(w0), _cyclic_reduce(w1)
+        ok = len(a) == len(b) and (not a or any(a[k:] + a[:k] == b for k in range(len(a))))
+        if ok:
+            return True, f"same free homotopy class (fundamental group free of rank {G.rank})"
+        if problem.end is None or not problem.end.darts:
+            return False, (
+                f"the start curve is not contractible in the plane minus the {len(problem.holes)} holes "
+                f"(its cyclically reduced word has {len(a)} letters in a free group of rank {G.rank})"
+            )
+        return False, "start and end are not freely homotopic in the plane minus the holes (words not conjugate)"
+    w = _reduce(w0 + _inverse(G.word(problem.end.darts)))  # type: ignore[union-attr]
+    if not w:
+        return True, f"homotopic relative to the ends (fundamental group free of rank {G.rank})"
+    return False, "start and end paths are not homotopic relative to their ends in the plane minus the holes"
+
+
+# ====================================================================== construction
+def _chain_coefficients(problem: HomotopyProblem, a: Sequence[int], b: Sequence[int]) -> list[int] | None:
+    """``c`` with ``chain(a) - chain(b) = sum c_f boundary(f)``, zero on the holes (None if impossible)."""
+    m = len(problem.tail) // 2
+    x = [0] * m
+    for d in a:
+        x[d >> 1] += 1 if d % 2 == 0 else -1
+    for d in b:
+        x[d >> 1] -= 1 if d % 2 == 0 else -1
+    F = problem.n_faces
+    df = problem.dart_face
+    adj: list[list[int]] = [[] for _ in range(F)]
+    for e in range(m):
+        adj[df[2 * e]].append(e)
+        adj[df[2 * e + 1]].append(e)
+    holes = problem.holes
+    root = min(holes) if holes else 0
+    c: list[int | None] = [None] * F
+    c[root] = 0
+    queue = deque([root])
+    while queue:
+        f = queue.popleft()
+        for e in adj[f]:
+            left, right = df[2 * e], df[2 * e + 1]
+            # coefficient of dart 2e in sum c_g boundary(g) is c_left - c_right
+            if left == f and c[right] is None:
+                c[right] = c[f] - x[e]  # type: ignore[operator]
+                queue.append(right)
+            elif right == f and c[left] is None:
+                c[left] = c[f] + x[e]  # type: ignore[operator]
+                queue.append(left)
+    cc = [int(v or 0) for v in c]
+    for e in range(m):
+        if cc[df[2 * e]] - cc[df[2 * e + 1]] != x[e]:
+            return None
+    if holes:
+        if any(cc[h] != 0 for h in holes):
+            return None
+    else:
+        vals = sorted(cc)
+        med = vals[len(vals) // 2]
+        cc = [v - med for v in cc]
+    return cc
+
+
+class _Run:
+    __slots__ = ("face", "pos", "take", "right", "gain")
+
+    def __init__(self, face: int, pos: int, take: int, right: bool, gain: float) -> None:
+        self.face, self.pos, self.take, self.right, self.gain = face, pos, take, right, gain
+
+
+class _Sweeper:
+    """Greedy face-by-face sweep of one curve (see the module docstring)."""
+
+    def __init__(self, problem: HomotopyProblem, deadline: float | None) -> None:
+        self.H = problem
+        self.deadline = deadline
+        self.face_len = [sum(problem.cost[d] for d in w) for w in problem.face_walks]
+
+    # -- lengths
+    def length(self, darts: Sequence[int]) -> float:
+        return self.H.length_of(darts)
+
+    # -- runs
+    def _succ(self, d: int, f: int, right: bool) -> int:
+        H = self.H
+        B = H.face_walks[f]
+        n = len(B)
+        if right:
+            return B[(H.dart_slot[d ^ 1] - 1) % n] ^ 1
+        return B[(H.dart_slot[d] + 1) % n]
+
+    def runs(self, W: tuple, c: list[int]) -> list[_Run]:
+        H = self.H
+        L = len(W)
+        if L == 0:
+            return []
+        df = H.dart_face
+        cost = H.cost
+        closed = H.closed
+        holes = H.holes
+        found: list[_Run] = []
+        had_start: set = set()
+        present: dict = {}
+        for i in range(L):
+            d = W[i]
+            for f, right in ((df[d ^ 1], True), (df[d], False)):
+                cf = c[f]
+                if cf == 0 or (cf < 0) != right or f in holes:
+                    continue
+                key = (f, right)
+                present.setdefault(key, i)
+                if closed or i > 0:
+                    pd = W[i - 1]
+                    pf = df[pd ^ 1] if right else df[pd]
+                    if pf == f and self._succ(pd, f, right) == d:
+                        continue
+                had_start.add(key)
+                found.append(self._extend(W, i, f, right))
+        for key, i in present.items():
+            if key not in had_start:  # the whole closed walk runs along f
+                found.append(self._extend(W, i, key[0], key[1]))
+        return found
+
+    def _extend(self, W: tuple, i: int, f: int, right: bool) -> _Run:
+        H = self.H
+        L = len(W)
+        n = len(H.face_walks[f])
+        k = 1
+        g = H.cost[W[i]]
+        while k < n and k < L:
+            j = i + k
+            if j >= L:
+                if not H.closed:
+                    break
+                j -= L
+            prev = W[(i + k - 1) % L]
+            if W[j] != self._succ(prev, f, right):
+                break
+            g += H.cost[W[j]]
+            k += 1
+        return _Run(f, i, k, right, g)
+
+    def flip_move(self, W: tuple, run: _Run) -> dict:
+        H = self.H
+        f = run.face
+        B = H.face_walks[f]
+        n = len(B)
+        d0 = W[run.pos]
+        if run.right:
+            j0 = H.dart_slot[d0 ^ 1]
+            O = [B[(j0 - x) % n] ^ 1 for x in range(n)]
+        else:
+            j0 = H.dart_slot[d0]
+            O = [B[(j0 + x) % n] for x in range(n)]
+        rest = O[run.take:]
+        q = [d ^ 1 for d in reversed(rest)]
+        return {"op": "flip", "face": f, "pos": run.pos, "take": run.take, "put": q}
+
+    # -- unspikes
+    def cancel(self, W: tuple, moves: list, trace: list | None) -> tuple[tuple, float]:
+        """Unspike every adjacent d, d^1 pair (recorded); returns the walk and its smallest length on the way."""
+        H = self.H
+        closed = H.closed
+        w = list(W)
+        vertex = H.tail[w[0]] if w else None
+        changed = True
+        while changed and len(w) >= 2:
+            changed = False
+            i = 0
+            while len(w) >= 2 and i < len(w):
+                L = len(w)
+                if i + 1 < L:
+                    j = i + 1
+                elif closed:
+                    j = 0
+                else:
+                    break
+                if w[j] == w[i] ^ 1:
+                    moves.append({"op": "unspike", "pos": i})
+                    vertex = H.tail[w[i]]
+                    if j == i + 1:
+                        del w[i:i + 2]
+                        i = max(i - 1, 0)
+                    else:
+                        w = w[1:L - 1]
+                        i = max(len(w) - 2, 0)
+                    changed = True
+                    if trace is not None:
+                        trace.append(tuple(w))
+                else:
+                    i += 1
+        return tuple(w), vertex  # type: ignore[return-value]
+
+    # -- the sweep
+    def sweep(
+        self,
+        start: Curve,
+        coeff: list[int],
+        rank: Sequence[float],
+        *,
+        greedy: bool,
+        simple: bool,
+    ) -> tuple[Curve, list, float] | None:
+        """Sweep until every coefficient is 0.  Returns (final curve, moves, height) or None."""
+        H = self.H
+        c = list(coeff)
+        if H.monotone and any(abs(v) > 1 for v in c):
+            return None
+        remaining = sum(1 for f, v in enumerate(c) if v != 0)
+        W = start
+        moves: list = []
+        height = self.length(W.darts)
+        use_unspikes = H.spikes and not simple
+        if use_unspikes and W.darts:
+            darts, vtx = self.cancel(W.darts, moves, None)
+            W = Curve(darts, H.tail[darts[0]] if darts else vtx)
+        steps = 0
+        while remaining:
+            steps += 1
+            if self.deadline is not None and (steps & 15) == 0 and time.monotonic() > self.deadline:
+                return None
+            cand = self.runs(W.darts, c)
+            if not cand:
+                return None
+            fl = self.face_len
+            if greedy:
+                cand.sort(key=lambda r: (fl[r.face] - 2 * r.gain, rank[r.face], r.pos))
+            else:
+                cand.sort(key=lambda r: (rank[r.face], fl[r.face] - 2 * r.gain, r.pos))
+            chosen = None
+            for r in cand:
+                mv = self.flip_move(W.darts, r)
+                nw = apply_move(H, W, mv, check=False)
+                if simple:
+                    last = remaining == 1 and abs(c[r.face]) == 1
+                    if not nw.darts and not last:
+                        continue
+                    if nw.darts and not H.is_simple(nw):
+                        continue
+                chosen = (r, mv, nw)
+                break
+            if chosen is None:
+                return None
+            r, mv, W = chosen
+            moves.append(mv)
+            c[r.face] += 1 if r.right else -1
+            if c[r.face] == 0:
+                remaining -= 1
+            height = max(height, self.length(W.darts))
+            if use_unspikes and W.darts:
+                darts, vtx = self.cancel(W.darts, moves, None)
+                W = Curve(darts, H.tail[darts[0]] if darts else vtx)
+        return W, moves, height
+
+
+def _rotation(H: HomotopyProblem, a: Curve, b: Curve) -> int | None:
+    """r with a == b[r:] + b[:r] (closed), 0 when equal (open); None if not."""
+    x, y = a.darts, b.darts
+    if not x or not y:
+        return 0 if (not x and not y and a.vertex == b.vertex) else None
+    if len(x) != len(y):
+        return None
+    if not H.closed:
+        return 0 if x == y else None
+    L = len(y)
+    for r in range(L):
+        if y[r] == x[0] and y[r:] + y[:r] == x:
+            return r
+    return None
+
+
+def _inverse_move(H: HomotopyProblem, before: Curve, mv: dict, after: Curve) -> dict:
+    """A move on ``after`` (exact coordinates) giving ``before`` up to rotation."""
+    W, W2 = before.darts, after.darts
+    L, L2 = len(W), len(W2)
+    closed = H.closed
+
+    def at_end(i: int) -> int:
+        return 0 if (closed and i >= L2) else i
+
+    op = mv["op"]
+    if op == "flip":
+        i, k, q = mv["pos"], mv["take"], list(mv["put"])
+        j = len(q)
+        if i + k <= L:
+            p = list(W[i:i + k])
+            pos = i if j else at_end(i)
+        else:
+            p = list(W[i:]) + list(W[:(i + k) % L])
+            pos = 0
+        return {"op": "flip", "face": mv["face"], "pos": pos, "take": j, "put": p}
+    if op == "spike":
+        return {"op": "unspike", "pos": mv["pos"]}
+    # unspike
+    i = mv["pos"]
+    if i + 2 <= L:
+        return {"op": "spike", "pos": at_end(i), "dart": W[i]}
+    return {"op": "spike", "pos": 0, "dart": W[L - 1]}
+
+
+def _shift(mv: dict, r: int, L: int) -> dict:
+    if r == 0 or L == 0:
+        return mv
+    out = dict(mv)
+    out["pos"] = (mv["pos"] - r) % L
+    return out
+
+
+def _reverse_homotopy(H: HomotopyProblem, start: Curve, moves: list, current: Curve) -> tuple[list, Curve] | None:
+    """Moves from ``current`` (equal to the end of ``moves`` up to rotation) back to ``start``."""
+    curves = [start]
+    for mv in moves:
+        curves.append(apply_move(H, curves[-1], mv, check=False))
+    r = _rotation(H, current, curves[-1])
+    if r is None:
+        return None
+    out = []
+    cur = current
+    for t in range(len(moves), 0, -1):
+        inv = _shift(_inverse_move(H, curves[t - 1], moves[t - 1], curves[t]), r, len(curves[t].darts))
+        cur = apply_move(H, cur, inv, check=False)
+        out.append(inv)
+        r = _rotation(H, cur, curves[t - 1])
+        if r is None:  # pragma: no cover - would be a bug in the inverse moves
+            return None
+    return out, cur
+
+
+def _transport(H: HomotopyProblem, u: int, v: int) -> list | None:
+    """Spike/unspike moves carrying a point from u to v along a shortest path."""
+    if u == v:
+        return []
+    if not H.spikes:
+        return None
+    n = H.graph.number_of_vertices()
+    out: list[list[int]] = [[] for _ in range(n)]
+    for d, a in enumerate(H.tail):
+        out[a].append(d)
+    dist = [math.inf] * n
+    via = [-1] * n
+    dist[u] = 0.0
+    heap = [(0.0, u)]
+    while heap:
+        dd, a = heapq.heappop(heap)
+        if dd > dist[a]:
+            continue
+        if a == v:
+            break
+        for d in out[a]:
+            b = H.head[d]
+            nd = dd + H.cost[d]
+            if nd < dist[b]:
+                dist[b] = nd
+                via[b] = d
+                heapq.heappush(heap, (nd, b))
+    path = []
+    x = v
+    while x != u:
+        d = via[x]
+        path.append(d)
+        x = H.tail[d]
+    moves = []
+    for d in reversed(path):
+        moves.append({"op": "spike", "pos": 0, "dart": d})
+        moves.append({"op": "unspike", "pos": 1})
+    return moves
+
+
+def _bfs_rank(H: HomotopyProblem, seed: int | None = None) -> list[float]:
+    """Breadth-first order of the dual from the holes (random tie-breaking with a seed)."""
+    import random
+
+    rng = random.Random(seed) if seed is not None else None
+    F = H.n_faces
+    df = H.dart_face
+    adj: list[list[int]] = [[] for _ in range(F)]
+    for e in range(len(H.tail) // 2):
+        a, b = df[2 * e], df[2 * e + 1]
+        adj[a].append(b)
+        adj[b].append(a)
+    rank = [math.inf] * F
+    sources = sorted(H.holes) if H.holes else [0]
+    queue = deque(sources)
+    k = 0
+    for s in sources:
+        rank[s] = -1
+    while queue:
+        a = queue.popleft()
+        nb = list(adj[a])
+        if rng is not None:
+            rng.shuffle(nb)
+        for b in nb:
+            if rank[b] == math.inf:
+                rank[b] = k
+                k += 1
+                queue.append(b)
+    return [x if x != math.inf else F + i for i, x in enumerate(rank)]
+
+
+def construct_homotopy(
+    problem: HomotopyProblem,
+    rank: Sequence[float],
+    *,
+    greedy: bool = False,
+    simple: bool | None = None,
+    deadline: float | None = None,
+) -> tuple[float, dict] | None:
+    """Build one homotopy from the problem's start to its end by sweeping faces.
+
+    Parameters
+    ----------
+    problem : HomotopyProblem
+    rank : sequence of float
+        Priority of each face (smaller first); with ``greedy`` only a tie-breaker.
+    greedy : bool
+        Choose the flip that lengthens the walk least.
+    simple : bool, optional
+        Only flips that keep the walk simple, no spikes (default: ``problem.simple``).
+    deadline : float, optional
+        ``time.monotonic()`` value; None is returned when it passes.
+
+    Returns
+    -------
+    (height, witness) or None
+        None when this order does not give a homotopy (stuck, wrong class, deadline).
+
+    Notes
+    -----
+    O(M * L) time for M moves and walks of length at most L.
+
+    Examples
+    --------
+    >>> from sweepwidth.generators import triangulated_grid
+    >>> H = HomotopyProblem.build(triangulated_grid(3))
+    >>> h, wit = construct_homotopy(H, _bfs_rank(H), greedy=True)
+    >>> h >= H.length_of(H.start)
+    True
+    """
+    H = problem
+    simple = H.simple if simple is None else simple
+    end = H.end
+    coeff = _chain_coefficients(H, H.start.darts, end.darts if end is not None else ())
+    if coeff is None:
+        return None
+    S = _Sweeper(H, deadline)
+    res = S.sweep(H.start, coeff, rank, greedy=greedy, simple=simple)
+    if res is None:
+        return None
+    W, moves, height = res
+    if end is not None:
+        if simple:
+            if _rotation(H, W, end) is None:
+                return None
+        else:
+            # reduce the end curve too and replay its reduction backwards
+            red: list = []
+            if H.spikes and end.darts:
+                darts, vtx = S.cancel(end.darts, red, None)
+                R = Curve(darts, H.tail[darts[0]] if darts else vtx)
+            else:
+                R = end
+            if not W.darts and not R.darts and W.vertex != R.vertex:
+                tr = _transport(H, W.vertex, R.vertex)
+                if tr is None:
+                    return None
+                for mv in tr:
+                    W = apply_move(H, W, mv, check=False)
+                    height = max(height, S.length(W.darts))
+                moves.extend(tr)
+            back = _reverse_homotopy(H, end, red, W)
+            if back is None:
+                return None
+            bm, W = back
+            # the replayed reduction passes through the end's reduction backwards
+            moves.extend(bm)
+            height = max(height, _replay_height(H, end, red))
+    elif W.darts:
+        return None
+    witness = {"start": H.to_json(H.start), "moves": moves}
+    return height, witness
+
+
+def _replay_height(H: HomotopyProblem, start: Curve, moves: list) -> float:
+    h = H.length_of(start)
+    c = start
+    for mv in moves:
+        c = apply_move(H, c, mv, check=False)
+        h = max(h, H.length_of(c))
+    return h
+
+
+# ====================================================================== bounds
+def _z2(darts: Sequence[int]) -> set[int]:
+    out: set[int] = set()
+    for d in darts:
+        out ^= {d >> 1}
+    return out
+
+
+def _homology_lower(H: HomotopyProblem, budget: float) -> tuple[float | None, dict, list | None]:
+    """Homology width with the same start/end/holes as a lower bound (closed curves)."""
+    info: dict = {}
+    if not H.closed:
+        info["homology"] = "not used: the homology sweep is defined for cycles, these are paths"
+        return None, info, None
+    try:
+        from .homology import homology_width
+    except ImportError as err:  # pragma: no cover - the homology solver ships with the package
+        info["homology"] = f"not available ({err})"
+        return None, info, None
+    P = H.graph
+    if H.length == "vertices":
+        P = P.with_weights([1.0] * P.number_of_edges())
+    z0 = _z2(H.start.darts)
+    z1 = _z2(H.end.darts) if H.end is not None else set()
+    try:
+        r = homology_width(P, start=z0, end=z1, holes=sorted(H.holes), time_limit=max(budget, 0.5))
+    except SweepwidthError as err:
+        info["homology"] = f"failed: {err}"
+        return None, info, None
+    info["homology"] = {"status": r.status, "lower": r.lower, "upper": r.upper, "method": r.method,
+                        "seconds": round(r.seconds, 3)}
+    if r.status == "infeasible" or r.lower is None:
+        return None, info, None
+    order = list(r.witness) if isinstance(r.witness, (list, tuple)) else None
+    return float(r.lower), info, order
+
+
+def homotopy_bounds(
+    problem: HomotopyProblem,
+    *,
+    deadline: float | None = None,
+    seed: int | None = None,
+    homology_budget: float | None = None,
+) -> dict:
+    """Proven lower bound, best constructed homotopy and how each was obtained.
+
+    Parameters
+    ----------
+    problem : HomotopyProblem
+    deadline : float, optional
+        ``time.monotonic()`` value for the whole computation.
+    seed : int, optional
+        Adds a breadth-first order with random tie-breaking.
+    homology_budget : float, optional
+        Seconds for the homology lower bound (default: a share of the time left).
+
+    Returns
+    -------
+    dict
+        ``lower``, ``upper`` (None if no homotopy was built), ``witness``,
+        ``bounds`` (sources), ``orders`` (height per face order tried), ``homology``.
+
+    Examples
+    --------
+    >>> from sweepwidth.generators import wheel
+    >>> b = homotopy_bounds(HomotopyProblem.build(wheel(5)))
+    >>> b["lower"] <= b["upper"]
+    True
+    """
+    H = problem
+    t0 = time.monotonic()
+    left = None if deadline is None else deadline - t0
+    if homology_budget is None:
+        homology_budget = HOMOLOGY_DEFAULT_BUDGET if left is None else max(0.2, HOMOLOGY_SHARE * left)
+    trivial = max(H.length_of(H.start), H.length_of(H.end) if H.end is not None else 0.0)
+    lower = trivial
+    sources = {"lower": "length of the start and end curves"}
+    hl, info, horder = _homology_lower(H, homology_budget)
+    if hl is not None:
+        extra = 1.0 if (H.length == "vertices" and not H.closed) else 0.0
+        if hl + extra > lower:
+            lower = hl + extra
+            sources["lower"] = "homology sweep width (reduce every walk mod 2)"
+    F = H.n_faces
+    orders: list[tuple[str, Sequence[float], bool]] = []
+    bfs = _bfs_rank(H)
+    if horder:
+        hr = [float(F + f) for f in range(F)]
+        for k, f in enumerate(horder):
+            if isinstance(f, int) and 0 <= f < F and hr[f] >= F:
+                hr[f] = float(k)
+        orders.append(("homology order", hr, False))
+    orders.append(("greedy by length", bfs, True))
+    orders.append(("breadth-first from the holes", bfs, False))
+    if seed is not None:
+        orders.append((f"greedy, random breadth-first ties (seed {seed})", _bfs_rank(H, seed), True))
+    best: tuple[float, dict] | None = None
+    best_name = None
+    tried: dict = {}
+    modes = [H.simple]
+    if not H.simple and not H.spikes:
+        modes.append(True)  # peeling needs no spikes
+    for name, rank, greedy in orders:
+        for simple in modes:
+            if deadline is not None and time.monotonic() > deadline:
+                tried[name] = "skipped (time limit)"
+                continue
+            label = name + (" (peeling)" if simple and not H.simple else "")
+            got = construct_homotopy(H, rank, greedy=greedy, simple=simple, deadline=deadline)
+            tried[label] = None if got is None else got[0]
+            if got is not None and (best is None or got[0] < best[0] - _EPS):
+                best, best_name = got, label
+    if best is not None:
+        sources["upper"] = f"constructed homotopy ({best_name})"
+    else:
+        sources["upper"] = "no homotopy constructed"
+    return {
+        "lower": lower,
+        "upper": None if best is None else best[0],
+        "witness": None if best is None else best[1],
+        "bounds": sources,
+        "orders": tried,
+        "homology": info.get("homology"),
+        "seconds": time.monotonic() - t0,
+    }
+
+
+# ====================================================================== search
+def _search_child(problem: HomotopyProblem, kw: dict, *, progress: Callable) -> Any:
+    from .homotopy_search import search_homotopy
+
+    return search_homotopy(problem, progress=progress, **kw)
+
+
+def _run_search(H: HomotopyProblem, deadline: float | None, upper: float | None, witness: dict | None,
+                lower: float | None) -> tuple[Any, str]:
+    """Run the exact search (child process under a deadline); (outcome or None, note)."""
+    try:
+        from . import homotopy_search  # noqa: F401
+    except ImportError as err:
+        return None, f"exact search not available ({err})"
+    from ._deadline import run_limited
+
+    kw = {"upper": upper, "upper_witness": witness, "lower": lower, "deadline": deadline}
+    if deadline is None:
+        done, value, reports = run_limited(_search_child, (H, kw), deadline=None)
+    else:
+        done, value, reports = run_limited(_search_child, (H, kw), deadline=deadline + 0.4)
+    if done:
+        return value, "finished"
+    if reports:
+        return reports[-1], "stopped at the time limit (best reported bounds)"
+    return None, "stopped at the time limit before reporting"
+
+
+# ====================================================================== dispatcher
+def _validate(P: Any, method: str, time_limit: Any, seed: Any) -> None:
+    if not hasattr(P, "face_darts") or not hasattr(P, "outer_face"):
+        raise SweepwidthError(f"homotopy_height needs a PlaneGraph, got {type(P).__name__}")
+    if method not in METHODS:
+        raise UnsupportedOptionError("method", method, list(METHODS))
+    if time_limit is not None:
+        if isinstance(time_limit, bool) or not isinstance(time_limit, (int, float)) or not time_limit > 0 \
+                or math.isnan(time_limit):
+            raise SweepwidthError(f"time_limit must be a positive number of seconds or None, got {time_limit!r}")
+    if seed is not None and (isinstance(seed, bool) or not isinstance(seed, int)):
+        raise SweepwidthError(f"seed must be an integer or None, got {seed!r}")
+
+
+def _summary(H: HomotopyProblem) -> dict:
+    def one(c: Curve | None) -> Any:
+        if c is None:
+            return "a point anywhere"
+        return {"darts": len(c.darts), "length": H.length_of(c), "vertex": H.graph.label(c.vertex)}
+
+    return {"holes": sorted(H.holes), "start": one(H.start), "end": one(H.end)}
+
+
+def homotopy_height(
+    P: Any,
+    *,
+    start: Any = None,
+    end: Any = None,
+    spikes: bool = True,
+    simple: bool = False,
+    monotone: bool = False,
+    length: str = "weight",
+    holes: Any = None,
+    s: Any = None,
+    t: Any = None,
+    method: str = "auto",
+    time_limit: float | None = None,
+    seed: int | None = None,
+) -> Result:
+    """The discrete homotopy height of a plane graph, exact or with proven bounds, with a witness.
+
+    A homotopy moves a closed walk (or a walk from ``s`` to ``t``) by face
+    flips, spikes and unspikes; its height is the largest walk length along it.
+    This computes the least height from ``start`` to the end condition.
+
+    Parameters
+    ----------
+    P : PlaneGraph
+    start, end : curve, optional
+        Dart lists, vertex lists or ``{"vertex": v, "darts": [...]}`` (see
+        :mod:`sweepwidth.problems.homotopy`).  Default: the outer boundary to a
+        point anywhere; with ``s`` and ``t``: the outer boundary path from s to t
+        one way to the other way.
+    spikes : bool
+        Allow spike and unspike moves.
+    simple : bool
+        Every walk but a final point must be a simple cycle (path).
+    monotone : bool
+        Each face flipped at most once.
+    length : {'weight', 'vertices'}
+        Edge weights, or vertices visited (graph-drawing convention).
+    holes : collection of face ids, optional
+        Faces never flipped; default ``{P.outer_face}``.
+    s, t : vertex labels, optional
+        Fixed ends (on the outer face) of open walks.
+    method : {'auto', 'bounds', 'search'}
+        See the module docstring.
+    time_limit : float, optional
+        Seconds; the answer comes within about a second of it ('bounded' with
+        the best witness when the optimum is not proved).
+    seed : int, optional
+        Adds a randomised face order to the constructions.
+
+    Returns
+    -------
+    Result
+        ``parameter='homotopy'``; ``witness = {"start": walk, "moves": [...]}``;
+        ``stats`` holds ``options`` (what the checker replays against),
+        ``holes``, ``start``, ``end``, ``bounds`` (how each bound was obtained),
+        ``orders`` and, for 'auto', ``auto``.  Not homotopic: status
+        'infeasible' with ``stats['reason']``.
+
+    Raises
+    ------
+    InvalidCurveError
+        A start or end that is not a walk of P, s or t off the outer face.
+    UnsupportedOptionError
+        Unknown method or length convention.
+    SweepwidthError
+        Bad holes, time limit or seed; method 'search' when it is not installed.
+
+    Notes
+    -----
+    'bounds' runs in O(F * L) per face order for F faces and walks of length
+    at most L, plus the homology bound's budget.  'search' is exponential.
+
+    Examples
+    --------
+    >>> from sweepwidth.generators import wheel
+    >>> r = homotopy_height(wheel(4), method="bounds")
+    >>> r.lower <= r.upper, r.check(wheel(4)) == r.upper
+    (True, True)
+    """
+    t0 = time.monotonic()
+    _validate(P, method, time_limit, seed)
+    H = HomotopyProblem.build(P, start=start, end=end, spikes=spikes, simple=simple, monotone=monotone,
+                              length=length, holes=holes, s=s, t=t)
+    deadline = None if time_limit is None else t0 + float(time_limit)
+    stats: dict = {"options": H.options(), **_summary(H), "seed": seed}
+    ok, reason = homotopy_classes_equal(H)
+    if not ok:
+        stats["reason"] = reason
+        return Result("homotopy", "infeasible", None, None, None, None, method=method,
+                      seconds=time.monotonic() - t0, stats=stats)
+    stats["feasibility"] = reason
+    lower: float = max(H.length_of(H.start), H.length_of(H.end) if H.end is not None else 0.0)
+    upper: float | None = None
+    witness: dict | None = None
+    bounds = {"lower": "length of the start and end curves", "upper": "none"}
+    used = method
+    infeasible_reason = None
+
+    if method in ("auto", "bounds"):
+        sub = None if deadline is None else t0 + (float(time_limit) if method == "bounds" else 0.6 * float(time_limit))
+        b = homotopy_bounds(H, deadline=sub, seed=seed)
+        lower, upper, witness = b["lower"], b["upper"], b["witness"]
+        bounds = dict(b["bounds"])
+        stats["orders"] = b["orders"]
+        stats["homology"] = b["homology"]
+        used = "bounds"
+    if method == "search" or (method == "auto" and (upper is None or upper - lower > _EPS)):
+        why = None
+        if method == "auto":
+            nf = len(H.sweepable_faces)
+            if nf > AUTO_SEARCH_FACES:
+                why = f"exact search skipped: {nf} sweepable faces > {AUTO_SEARCH_FACES}"
+            elif deadline is not None and time.monotonic() > deadline - 0.2:
+                why = "exact search skipped: no time left"
+        if why is None:
+            out, note = _run_search(H, deadline, upper, witness, lower)
+            if out is None:
+                if method == "search":
+                    raise SweepwidthError(f"method 'search': {note}")
+                why = note
+            else:
+                used = "search" if method == "search" else "bounds+search"
+                stats["search"] = {"note": note, **{k: v for k, v in dict(out.stats).items()
+                                                    if isinstance(v, (int, float, str, bool))}}
+                if out.lower is not None and out.lower > lower + _EPS:
+                    lower = float(out.lower)
+                    bounds["lower"] = "exact search (bottleneck levels settled)"
+                if out.upper is not None and out.witness is not None and (upper is None or out.upper < upper - _EPS):
+                    upper, witness = float(out.upper), out.witness
+                    bounds["upper"] = "exact search witness"
+                if out.optimal and out.upper is not None:
+                    lower = max(lower, float(out.upper))
+                if out.upper is None and dict(out.stats).get("infeasible"):
+                    infeasible_reason = dict(out.stats).get("reason") or "exhaustive search: no homotopy under these rules"
+                why = f"exact search: {note}"
+        if method == "auto":
+            stats["auto"] = why or "bounds closed the gap"
+    elif method == "auto":
+        stats["auto"] = "the bounds met: no search needed"
+    stats["bounds"] = bounds
+    seconds = time.monotonic() - t0
+    if infeasible_reason is not None and upper is None:
+        stats["reason"] = infeasible_reason
+        return Result("homotopy", "infeasible", None, None, None, None, method=used, seconds=seconds, stats=stats)
+    if upper is not None and lower > upper:
+        lower = upper  # pragma: no cover - would mean a wrong bound; keep the result valid
+    if upper is not None and upper - lower <= _EPS:
+        return Result("homotopy", "optimal", upper, upper, upper, witness, method=used, seconds=seconds, stats=stats)
+    return Result("homotopy", "bounded", None, lower, upper, witness, method=used, seconds=seconds, stats=stats)
