@@ -95,7 +95,7 @@ class Scene:
             poly = self.g.face_polygon(f)
             if len(poly) >= 3:
                 self.ax.add_patch(Polygon(poly, closed=True, facecolor="none", edgecolor=PALETTE["move"],
-                                          hatch="..", linewidth=0, zorder=self.Z_SHADE))
+                                          hatch=".", linewidth=0, zorder=self.Z_SHADE))
 
     def edges(self, weights: bool | str = True, colour: str | None = None, width: float | None = None) -> None:
         """All edges (curves for parallels and loops) and, optionally, their weights."""
@@ -147,9 +147,10 @@ class Scene:
             self.ax.scatter(mxy[:, 0], mxy[:, 1], s=size * 2.6, facecolors="none", edgecolors=PALETTE["move"],
                             linewidths=2.0, zorder=self.Z_VERTEX)
         if labels:
-            fs = float(np.clip(10.0 - 0.03 * len(vs), 5.0, 8.5))
-            for v, p in zip(vs, xy):
-                txt = "".join(str(v).split()) if isinstance(v, tuple) else str(v)
+            texts = [",".join(str(x) for x in v) if isinstance(v, tuple) else str(v) for v in vs]
+            longest = max((len(t) for t in texts), default=1)
+            fs = float(np.clip(10.0 - 0.03 * len(vs), 5.0, 8.5)) * (1.0 if longest <= 2 else 2.0 / longest + 0.2)
+            for v, p, txt in zip(vs, xy, texts):
                 self.ax.text(p[0], p[1], txt, fontsize=fs, ha="center", va="center", zorder=self.Z_TEXT,
                              color=PALETTE["ink"] if v not in filled else "white")
 

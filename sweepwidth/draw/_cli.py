@@ -1,0 +1,185 @@
+"""The picture behind ``sweepwidth draw``: one call from a file name to a written picture."""
+
+from __future__ import annotations
+
+import json
+import os
+from typing import Any
+
+import networkx as nx
+
+from ..errors import FileFormatError, SweepwidthError, UnsupportedOptionError
+from ..plane import PlaneGraph
+
+__all__ = ["render_cli", "load_result", "QUICK_LIMIT"]
+
+#: seconds given to the solver when no saved result is passed
+QUICK_LIMIT = 10.0
+
+_PARAMS = ("cutwidth", "homology", "homotopy")
+_EXTS = (".png", ".svg", ".gif")
+
+
+def load_result(path: str | os.PathLike) -> Any:
+    """A Result from a JSON file: a ``Result.to_dict()``, possibly wrapped as ``{"result": {...}, ...}``.
+
+    Raises
+    ------
+    FileFormatError
+        A missing or unreadable file, or JSON that holds no result.
+    """
+    from ..result import Result
+
+    path = os.fspath(path)
+    try:
+        with open(path, encoding="utf-8") as fh:
+            doc = json.load(fh)
+    except OSError as err:
+        raise FileFormatError(f"cannot read the result file: {err.strerror or err}", path=path) from err
+    except json.JSONDecodeError as err:
+        raise FileFormatError(f"not JSON: {err.msg}", path=path, line=err.lineno) from err
+    body = doc
+    if isinstance(doc, dict) and "parameter" not in doc and isinstance(doc.get("result"), dict):
+        body = doc["result"]
+    if not isinstance(body, dict) or "parameter" not in body or "status" not in body:
+        raise FileFormatError("expected a result object with 'parameter' and 'status'", path=path)
+    try:
+        return Result.from_dict(body)
+    except (KeyError, TypeError, ValueError) as err:
+        raise FileFormatError(f"not a valid result: {err}", path=path) from err
+
+
+def _solve(obj: Any, param: str, dual: bool) -> Any:
+    if param == "cutwidth":
+        from ..solve.cutwidth import cutwidth as solver
+
+        target = obj.dual() if (dual and isinstance(obj, PlaneGraph)) else obj
+        return solver(target, time_limit=QUICK_LIMIT)
+    if not isinstance(obj, PlaneGraph):
+        raise SweepwidthError(f"{param} needs a plane graph; the file holds a graph without an embedding")
+    if param == "homology":
+        from ..solve.homology import homology_width as solver
+    else:
+        from ..solve.homotopy import homotopy_height as solver
+    return solver(obj, time_limit=QUICK_LIMIT)
+
+
+def render_cli(
+    path: str | os.PathLike,
+    *,
+    param: str | None = None,
+    result: str | os.PathLike | None = None,
+    out: str | os.PathLike,
+    dual: bool = False,
+    frames: int | bool | None = False,
+) -> str:
+    """Read an instance, get a sweep (saved or solved quickly) and write its picture.
+
+    Parameters
+    ----------
+    path : str or path-like
+        An instance file readable by :func:`sweepwidth.read`.
+    param : {'cutwidth', 'homology', 'homotopy'}, optional
+        The parameter to show; taken from ``result`` when omitted.  Without
+        both, the embedding alone is drawn.
+    result : str or path-like, optional
+        A saved result (JSON of ``Result.to_dict()``, or a document holding it
+        under ``"result"``).  Without it the library's 'auto' method runs with
+        a time limit of :data:`QUICK_LIMIT` seconds.
+    out : str or path-like
+        The picture: ``.png`` or ``.svg`` (a still: the embedding at the widest
+        step beside the width profile, or a sheet of frames), or ``.gif`` (an
+        animation, one frame per step).
+    dual : bool
+        Overlay the dual; for cutwidth of a plane graph, sweep its dual (the
+        ordering is of faces).
+    frames : int or bool
+        For stills, a sheet of this many frames instead of one picture
+        (``True``: up to 12); for a GIF, at most this many frames.
+
+    Returns
+    -------
+    str
+        The path written.
+
+    Raises
+    ------
+    SweepwidthError
+        Unknown parameter or extension (the valid ones listed), a result about
+        another parameter, a GIF without a sweep, or a file that cannot be read.
+    """
+    from ._replay import peak_step, sweep_states
+    from ._style import new_figure, require_matplotlib
+
+    require_matplotlib()
+    out = os.fspath(out)
+    ext = os.path.splitext(out)[1].lower()
+    if ext not in _EXTS:
+        raise UnsupportedOptionError("picture extension", ext or out, list(_EXTS))
+    if param is not None and param not in _PARAMS:
+        raise UnsupportedOptionError("parameter", param, list(_PARAMS))
+    from ..io import read
+
+    obj = read(path)
+    res = load_result(result) if result is not None else None
+    if res is not None:
+        if param is not None and res.parameter != param:
+            raise SweepwidthError(f"the result is about {res.parameter!r}, not {param!r}")
+        param = res.parameter
+    n_frames = 12 if frames is True else (int(frames) if frames else 0)
+    if param is None:
+        if ext == ".gif":
+            raise SweepwidthError("an animation needs a sweep: give --param or --result")
+        P = obj if isinstance(obj, PlaneGraph) else PlaneGraph.from_graph(obj)
+        from ._draw import draw
+
+        ax = draw(P, dual=dual, labels=P.number_of_vertices() <= 40, title=P.meta.get("name"))
+        ax.figure.savefig(out, dpi=ax.figure.dpi)
+        return out
+    if res is None:
+        res = _solve(obj, param, dual)
+    if res.witness is None:
+        raise SweepwidthError(f"the {param} result ({res.status}) has no witness to draw")
+    on = "faces" if (dual and param == "cutwidth") else "auto"
+    if param == "cutwidth" and isinstance(obj, nx.Graph):
+        try:
+            P = PlaneGraph.from_graph(obj)
+        except SweepwidthError:
+            P = None
+        if P is None:
+            if ext == ".gif" or n_frames:
+                raise SweepwidthError("frames of a cutwidth ordering need a planar graph; write a .png profile")
+            from ._profile import width_profile
+
+            ax = width_profile(res, obj)
+            ax.figure.savefig(out, dpi=ax.figure.dpi)
+            return out
+    else:
+        P = obj
+    labels = P.number_of_vertices() <= 30
+    if ext == ".gif":
+        from ._sweep import sweep_animation
+
+        return sweep_animation(P, res, out, on=on, labels=labels, max_frames=n_frames or None)
+    if n_frames:
+        from ._sweep import sweep_frames
+
+        fig = sweep_frames(P, res, max_frames=n_frames, on=on, labels=labels)
+        fig.savefig(out, dpi=fig.dpi)
+        return out
+    # a still: the widest moment beside the width profile
+    from ._profile import width_profile
+    from ._sweep import _headline, _holes, draw_state
+
+    states = sweep_states(P, res, on=on)
+    peak = peak_step([s.length for s in states])
+    fig = new_figure((11.0, 5.2), 100)
+    ax1 = fig.add_axes((0.01, 0.03, 0.5, 0.84))
+    ax2 = fig.add_axes((0.58, 0.18, 0.4, 0.6))
+    sc = draw_state(P, states[peak], ax=ax1, holes=_holes(P, res), labels=labels, weights=True, peak=True)
+    if dual:
+        sc.dual()
+    width_profile(res, P, ax=ax2, on=on)
+    fig.suptitle(_headline(res) + (f"  -  {P.meta['name']}" if P.meta.get("name") else ""), fontsize=11)
+    fig.savefig(out, dpi=fig.dpi)
+    return out
