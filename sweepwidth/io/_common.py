@@ -58,15 +58,20 @@ def located(err: SweepwidthError, path: Any, where: str | None = None) -> Sweepw
 
 _SCALARS = (str, int, float, bool, type(None))
 
+#: deepest nesting of arrays accepted in a label (guards the recursion)
+MAX_LABEL_DEPTH = 32
 
-def encode_label(v: Hashable, where: str = "vertex label") -> Any:
+
+def encode_label(v: Hashable, where: str = "vertex label", _depth: int = 0) -> Any:
     """A JSON value for a vertex label: tuples become arrays, recursively.
 
     Strings, integers, finite floats, booleans and None are kept; anything
     else raises SweepwidthError.
     """
     if isinstance(v, tuple):
-        return [encode_label(x, where) for x in v]
+        if _depth >= MAX_LABEL_DEPTH:
+            raise SweepwidthError(f"{where} nests tuples more than {MAX_LABEL_DEPTH} deep")
+        return [encode_label(x, where, _depth + 1) for x in v]
     if isinstance(v, float) and not math.isfinite(v):
         raise SweepwidthError(f"{where} {v!r} is not finite and cannot be written to JSON")
     if isinstance(v, _SCALARS):
@@ -86,10 +91,12 @@ def encode_label(v: Hashable, where: str = "vertex label") -> Any:
     )
 
 
-def decode_label(x: Any, *, path: Any = None, where: str = "vertex label") -> Hashable:
-    """The label for a JSON value: arrays become tuples, recursively."""
+def decode_label(x: Any, *, path: Any = None, where: str = "vertex label", _depth: int = 0) -> Hashable:
+    """The label for a JSON value: arrays become tuples, recursively (at most 32 levels)."""
     if isinstance(x, list):
-        return tuple(decode_label(y, path=path, where=where) for y in x)
+        if _depth >= MAX_LABEL_DEPTH:
+            fail(f"{where} nests arrays more than {MAX_LABEL_DEPTH} deep", path=path)
+        return tuple(decode_label(y, path=path, where=where, _depth=_depth + 1) for y in x)
     if isinstance(x, float) and not math.isfinite(x):
         fail(f"{where} is {x!r}; expected a finite number, a string or an array", path=path)
     if isinstance(x, _SCALARS):
