@@ -1,0 +1,439 @@
+"""The homology sweep width of a plane graph: Z2 sweeps, face by face.
+
+Definition
+----------
+Let ``P`` be a plane graph with edge weights, ``c0`` and ``c1`` Z2 cycles
+(edge sets with even degree at every vertex) and ``H`` a set of *hole*
+faces (default: the outer face).  A *homology sweep* from ``c0`` to ``c1``
+lists the faces of a set ``S`` disjoint from ``H`` with ``dS = c0 + c1``
+(``dS``: the edges with a face of ``S`` on exactly one side) in some order
+``f_1, ..., f_s``; the cycle after ``i`` steps is
+``c_i = c0 + d{f_1..f_i}`` and the width of the sweep is the largest weight
+of ``c_0, ..., c_s``.  The *homology sweep width* is the least width.  When
+no such ``S`` exists (holes on both sides of ``c0 + c1``) the start and end
+are not homologous in the complement of the holes and the answer is
+'infeasible'.  Without holes there are two choices of ``S`` (complements);
+both are solved and the better one wins.
+
+From the outer boundary of a disk to nothing (the default), ``S`` is the set
+of inner faces and the width is the cutwidth of the dual graph with the outer
+face's dual vertex pinned first.  In general the weight of ``c0 + dT`` for
+``T`` a subset of ``S`` is a constant plus a pinned cut in a small graph on
+``S`` (:class:`~sweepwidth.problems.cycles.FaceSweep`) *unless* some edge of
+``c0`` has faces of ``S`` on both sides (a *crossing* sweep: such an edge is
+present while both or neither of its faces are toggled, which is no cut).
+
+A *non-monotone* sweep may toggle faces several times (any path of face sets
+from the empty set to ``S``); ``monotone=False`` computes the least width of
+those.  By Brightwell and Winkler's submodular percolation theorem it never
+beats the monotone width when the weight is a cut function (nested sweeps,
+in particular from a disk boundary); for crossing sweeps it can.
+
+Methods
+-------
+=============  ============================================================
+'auto'         per swept set: nothing to sweep -> trivial; nested with at
+               most ``dp_limit`` (16) faces -> 'subset-dp'; nested -> 'cutwidth';
+               crossing and the subset tables fit the memory and time ->
+               'subset-dp'; crossing otherwise -> 'cutwidth' (bounded).
+               ``monotone=False`` -> 'face-sets'.
+'cutwidth'     the reduction to pinned cutwidth, solved by
+               :func:`sweepwidth.cutwidth` (the cutwidth engine) under the
+               time limit; exact for nested sweeps.  For crossing sweeps the
+               engine solves the relaxation without the crossing edges
+               (a lower bound) and its ordering, re-evaluated exactly, and a
+               greedy sweep give the upper bound.
+'subset-dp'    exact monotone subset DP over ``2^|S|`` face sets
+               (:func:`~sweepwidth.solve.face_sets.monotone_sweep`).
+'face-sets'    exact non-monotone search over ``2^(faces - holes)`` toggle
+               states (:func:`~sweepwidth.solve.face_sets.toggle_search`).
+=============  ============================================================
+
+References
+----------
+.. [1] G. Brightwell and P. Winkler, "Submodular percolation", SIAM J.
+   Discrete Math. 23(3), 2009.
+.. [2] E. W. Chambers, G. R. Chambers, A. de Mesmay, T. Ophelders and
+   R. Rotman, "Constructing monotone homotopies and sweepouts", J. Geom.
+   Anal. 31, 2021 (arXiv 1704.06175).
+.. [3] F. Gavril, "Some NP-complete problems on graphs", Proc. 11th Conf.
+   on Information Sciences and Systems, 1977 (cutwidth is NP-hard).
+"""
+
+from __future__ import annotations
+
+import math
+import numbers
+import time
+from typing import Any, Callable
+
+from ..errors import ProblemTooLargeError, SweepwidthError, UnsupportedOptionError
+from ..problems.cycles import FaceSweep, HomologyProblem, cycle_weight
+from ..result import Result
+from .face_sets import (
+    MAX_MONOTONE_FACES,
+    MAX_TOGGLE_FACES,
+    estimate_seconds,
+    greedy_sweep,
+    monotone_sweep,
+    toggle_search,
+)
+
+__all__ = ["homology_width", "METHODS", "OPTIONS"]
+
+METHODS = ("auto", "cutwidth", "subset-dp", "face-sets")
+
+#: extra keyword options and what they do
+OPTIONS = {
+    "dp_limit": "'auto' uses the subset DP for nested sweeps of at most this many faces (default 16)",
+    "max_faces": "largest face count for 'subset-dp' / 'face-sets' (defaults: module limits)",
+    "cutwidth_method": "method passed to sweepwidth.cutwidth (default 'auto')",
+}
+
+_DP_LIMIT = 16
+_EPS = 1e-9
+
+
+def _close(a: float, b: float) -> bool:
+    return abs(a - b) <= _EPS * max(1.0, abs(a), abs(b))
+
+
+def _left(deadline: float | None) -> float:
+    return math.inf if deadline is None else deadline - time.monotonic()
+
+
+def _validate(method: Any, time_limit: Any, seed: Any, monotone: Any, options: dict) -> None:
+    if method not in METHODS:
+        raise UnsupportedOptionError("homology method", method, list(METHODS))
+    if time_limit is not None:
+        if isinstance(time_limit, bool) or not isinstance(time_limit, numbers.Real) or not time_limit > 0:
+            raise SweepwidthError(f"time_limit must be a positive number of seconds or None, got {time_limit!r}")
+    if seed is not None and (isinstance(seed, bool) or not isinstance(seed, numbers.Integral)):
+        raise SweepwidthError(f"seed must be an integer or None, got {seed!r}")
+    if not isinstance(monotone, bool):
+        raise SweepwidthError(f"monotone must be True or False, got {monotone!r}")
+    for k in options:
+        if k not in OPTIONS:
+            raise UnsupportedOptionError("homology_width option", k, sorted(OPTIONS))
+    if not monotone and method not in ("auto", "face-sets"):
+        raise SweepwidthError(
+            f"method {method!r} sweeps each face once; use method='face-sets' (or 'auto') with monotone=False"
+        )
+    for k in ("dp_limit", "max_faces"):
+        if k in options:
+            v = options[k]
+            if isinstance(v, bool) or not isinstance(v, numbers.Integral) or v < 0:
+                raise SweepwidthError(f"{k} must be a non-negative integer, got {v!r}")
+
+
+class _Outcome:
+    """Bounds and a face order for one swept set."""
+
+    __slots__ = ("lower", "upper", "order", "method", "info")
+
+    def __init__(self, lower: float, upper: float, order: list[int], method: str, info: dict) -> None:
+        self.lower = min(lower, upper)
+        self.upper = upper
+        self.order = order
+        self.method = method
+        self.info = info
+
+
+def _by_cutwidth(fs: FaceSweep, deadline: float | None, seed: int | None, floor: float, options: dict) -> _Outcome:
+    """Reduce to the cutwidth engine (exact for nested sweeps, a relaxation otherwise)."""
+    from .cutwidth import cutwidth
+
+    nested = fs.nested
+    info: dict[str, Any] = {"nested": nested}
+    gw, gorder = greedy_sweep(fs, seed=seed)
+    info["greedy_width"] = gw
+    left = _left(deadline)
+    if left <= 0.05:
+        info["bounds"] = {"lower": "weights of start and end", "upper": "greedy sweep"}
+        info["cutwidth"] = "skipped: no time left"
+        return _Outcome(floor, gw, gorder, "cutwidth", info)
+    G, first, last = fs.ordering_graph(drop_anti=not nested)
+    r = cutwidth(
+        G,
+        first=[first],
+        last=[last],
+        weight="weight",
+        seed=seed,
+        time_limit=None if deadline is None else max(0.05, left),
+        method=options.get("cutwidth_method", "auto"),
+    )
+    order = [v for v in r.witness if v != first and v != last]
+    prof = fs.profile(order)
+    width = max(prof)
+    lower = floor
+    if r.lower is not None:
+        lower = max(lower, fs.const + float(r.lower))
+    info["cutwidth"] = {
+        "status": r.status,
+        "lower": r.lower,
+        "upper": r.upper,
+        "method": r.method,
+        "seconds": round(r.seconds, 4),
+        "vertices": G.number_of_nodes(),
+        "edges": G.number_of_edges(),
+        "constant": fs.const,
+    }
+    if nested and r.upper is not None and not _close(width, fs.const + float(r.upper)):  # pragma: no cover
+        raise SweepwidthError(
+            f"internal error: the cutwidth ordering re-evaluates to {width} instead of {fs.const + float(r.upper)}"
+        )
+    if gw < width - _EPS:
+        width, order = gw, gorder
+        up_how = "greedy sweep"
+    else:
+        up_how = "cutwidth engine ordering" + ("" if nested else " (re-evaluated with the crossing edges)")
+    low_how = "cutwidth engine lower bound + constant" + ("" if nested else " (relaxation without the crossing edges)")
+    info["bounds"] = {"lower": low_how, "upper": up_how}
+    return _Outcome(lower, width, order, "cutwidth", info)
+
+
+def _by_dp(fs: FaceSweep, max_faces: int | None) -> _Outcome:
+    w, order = monotone_sweep(fs, max_faces=max_faces)
+    return _Outcome(w, w, order, "subset-dp", {"nested": fs.nested, "states": 2**fs.k, "bounds": "exact subset DP"})
+
+
+def _solve_swept(
+    problem: HomologyProblem,
+    S: frozenset,
+    method: str,
+    deadline: float | None,
+    seed: int | None,
+    options: dict,
+) -> tuple[_Outcome, dict]:
+    P = problem.graph
+    fs = FaceSweep.build(P, problem.start, S)
+    floor = max(cycle_weight(P, problem.start), cycle_weight(P, problem.end))
+    k = fs.k
+    auto: dict[str, str] = {}
+    if k == 0:
+        w = fs.start_weight
+        return _Outcome(w, w, [], "trivial", {"nested": True, "bounds": "nothing to sweep"}), {
+            "choice": "trivial",
+            "reason": "start equals end on the non-hole faces",
+        }
+    max_faces = options.get("max_faces")
+    if method == "auto":
+        dp_limit = int(options.get("dp_limit", _DP_LIMIT))
+        cap = MAX_MONOTONE_FACES if max_faces is None else int(max_faces)
+        fits = k <= cap and estimate_seconds(k) <= min(_left(deadline), 60.0)
+        if fs.nested and k <= dp_limit and fits:
+            method, auto = "subset-dp", {"choice": "subset-dp", "reason": f"nested sweep of {k} faces (<= {dp_limit})"}
+        elif fs.nested:
+            method, auto = "cutwidth", {"choice": "cutwidth", "reason": f"nested sweep of {k} faces: pinned cutwidth of the dual"}
+        elif fits:
+            method, auto = "subset-dp", {"choice": "subset-dp", "reason": f"crossing sweep of {k} faces: exact subset DP fits"}
+        else:
+            method, auto = "cutwidth", {
+                "choice": "cutwidth",
+                "reason": f"crossing sweep of {k} faces, too many for the subset DP: relaxed cutwidth bounds",
+            }
+    if method == "subset-dp":
+        if deadline is not None and estimate_seconds(k) > _left(deadline):
+            gw, gorder = greedy_sweep(fs, seed=seed)
+            out = _Outcome(floor, gw, gorder, "subset-dp", {
+                "nested": fs.nested,
+                "subset-dp": f"skipped: estimated {estimate_seconds(k):.1f} s exceeds the time left",
+                "bounds": {"lower": "weights of start and end", "upper": "greedy sweep"},
+            })
+            return out, auto
+        return _by_dp(fs, max_faces), auto
+    return _by_cutwidth(fs, deadline, seed, floor, options), auto
+
+
+def _non_monotone(problem: HomologyProblem, deadline: float | None, seed: int | None, options: dict) -> tuple[float, float, list[int], dict]:
+    P = problem.graph
+    fs = FaceSweep.build(P, problem.start, problem.free_faces)
+    max_faces = options.get("max_faces")
+    cap = MAX_TOGGLE_FACES if max_faces is None else int(max_faces)
+    if fs.k > cap:
+        raise ProblemTooLargeError(
+            f"the non-monotone search has {fs.k} free faces, more than its limit of {cap} "
+            f"(2^{fs.k} states); use monotone=True"
+        )
+    floor = max(cycle_weight(P, problem.start), cycle_weight(P, problem.end))
+    targets = [sorted(S) for S in problem.swept]
+    if deadline is not None and estimate_seconds(fs.k, toggles=True) > 0.5:
+        from ._deadline import run_limited
+
+        finished, value, _ = run_limited(_toggle_child, (fs, targets), {}, deadline=deadline)
+        if not finished:
+            # any monotone sweep is a toggle sequence: the greedy one bounds from above
+            best = min((greedy_sweep(FaceSweep.build(P, problem.start, S), seed=seed) for S in problem.swept), key=lambda t: t[0])
+            return floor, best[0], best[1], {"face-sets": "time limit reached", "bounds": {"lower": "weights of start and end", "upper": "greedy monotone sweep"}}
+        w, toggles, st = value
+    else:
+        w, toggles, st = toggle_search(fs, targets)
+    st = dict(st)
+    st["bounds"] = "exact bottleneck search over toggle states"
+    return w, w, toggles, st
+
+
+def _toggle_child(fs: FaceSweep, targets: list, *, progress: Callable) -> tuple:
+    return toggle_search(fs, targets)
+
+
+def homology_width(
+    P: Any,
+    *,
+    start: Any = None,
+    end: Any = None,
+    holes: Any = None,
+    method: str = "auto",
+    time_limit: float | None = None,
+    seed: int | None = None,
+    monotone: bool = True,
+    **options: Any,
+) -> Result:
+    """The homology sweep width of a plane graph, exact or with proven bounds, with a witness.
+
+    Parameters
+    ----------
+    P : PlaneGraph
+    start, end : cycle specification, optional
+        Z2 cycles as edge-id sets, vertex walks, walk dicts
+        (``{"vertex": v, "darts": [...]}``) or ``{"faces": [...]}`` (see
+        :mod:`sweepwidth.problems.cycles`).  Default: from the Z2 boundary of
+        the outer face to the empty cycle.
+    holes : collection of face ids, optional
+        Faces that are never swept; default ``{P.outer_face}``; ``()`` for
+        none (the sweep may then cover either side of ``start + end``).
+    method : {'auto', 'cutwidth', 'subset-dp', 'face-sets'}
+        See the module docstring.
+    time_limit : float, optional
+        Seconds; when it runs out the result is 'bounded' with the best face
+        order found and proven bounds (returned within about a second).
+    seed : int, optional
+        Seed of the heuristics.
+    monotone : bool
+        True (default): each face of the swept set is toggled once (face
+        orders).  False: faces may be toggled any number of times
+        ('face-sets').
+    **options
+        ``dp_limit``, ``max_faces``, ``cutwidth_method`` (see :data:`OPTIONS`).
+
+    Returns
+    -------
+    Result
+        ``parameter='homology'``; ``witness`` is the list of face ids in
+        toggle order; ``stats`` holds ``start``, ``end`` (sorted edge ids),
+        ``holes``, ``swept`` (the swept set), ``monotone``, ``nested``,
+        ``bounds`` (how each bound was obtained) and, for 'auto', ``auto``
+        (the choice and why).  ``result.check(P)`` replays the witness.
+        Infeasible problems have ``status='infeasible'`` and
+        ``stats['reason']``.
+
+    Raises
+    ------
+    InvalidCurveError
+        A start or end that is not a Z2 cycle (names the odd vertex), an edge,
+        dart or vertex that does not exist, a walk that is not closed.
+    UnsupportedOptionError
+        Unknown method or option.
+    ProblemTooLargeError
+        'subset-dp' or 'face-sets' on more faces than their limit.
+    SweepwidthError
+        Bad holes, time limit, seed, or conflicting ``method``/``monotone``.
+
+    Notes
+    -----
+    The problem is NP-hard in general (it contains cutwidth of planar graphs
+    of maximum degree 3 through duality); the exact methods are exponential
+    in the worst case: ``O(2^s s)`` for the subset DP on ``s`` swept faces,
+    ``O(2^k k log 2^k)`` for the toggle search on ``k`` non-hole faces, and
+    whatever the cutwidth engine needs on the ``s + 2``-vertex reduction.
+
+    References
+    ----------
+    G. Brightwell and P. Winkler, "Submodular percolation", SIAM J. Discrete
+    Math. 23(3), 2009.
+
+    Examples
+    --------
+    >>> from sweepwidth import generators
+    >>> P = generators.grid(3, 4)                 # 2 x 3 squares, boundary of length 10
+    >>> r = homology_width(P)
+    >>> r.status, r.value, len(r.witness)
+    ('optimal', 10.0, 6)
+    >>> r.check(P)
+    10.0
+    >>> Q = generators.grid(4, 4)                 # 3 x 3 squares; sweep the annulus around the middle one
+    >>> mid = Q.find_face([(1, 1), (1, 2), (2, 2), (2, 1)])
+    >>> homology_width(Q, end={"faces": [mid]}, holes={Q.outer_face, mid}).value
+    12.0
+    >>> homology_width(Q, holes={Q.outer_face, mid}).status   # the hole blocks sweeping to nothing
+    'infeasible'
+    >>> homology_width(P, monotone=False).value   # toggling faces twice does not help here
+    10.0
+    """
+    t0 = time.monotonic()
+    _validate(method, time_limit, seed, monotone, options)
+    deadline = None if time_limit is None else t0 + float(time_limit) - 0.1
+    problem = HomologyProblem.build(P, start, end, holes)
+    stats: dict[str, Any] = problem.summary()
+    stats["monotone"] = monotone
+    stats["seed"] = seed
+    w0 = cycle_weight(P, problem.start)
+    w1 = cycle_weight(P, problem.end)
+    stats["start_weight"] = w0
+    stats["end_weight"] = w1
+    if not problem.feasible:
+        stats["reason"] = problem.reason
+        return Result("homology", "infeasible", None, None, None, witness=None, method=method,
+                      seconds=time.monotonic() - t0, stats=stats)
+    if not monotone or method == "face-sets":
+        lo, up, toggles, st = _non_monotone(problem, deadline, seed, options)
+        stats["monotone"] = False
+        stats["face-sets"] = st
+        stats["bounds"] = st.get("bounds")
+        if method == "auto":
+            stats["auto"] = {"choice": "face-sets", "reason": "monotone=False asks for the non-monotone search"}
+        lo = min(max(lo, max(w0, w1)), up)
+        status = "optimal" if _close(lo, up) else "bounded"
+        S = _final_set(problem, toggles)
+        stats["swept"] = sorted(S)
+        return Result("homology", status, up if status == "optimal" else None, lo if status == "bounded" else up, up,
+                      witness=list(toggles), method="face-sets", seconds=time.monotonic() - t0, stats=stats)
+    outcomes = []
+    for idx, S in enumerate(problem.swept):
+        sub = deadline
+        if deadline is not None and idx == 0 and len(problem.swept) > 1:
+            sub = time.monotonic() + 0.5 * _left(deadline)
+        out, auto = _solve_swept(problem, S, method, sub, seed, options)
+        outcomes.append((S, out, auto))
+    lower = min(o.lower for _, o, _ in outcomes)
+    best_S, best, best_auto = min(outcomes, key=lambda t: (t[1].upper, len(t[0])))
+    upper = best.upper
+    lower = min(max(lower, max(w0, w1)), upper)
+    status = "optimal" if _close(lower, upper) else "bounded"
+    stats["swept"] = sorted(best_S)
+    stats["nested"] = bool(best.info.get("nested", True))
+    stats["bounds"] = best.info.get("bounds")
+    stats["parts"] = [
+        {"faces": len(S), "method": o.method, "lower": o.lower, "upper": o.upper, **{k: v for k, v in o.info.items() if k != "bounds"}}
+        for S, o, _ in outcomes
+    ]
+    if method == "auto":
+        stats["auto"] = best_auto
+    return Result(
+        "homology",
+        status,
+        upper if status == "optimal" else None,
+        upper if status == "optimal" else lower,
+        upper,
+        witness=list(best.order),
+        method=best.method,
+        seconds=time.monotonic() - t0,
+        stats=stats,
+    )
+
+
+def _final_set(problem: HomologyProblem, toggles: list[int]) -> frozenset:
+    odd: set[int] = set()
+    for f in toggles:
+        odd ^= {f}
+    return frozenset(odd)
