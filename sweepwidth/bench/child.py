@@ -10,7 +10,9 @@ a dask worker, anything with ``submit``).  It starts a child process that
    witness with the independent checker, and reports back.
 
 The solver is asked to stop at the time limit itself; the parent kills the
-child at ``time_limit + grace`` in case it does not (a native SAT call that
+child at ``time_limit + grace`` after the child reports that it has started
+(interpreter start and imports do not count, up to
+:data:`STARTUP_ALLOWANCE` seconds) in case it does not (a native SAT call that
 ignores signals).  Progress reports (bounds found so far) travel through the
 same channel, so a killed task keeps whatever bounds it had reported.
 
@@ -49,7 +51,23 @@ OUTCOME_STATUSES = ("optimal", "bounded", "infeasible", "timeout", "memory", "er
 
 _ACTIVE: dict[int, Callable[[], None]] = {}
 _ACTIVE_LOCK = threading.Lock()
-_PRELOAD = ["numpy", "networkx", "pysat.solvers", "sweepwidth.plane", "sweepwidth.bench.child"]
+_PRELOAD = [
+    "numpy",
+    "networkx",
+    "pysat.solvers",
+    "sweepwidth.plane",
+    "sweepwidth.io",
+    "sweepwidth.solve.cutwidth",
+    "sweepwidth.solve.homology",
+    "sweepwidth.solve.homotopy",
+    "sweepwidth.verify.ordering",
+    "sweepwidth.verify.homology",
+    "sweepwidth.verify.homotopy",
+    "sweepwidth.bench.child",
+]
+
+#: seconds a child may take to start (interpreter, imports) before its time limit starts counting
+STARTUP_ALLOWANCE = 60.0
 
 
 # ---------------------------------------------------------------- child side
@@ -100,10 +118,46 @@ def _bounds_of(p: Any) -> dict:
     return {"lower": _jsonable(get("lower", None)), "upper": _jsonable(get("upper", None)), "witness": _jsonable(witness)}
 
 
+def _fast_nested_children() -> None:
+    """Let solvers that run their own time-limited children fork them directly from this child.
+
+    :mod:`sweepwidth.solve._deadline` starts its children from a forkserver,
+    which inside this (freshly forked, single-threaded) child would mean
+    starting a second server with a new interpreter per task.  A plain fork
+    is safe here and costs milliseconds.
+    """
+    if "fork" not in mp.get_all_start_methods():
+        return
+    try:
+        from ..solve import _deadline
+
+        with _deadline._CTX_LOCK:
+            _deadline._CTX = mp.get_context("fork")
+    except (ImportError, AttributeError):  # pragma: no cover - machinery moved
+        pass
+
+
+def _import_solver(spec: str) -> Callable[..., Any]:
+    """The function named by ``"package.module:function"``."""
+    import importlib
+
+    from ..errors import UnsupportedOptionError
+
+    mod_name, _, fn_name = spec.partition(":")
+    if not mod_name or not fn_name:
+        raise UnsupportedOptionError("solver (expected 'module:function')", spec)
+    fn = getattr(importlib.import_module(mod_name), fn_name, None)
+    if not callable(fn):
+        raise UnsupportedOptionError("solver function", spec)
+    return fn
+
+
 def _body(task: Mapping[str, Any], send: Callable[[list], None]) -> None:
     """Load, solve, check; every outcome goes through ``send`` as a JSON-able list."""
     _die_with_parent()
     _limit_memory(task.get("memory_mb"))
+    _fast_nested_children()
+    send(["started"])
     try:
         from ..errors import SweepwidthError
         from .loading import check_object, load_instance, solve_object
@@ -116,15 +170,26 @@ def _body(task: Mapping[str, Any], send: Callable[[list], None]) -> None:
             except Exception:  # a report that cannot be sent is dropped, not fatal
                 pass
 
-        res = solve_object(
-            obj,
-            task["parameter"],
-            method=task.get("method", "auto"),
-            time_limit=task.get("time_limit"),
-            seed=task.get("seed"),
-            options=task.get("options") or {},
-            progress=progress,
-        )
+        if task.get("solver"):
+            fn = _import_solver(str(task["solver"]))
+            res = fn(
+                obj,
+                method=task.get("method", "auto"),
+                time_limit=task.get("time_limit"),
+                seed=task.get("seed"),
+                progress=progress,
+                **dict(task.get("options") or {}),
+            )
+        else:
+            res = solve_object(
+                obj,
+                task["parameter"],
+                method=task.get("method", "auto"),
+                time_limit=task.get("time_limit"),
+                seed=task.get("seed"),
+                options=task.get("options") or {},
+                progress=progress,
+            )
         checked: float | None = None
         check_error: str | None = None
         if res.witness is not None:
@@ -309,6 +374,7 @@ def execute_task(task: Any, *, isolation: str = "auto") -> dict:
     if t.get("time_limit") is not None:
         hard = float(t["time_limit"]) + float(t.get("grace", 5.0))
     t0 = time.monotonic()
+    started: float | None = None  # when the child said it is up; the hard limit counts from then
     chan = _ForkChannel(t) if mode == "fork" else _SubprocessChannel(t)
     ident = id(chan)
     with _ACTIVE_LOCK:
@@ -320,7 +386,10 @@ def execute_task(task: Any, *, isolation: str = "auto") -> dict:
         while final is None:
             wait = 0.2
             if hard is not None:
-                left = hard - (time.monotonic() - t0)
+                if started is None:
+                    left = STARTUP_ALLOWANCE + hard - (time.monotonic() - t0)
+                else:
+                    left = hard - (time.monotonic() - started)
                 if left <= 0:
                     killed = True
                     break
@@ -331,7 +400,9 @@ def execute_task(task: Any, *, isolation: str = "auto") -> dict:
                 break
             if msg is None:
                 continue
-            if msg[0] == "progress":
+            if msg[0] == "started":
+                started = time.monotonic()
+            elif msg[0] == "progress":
                 last = msg[1]
             else:
                 final = msg

@@ -77,6 +77,10 @@ class Task:
         Address-space limit of the child process.
     grace : float
         Extra seconds before the child is killed.
+    solver : str or None
+        ``"module:function"`` of a solver to run instead of the library's
+        entry point for ``parameter``: ``fn(obj, *, method, time_limit, seed,
+        progress, **options) -> Result`` (to benchmark your own code the same way).
     name : str
         Display name (not part of the key).
     known : dict
@@ -92,6 +96,7 @@ class Task:
     time_limit: float | None = None
     memory_mb: int | None = DEFAULT_MEMORY_MB
     grace: float = 5.0
+    solver: str | None = None
     name: str = ""
     known: Mapping[str, Any] = field(default_factory=dict)
 
@@ -104,6 +109,7 @@ class Task:
             "seed": self.seed,
             "time_limit": self.time_limit,
             "memory_mb": self.memory_mb,
+            **({"solver": self.solver} if self.solver else {}),
         }
 
     def config_hash(self) -> str:
