@@ -139,7 +139,8 @@ class Scene:
         vs = P.vertices
         xy = np.array([self.g.xy[v] for v in vs])
         face = [PALETTE["curve"] if v in filled else PALETTE["vertex_face"] for v in vs]
-        size = self.vertex_size * (3.2 if labels else 1.0)
+        short = labels and max((len(t) for t in self._label_texts()), default=1) <= 3
+        size = self.vertex_size * (3.2 if short else 1.0)
         self.ax.scatter(xy[:, 0], xy[:, 1], s=size, c=face, edgecolors=PALETTE["vertex_edge"],
                         linewidths=0.9, zorder=self.Z_VERTEX)
         if mark:
@@ -147,12 +148,25 @@ class Scene:
             self.ax.scatter(mxy[:, 0], mxy[:, 1], s=size * 2.6, facecolors="none", edgecolors=PALETTE["move"],
                             linewidths=2.0, zorder=self.Z_VERTEX)
         if labels:
-            texts = [",".join(str(x) for x in v) if isinstance(v, tuple) else str(v) for v in vs]
-            longest = max((len(t) for t in texts), default=1)
-            fs = float(np.clip(10.0 - 0.03 * len(vs), 5.0, 8.5)) * (1.0 if longest <= 2 else 2.0 / longest + 0.2)
+            texts = self._label_texts()
+            fs = float(np.clip(10.0 - 0.03 * len(vs), 5.0, 8.5))
+            inside = max((len(t) for t in texts), default=1) <= 3
+            if not inside:
+                import matplotlib.patheffects as pe
+
+                halo = [pe.withStroke(linewidth=2.2, foreground="white")]
             for v, p, txt in zip(vs, xy, texts):
-                self.ax.text(p[0], p[1], txt, fontsize=fs, ha="center", va="center", zorder=self.Z_TEXT,
-                             color=PALETTE["ink"] if v not in filled else "white")
+                if inside:
+                    self.ax.text(p[0], p[1], txt, fontsize=fs * (1.0 if len(txt) <= 2 else 0.8), ha="center",
+                                 va="center", zorder=self.Z_TEXT,
+                                 color=PALETTE["ink"] if v not in filled else "white")
+                else:  # long labels sit beside the vertex, with a white halo
+                    self.ax.annotate(txt, (p[0], p[1]), xytext=(4, 4), textcoords="offset points",
+                                     fontsize=fs * 0.85, ha="left", va="bottom", zorder=self.Z_TEXT,
+                                     color=PALETTE["ink"], path_effects=halo)
+
+    def _label_texts(self) -> list[str]:
+        return [",".join(str(x) for x in v) if isinstance(v, tuple) else str(v) for v in self.P.vertices]
 
     def outer_label(self) -> None:
         """A small note on the outer face."""

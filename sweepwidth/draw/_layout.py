@@ -601,7 +601,7 @@ class Geometry:
             for i, e in enumerate(order):
                 # counterclockwise at u = further to the left of u -> v
                 off = (i - (k - 1) / 2) * step
-                ctrl = mid + _left(direction) * off
+                ctrl = mid + _left(direction) * (2.0 * off)  # the arc passes off to the side at its middle
                 curve = _bezier2(a, ctrl, b) if abs(off) > 1e-12 else np.vstack([a, b])
                 self._curves[e] = curve if P.edge_ends(e)[0] == u else curve[::-1].copy()
 

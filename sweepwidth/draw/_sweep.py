@@ -253,7 +253,7 @@ def sweep_frames(
     fig = new_figure((panel_size * cols, height), dpi)
     axes = np.atleast_1d(fig.subplots(rows, cols, squeeze=False)).ravel()
     fig.subplots_adjust(left=0.01, right=0.99, bottom=0.01, top=1.0 - 0.8 / height, wspace=0.06,
-                        hspace=0.12 + 1.2 / panel_size)
+                        hspace=0.05 + 0.55 / panel_size)
     geom = Geometry(P)
     holes = _holes(P, result)
     peak = peak_step(lengths)
