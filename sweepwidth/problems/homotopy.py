@@ -238,9 +238,12 @@ def curve_from_json(P: Any, spec: Any, *, closed: bool = True, what: str = "curv
     if all(P.has_vertex(x) or (isinstance(x, list) and P.has_vertex(_deep_tuple(x))) for x in seq):
         try:
             return _darts_from_vertices(P, seq, closed, what)
-        except InvalidCurveError:
+        except InvalidCurveError as verr:
             if dart_error is not None:
-                raise dart_error from None
+                raise InvalidCurveError(
+                    f"{what}: {list(seq)!r} is neither a walk of darts ({dart_error}) "
+                    f"nor a walk of vertices ({verr})"
+                ) from None
             raise
     if dart_error is not None:
         raise dart_error
