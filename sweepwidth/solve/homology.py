@@ -141,8 +141,6 @@ class _Outcome:
 
 def _by_cutwidth(fs: FaceSweep, deadline: float | None, seed: int | None, floor: float, options: dict) -> _Outcome:
     """Reduce to the cutwidth engine (exact for nested sweeps, a relaxation otherwise)."""
-    from .cutwidth import cutwidth
-
     nested = fs.nested
     info: dict[str, Any] = {"nested": nested}
     gw, gorder = greedy_sweep(fs, seed=seed)
@@ -153,15 +151,16 @@ def _by_cutwidth(fs: FaceSweep, deadline: float | None, seed: int | None, floor:
         info["cutwidth"] = "skipped: no time left"
         return _Outcome(floor, gw, gorder, "cutwidth", info)
     G, first, last = fs.ordering_graph(drop_anti=not nested)
-    r = cutwidth(
-        G,
-        first=[first],
-        last=[last],
-        weight="weight",
-        seed=seed,
-        time_limit=None if deadline is None else max(0.05, left),
-        method=options.get("cutwidth_method", "auto"),
-    )
+    kw = {"weight": "weight", "seed": seed, "method": options.get("cutwidth_method", "auto")}
+    r = _run_engine(G, first, last, kw, deadline, info)
+    if r is None:
+        # the engine did not report in time: cheap bounds of the same reduction, greedy order
+        lb = _quick_lower(G, first, last)
+        info["bounds"] = {
+            "lower": "degree/pin bounds of the pinned reduction + constant" + ("" if nested else " (relaxed)"),
+            "upper": "greedy sweep",
+        }
+        return _Outcome(max(floor, fs.const + lb), gw, gorder, "cutwidth", info)
     order = [v for v in r.witness if v != first and v != last]
     prof = fs.profile(order)
     width = max(prof)
@@ -190,6 +189,53 @@ def _by_cutwidth(fs: FaceSweep, deadline: float | None, seed: int | None, floor:
     low_how = "cutwidth engine lower bound + constant" + ("" if nested else " (relaxation without the crossing edges)")
     info["bounds"] = {"lower": low_how, "upper": up_how}
     return _Outcome(lower, width, order, "cutwidth", info)
+
+
+def _engine_child(G: Any, first: Any, last: Any, kw: dict, *, progress: Callable) -> Result:
+    from .cutwidth import cutwidth
+
+    return cutwidth(G, first=[first], last=[last], **kw)
+
+
+def _run_engine(G: Any, first: Any, last: Any, kw: dict, deadline: float | None, info: dict) -> Result | None:
+    """Call the cutwidth engine; under a deadline in a child process killed at the deadline.
+
+    The engine gets most of the time left as its own limit and the child is
+    killed at ``deadline`` whatever happens, so the time limit holds even if
+    the engine overruns; None when it did not report in time.
+    """
+    from .cutwidth import cutwidth
+
+    if deadline is None:
+        return cutwidth(G, first=[first], last=[last], **kw)
+    from ._deadline import run_limited
+
+    left = _left(deadline)
+    kw = dict(kw, time_limit=max(0.05, 0.7 * left - 0.1))
+    try:
+        done, r, _ = run_limited(_engine_child, (G, first, last, kw), deadline=deadline)
+    except (AssertionError, OSError, RuntimeError) as err:
+        # e.g. the engine wants a child process of its own, which a child may not start
+        info["cutwidth_child"] = f"{type(err).__name__}: {err}; ran in this process instead"
+        left = _left(deadline)
+        if left <= 0.1:
+            return None
+        return cutwidth(G, first=[first], last=[last], **dict(kw, time_limit=max(0.05, 0.5 * left)))
+    if not done:
+        info["cutwidth"] = "the engine did not report before the time limit (child stopped)"
+        return None
+    return r
+
+
+def _quick_lower(G: Any, first: Any, last: Any) -> float:
+    from ..problems.ordering import OrderingProblem
+    from .ordering_bounds import lower_bounds
+
+    try:
+        b = lower_bounds(OrderingProblem.from_graph(G, first=[first], last=[last]), deadline=time.monotonic())
+    except SweepwidthError:  # pragma: no cover - defensive
+        return 0.0
+    return max(b.values()) if b else 0.0
 
 
 def _by_dp(fs: FaceSweep, max_faces: int | None) -> _Outcome:

@@ -1,0 +1,364 @@
+"""Homology sweep width: brute force, the cutwidth identity, non-monotone sweeps, start/end variants.
+
+References used by the checks (see /work/shared/CHECKS.md):
+* width from a disk's boundary = cutwidth of the dual with the outer face first
+  (a literal identity from the definition, DESIGN.md section 2);
+* non-monotone sweeps never beat monotone ones when the weight is a cut
+  function: Brightwell and Winkler, "Submodular percolation", SIAM J.
+  Discrete Math. 23(3), 2009;
+* the brute force below enumerates every face set and every face order
+  directly from the definition, using only ``PlaneGraph.face_boundary_cycle``.
+"""
+
+from __future__ import annotations
+
+import itertools
+import math
+
+import networkx as nx
+import pytest
+from hypothesis import HealthCheck, example, given, settings
+from hypothesis import strategies as st
+
+import sweepwidth as sw
+from sweepwidth import generators
+from sweepwidth.problems.cycles import FaceSweep
+from sweepwidth.solve.face_sets import greedy_sweep, monotone_sweep, toggle_search
+
+from strategies import plane_graphs, triangulated_disks
+
+SETTINGS = dict(
+    deadline=None,
+    suppress_health_check=[HealthCheck.too_slow, HealthCheck.data_too_large, HealthCheck.filter_too_much],
+)
+
+
+# ------------------------------------------------------------------ reference implementations
+def _bnd(P, faces):
+    c = set()
+    for f in faces:
+        c ^= set(P.face_boundary_cycle(f))
+    return frozenset(c)
+
+
+def _w(P, edges):
+    return float(sum(P.weight(e) for e in edges))
+
+
+def brute_force(P, c0, c1, holes):
+    """Least width over every admissible swept set and every order of it (definition)."""
+    free = [f for f in P.faces if f not in holes]
+    target = frozenset(c0) ^ frozenset(c1)
+    best = math.inf
+    found = False
+    for r in range(len(free) + 1):
+        for S in itertools.combinations(free, r):
+            if _bnd(P, S) != target:
+                continue
+            found = True
+            for order in itertools.permutations(S):
+                cur = set(c0)
+                width = _w(P, cur)
+                for f in order:
+                    cur ^= set(P.face_boundary_cycle(f))
+                    width = max(width, _w(P, cur))
+                    if width >= best:
+                        break
+                best = min(best, width)
+    return best if found else None
+
+
+def brute_force_toggles(P, c0, c1, holes):
+    """Least width of any toggle sequence: thresholds in increasing order, plain BFS over face sets."""
+    free = [f for f in P.faces if f not in holes]
+    target = frozenset(c0) ^ frozenset(c1)
+    states = {}
+    for r in range(len(free) + 1):
+        for T in itertools.combinations(free, r):
+            states[frozenset(T)] = _w(P, frozenset(c0) ^ _bnd(P, T))
+    goals = {T for T in states if _bnd(P, T) == target}
+    for t in sorted(set(states.values())):
+        if states[frozenset()] > t:
+            continue
+        seen = {frozenset()}
+        frontier = [frozenset()]
+        while frontier:
+            nxt = []
+            for T in frontier:
+                if T in goals:
+                    return t
+                for f in free:
+                    U = T ^ {f}
+                    if U not in seen and states[U] <= t:
+                        seen.add(U)
+                        nxt.append(U)
+            frontier = nxt
+    return None
+
+
+def inner_faces(P):
+    return [f for f in P.faces if f != P.outer_face]
+
+
+# ------------------------------------------------------------------ the cutwidth identity
+@settings(max_examples=25, **SETTINGS)
+@given(plane_graphs(1, 8, weighted=True))
+def test_boundary_sweep_equals_pinned_cutwidth_of_dual(P):
+    # identity from the definition (DESIGN.md): width from the outer boundary to nothing
+    # = cutwidth of the dual with the outer face's dual vertex first
+    if len(inner_faces(P)) > 12:
+        return
+    cw = sw.cutwidth(P.dual(), first=P.outer_face)
+    for method in ("subset-dp", "cutwidth"):
+        r = sw.homology_width(P, method=method)
+        assert r.status == "optimal"
+        assert r.value == pytest.approx(cw.value)
+        assert r.check(P) == pytest.approx(r.value)
+
+
+@settings(max_examples=15, **SETTINGS)
+@given(triangulated_disks(12, weighted=True))
+def test_triangulated_disk_against_brute_force(P):
+    c0 = P.face_boundary_cycle(P.outer_face)
+    if len(inner_faces(P)) > 7:
+        ref = sw.cutwidth(P.dual(), first=P.outer_face).value  # identity; brute force too slow here
+    else:
+        ref = brute_force(P, c0, set(), {P.outer_face})
+    r = sw.homology_width(P)
+    assert r.value == pytest.approx(ref)
+    assert r.check(P) == pytest.approx(ref)
+
+
+# ------------------------------------------------------------------ start / end variants
+@st.composite
+def sweep_instances(draw, max_vertices=8, max_faces=7):
+    weighted = draw(st.booleans())
+    P = draw(
+        st.one_of(
+            triangulated_disks(max_faces - 1, weighted=weighted),
+            plane_graphs(4, max_vertices, weighted=weighted, kinds=("delaunay", "chords", "dual")),
+        ).filter(lambda G: 3 <= G.number_of_faces() <= max_faces)
+    )
+    F = P.number_of_faces()
+    faces = list(range(F))
+    holes = draw(st.one_of(st.just({P.outer_face}), st.sets(st.sampled_from(faces), max_size=2)))
+    X = {f for f in faces if draw(st.booleans())}
+    if draw(st.integers(0, 4)):  # mostly homologous: Y = X + (a set of non-hole faces)
+        Y = X ^ {f for f in faces if f not in holes and draw(st.booleans())}
+    else:
+        Y = {f for f in faces if draw(st.booleans())}
+    return P, _bnd(P, X), _bnd(P, Y), frozenset(holes)
+
+
+@settings(max_examples=60, **SETTINGS)
+@given(sweep_instances())
+def test_curve_to_curve_against_brute_force(inst):
+    P, c0, c1, holes = inst
+    ref = brute_force(P, c0, c1, holes)
+    for method in ("auto", "subset-dp", "cutwidth"):
+        r = sw.homology_width(P, start=set(c0), end=set(c1), holes=holes, method=method)
+        if ref is None:
+            assert r.status == "infeasible"
+            assert r.stats["reason"]
+            assert r.check(P) == math.inf
+            continue
+        assert r.check(P) == pytest.approx(r.upper)
+        assert r.lower <= ref + 1e-9 <= r.upper + 2e-9
+        if method != "cutwidth" or r.stats["nested"]:
+            # exact methods; 'cutwidth' is exact on nested sweeps only
+            assert r.status == "optimal"
+            assert r.value == pytest.approx(ref)
+
+
+@settings(max_examples=40, **SETTINGS)
+@given(sweep_instances(max_faces=6))
+def test_non_monotone_against_bfs_reference(inst):
+    P, c0, c1, holes = inst
+    ref = brute_force_toggles(P, c0, c1, holes)
+    r = sw.homology_width(P, start=set(c0), end=set(c1), holes=holes, monotone=False)
+    if ref is None:
+        assert r.status == "infeasible"
+        return
+    assert r.status == "optimal"
+    assert r.value == pytest.approx(ref)
+    assert r.check(P) == pytest.approx(ref)
+    mono = sw.homology_width(P, start=set(c0), end=set(c1), holes=holes)
+    # a monotone sweep is one particular toggle sequence
+    assert r.value <= mono.value + 1e-9
+
+
+@settings(max_examples=30, **SETTINGS)
+@given(st.one_of(triangulated_disks(14, weighted=True), plane_graphs(3, 9, weighted=True)))
+def test_brightwell_winkler_from_the_boundary(P):
+    # Brightwell and Winkler, "Submodular percolation", SIAM J. Discrete Math. 2009:
+    # the weight is a cut function here, so toggling twice never helps
+    if len(inner_faces(P)) > 14:
+        return
+    mono = sw.homology_width(P)
+    free = sw.homology_width(P, monotone=False)
+    assert free.value == pytest.approx(mono.value)
+    free.check(P)
+
+
+@settings(max_examples=30, **SETTINGS)
+@given(sweep_instances())
+def test_brightwell_winkler_on_nested_sweeps(inst):
+    # nested (no start edge with swept faces on both sides): still a cut function
+    P, c0, c1, holes = inst
+    mono = sw.homology_width(P, start=set(c0), end=set(c1), holes=holes)
+    if mono.status == "infeasible" or not mono.stats["nested"] or len(holes) == 0:
+        return
+    free = sw.homology_width(P, start=set(c0), end=set(c1), holes=holes, monotone=False)
+    assert free.value == pytest.approx(mono.value)
+
+
+def _crossing_instance():
+    """Two overlapping 2 x 2 blocks of a grid, swept from one boundary to the other."""
+    P = generators.grid(4, 5)
+    sq = {}
+    for f in inner_faces(P):
+        vs = P.boundary_walk(f)
+        sq[min(vs)] = f
+    A = [sq[(0, 0)], sq[(0, 1)], sq[(1, 0)], sq[(1, 1)]]
+    B = [sq[(1, 1)], sq[(1, 2)], sq[(2, 1)], sq[(2, 2)]]
+    return P, _bnd(P, A), _bnd(P, B)
+
+
+def test_crossing_sweep_exact_and_relaxed():
+    P, c0, c1 = _crossing_instance()
+    ref = brute_force(P, c0, c1, {P.outer_face})
+    r = sw.homology_width(P, start=set(c0), end=set(c1))
+    assert r.value == pytest.approx(ref)
+    assert r.method == "subset-dp"
+    rc = sw.homology_width(P, start=set(c0), end=set(c1), method="cutwidth")
+    assert rc.lower <= ref + 1e-9 <= rc.upper + 1e-9
+    assert rc.check(P) == pytest.approx(rc.upper)
+
+
+def test_crossing_detected_from_shared_edges():
+    # start and end share edges with swept faces on both sides -> crossing (anti pairs)
+    P = generators.grid(2, 4)  # three squares in a row: faces a | b | c
+    a, b, c = sorted(inner_faces(P), key=lambda f: min(P.boundary_walk(f)))
+    c0 = _bnd(P, [a])
+    c1 = _bnd(P, [b])
+    fs = FaceSweep.build(P, c0, [a, b])
+    assert not fs.nested
+    # toggling a first shrinks to nothing, then b appears: width = max(4, 0, 4)
+    assert sw.homology_width(P, start=set(c0), end=set(c1)).value == 4.0
+
+
+def test_face_sweep_weights_match_direct_recomputation():
+    P, c0, _ = _crossing_instance()
+    free = inner_faces(P)
+    fs = FaceSweep.build(P, c0, free)
+    for T in ([], free[:1], free[:3], free[2:7], free):
+        assert fs.weight_of(T) == _w(P, set(c0) ^ _bnd(P, T))
+    prof = fs.profile(free[:5] + free[:2])
+    cur = set(c0)
+    direct = [_w(P, cur)]
+    for f in free[:5] + free[:2]:
+        cur ^= set(P.face_boundary_cycle(f))
+        direct.append(_w(P, cur))
+    assert prof == direct
+
+
+# ------------------------------------------------------------------ holes, infeasible, trivial
+def _annulus():
+    P = generators.grid(4, 4)
+    mid = P.find_face([(1, 1), (1, 2), (2, 2), (2, 1)])
+    return P, mid
+
+
+def test_annulus_to_inner_boundary():
+    P, mid = _annulus()
+    H = {P.outer_face, mid}
+    r = sw.homology_width(P, end={"faces": [mid]}, holes=H)
+    ref = brute_force(P, P.face_boundary_cycle(P.outer_face), P.face_boundary_cycle(mid), H)
+    assert r.value == ref == 12.0  # brute force; the outer boundary (length 12) is the widest cycle
+    assert mid not in r.witness
+    assert r.check(P) == 12.0
+
+
+def test_not_homologous_with_a_hole_is_infeasible():
+    P, mid = _annulus()
+    r = sw.homology_width(P, holes={P.outer_face, mid})
+    assert r.status == "infeasible"
+    assert r.value is None and r.upper is None and r.witness is None
+    assert "not homologous" in r.stats["reason"]
+    assert r.check(P) == math.inf
+
+
+def test_no_holes_uses_the_better_side():
+    # without holes a cycle bounds two face sets; sweeping the outer face is allowed
+    P = generators.wheel(6)
+    hub_faces = inner_faces(P)
+    c0 = _bnd(P, hub_faces[:1])
+    r = sw.homology_width(P, start=set(c0), end=set(), holes=())
+    assert r.value == 3.0  # a triangle toggled away at once: width = its boundary
+    assert r.witness == [hub_faces[0]]
+
+
+def test_start_equals_end_is_trivial():
+    P = generators.grid(3, 3)
+    r2 = sw.homology_width(P, start={"faces": [0]}, end={"faces": [0]})
+    assert r2.value == _w(P, P.face_boundary_cycle(0))
+    assert r2.witness == []
+    assert r2.check(P) == r2.value
+
+
+def test_weights_change_the_best_order():
+    # a wheel whose spokes weigh 5: the boundary (weight 6) is not the bottleneck
+    P = generators.wheel(6)
+    hub = [v for v in P.vertices if P.degree(v) == 6][0]
+    w = [5.0 if hub in P.edge_ends(e) else 1.0 for e in range(P.number_of_edges())]
+    Q = P.with_weights(w)
+    ref = brute_force(Q, Q.face_boundary_cycle(Q.outer_face), set(), {Q.outer_face})
+    cw = sw.cutwidth(Q.dual(), first=Q.outer_face).value  # the identity again
+    r = sw.homology_width(Q)
+    assert r.value == ref == cw
+    assert r.value > 6.0
+
+
+def test_vertex_walk_and_dart_walk_starts():
+    P = generators.grid(3, 3)
+    outer = P.face_darts(P.outer_face)
+    a = sw.homology_width(P, start={"vertex": P.tail(outer[0]), "darts": outer})
+    b = sw.homology_width(P, start=P.boundary_walk(P.outer_face))
+    c = sw.homology_width(P)
+    assert a.value == b.value == c.value == 8.0
+
+
+# ------------------------------------------------------------------ helpers of the search module
+def test_greedy_is_an_upper_bound_and_profile_matches():
+    P = generators.triangulated_grid(3)
+    fs = FaceSweep.build(P, P.face_boundary_cycle(P.outer_face), inner_faces(P))
+    gw, order = greedy_sweep(fs, seed=3)
+    w, _ = monotone_sweep(fs)
+    assert sorted(order) == sorted(inner_faces(P))
+    assert max(fs.profile(order)) == gw >= w
+
+
+def test_regression_toggle_path_with_eight_or_more_faces():
+    # regression: the parent table was int8 and `1 << parent` overflowed for face index 7
+    # in the pure-Python path (k <= 10), so the path reconstruction never ended
+    P = generators.grid(3, 4)
+    Q = generators.grid(4, 4)
+    for G in (P, Q):
+        fs = FaceSweep.build(G, G.face_boundary_cycle(G.outer_face), inner_faces(G))
+        w, toggles, _ = toggle_search(fs, [inner_faces(G)])
+        assert sorted(toggles) == sorted(inner_faces(G))
+        assert w == sw.homology_width(G).value
+
+
+def test_time_limit_returns_bounded_with_a_witness():
+    import time
+
+    P = generators.delaunay(60, seed=5)
+    t = time.monotonic()
+    r = sw.homology_width(P, time_limit=1.5, seed=1)
+    took = time.monotonic() - t
+    assert took < 1.5 + 1.5
+    assert r.status in ("optimal", "bounded")
+    assert r.lower <= r.upper
+    assert r.check(P) == pytest.approx(r.upper)
+    assert "bounds" in r.stats and "holes" in r.stats
