@@ -541,7 +541,8 @@ def search_homotopy(
         A proven lower bound to clamp the search at (e.g. a homology width).
     use_homology : bool
         Ask :func:`sweepwidth.solve.homology.homology_width` for a lower bound
-        first (closed walks, weight length) when that solver is present.
+        first (closed walks, weight length) when that solver is present and
+        no ``lower`` is given.
     dive : int
         Settled-state budget of the greedy dive for an early upper bound (0: none).
     max_states : int
@@ -596,7 +597,7 @@ def search_homotopy(
     lower_from = "lengths of the start and end walks"
     if lower is not None and lower > lo:
         lo, lower_from = lower, "given lower bound"
-    if use_homology:
+    if use_homology and lower is None:
         hl, how = _homology_lower(spec, deadline)
         stats["homology"] = how
         if hl is not None and hl > lo:
