@@ -235,17 +235,27 @@ run_tasks(_slow_tasks(sys.argv[1]), sys.argv[2], jobs=1)
 
 
 def test_dask_local_cluster_runs_the_same_tasks(inst, tmp_path):
-    distributed = pytest.importorskip("distributed")
-    from distributed import Client, LocalCluster
+    pytest.importorskip("distributed")
+    from distributed import LocalCluster
 
     tasks = make_tasks(discover([inst / "c5.json", inst / "p6.json"]), ["cutwidth"], time_limit=5)
-    with LocalCluster(n_workers=1, threads_per_worker=2, processes=False, dashboard_address=None) as cluster, Client(cluster) as client:
-        rep = run_tasks(tasks, str(tmp_path / "dask.sqlite"), executor=client.get_executor(pure=False))
+    with LocalCluster(n_workers=1, threads_per_worker=2, processes=False, protocol="tcp", dashboard_address=None) as cluster:
+        address = cluster.scheduler_address  # tcp://HOST:PORT
+        assert address.startswith("tcp://")
+        rep = run_tasks(tasks, str(tmp_path / "dask.sqlite"), executor="dask://" + address[len("tcp://"):])
     assert rep.finished == 2
-    # cw(C5) = 2, cw(P6) = 1 (common practice); limits still hold: each task ran in its own child
+    # cw(C5) = 2, cw(P6) = 1 (common practice); each task still ran in its own limited child
     assert sorted(r["value"] for r in rep.rows) == [1, 2]
     assert all(r["checked"] == r["value"] for r in rep.rows)
-    assert distributed is not None
+    with ResultsDB(str(tmp_path / "dask.sqlite")) as d:
+        assert d.runs()[0]["meta"]["executor"].startswith("dask://")
+
+
+def test_dask_limits_hold_inside_the_worker(inst, tmp_path):
+    pytest.importorskip("distributed")
+    t = _task(inst / "c5.json", solver=PROBE + "silent", time_limit=0.2, grace=0.3)
+    rep = run_tasks([t], str(tmp_path / "dl.sqlite"), executor="dask-local")
+    assert rep.rows[0]["status"] == "timeout"
 
 
 def test_export_csv_and_jsonl(inst, tmp_path):

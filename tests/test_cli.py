@@ -1,0 +1,233 @@
+"""End-to-end tests of the command line (``python -m sweepwidth ...``)."""
+
+from __future__ import annotations
+
+import json
+import os
+import subprocess
+import sys
+
+import networkx as nx
+import pytest
+
+import sweepwidth as sw
+from sweepwidth import generators as gen
+from sweepwidth.bench.hashing import digest
+from sweepwidth.cli import build_parser, main
+
+VERBS = ["solve", "bench", "check", "dual", "convert", "draw", "export", "demo"]
+
+
+def run(*args, cwd=None, timeout=240):
+    p = subprocess.run([sys.executable, "-m", "sweepwidth", *map(str, args)], capture_output=True, text=True, cwd=cwd, timeout=timeout)
+    return p.returncode, p.stdout, p.stderr
+
+
+@pytest.fixture(scope="module")
+def files(tmp_path_factory):
+    d = tmp_path_factory.mktemp("cli")
+    sw.write(gen.grid(3, 4), str(d / "grid.json"))  # cw(P3 x P4) = 4 (Rolim, Sykora, Vrto, WG 1995; from memory)
+    sw.write(gen.wheel(5), str(d / "wheel.json"))
+    sw.write(nx.cycle_graph(6), str(d / "c6.json"))  # cw(C_n) = 2 (common practice); no embedding stored
+    (d / "broken.json").write_text('{"format": "sweepwidth-plane", "vertices": [0, 1], "edges": [')
+    return d
+
+
+def _one_line_error(rc, err, code=1):
+    assert rc == code, err
+    lines = [l for l in err.splitlines() if l.strip()]
+    assert len(lines) == 1, err
+    assert lines[0].startswith("sweepwidth: error: ")
+    return lines[0]
+
+
+# ------------------------------------------------------------------- help
+@pytest.mark.parametrize("verb", VERBS)
+def test_every_verb_has_help_with_an_example(verb, capsys):
+    with pytest.raises(SystemExit) as exc:
+        main([verb, "--help"])
+    assert exc.value.code == 0
+    out = capsys.readouterr().out
+    assert "example:" in out and f"sweepwidth {verb}" in out
+
+
+def test_parser_knows_every_verb():
+    sub = [a for a in build_parser()._actions if a.dest == "verb"][0]
+    assert sorted(sub.choices) == sorted(VERBS)
+
+
+# ------------------------------------------------------------ solve, check
+def test_solve_table_json_and_save_then_check(files, tmp_path):
+    rc, out, err = run("solve", files / "grid.json", files / "c6.json", "--time-limit", "20")
+    assert rc == 0, err
+    lines = out.splitlines()
+    assert lines[0].split()[:3] == ["instance", "param", "status"]
+    grid = [l for l in lines if l.startswith("grid.json")][0].split()
+    assert grid[1:6] == ["cutwidth", "optimal", "4", "4", "4"]  # Rolim, Sykora, Vrto: m + 1
+    assert grid[-1] == "ok"  # witness replayed by the independent checker
+    c6 = [l for l in lines if l.startswith("c6.json")][0].split()
+    assert c6[3] == "2"  # cw(C_n) = 2 (common practice)
+
+    save = tmp_path / "saved"
+    rc, out, err = run("solve", files / "wheel.json", "--param", "cutwidth,homology", "--json", "--save", save, "--time-limit", "20")
+    assert rc == 0, err
+    objs = [json.loads(l) for l in out.splitlines()]
+    assert [o["parameter"] for o in objs] == ["cutwidth", "homology"]
+    for o in objs:
+        assert o["checked"] == o["upper"]
+    # homology width from the disk boundary equals the pinned cutwidth of the dual (DESIGN.md definition)
+    dual_cw = sw.cutwidth(sw.read(str(files / "wheel.json")).dual().to_networkx(), first=sw.read(str(files / "wheel.json")).outer_face)
+    assert objs[1]["value"] == dual_cw.value
+    saved = sorted(os.listdir(save))
+    assert saved == ["wheel.cutwidth.json", "wheel.homology.json"]
+    rc, out, err = run("check", *(save / f for f in saved))
+    assert rc == 0, err
+    assert out.count(": ok: ") == 2
+
+
+def _tamper(path, change, redigest):
+    doc = json.loads(path.read_text())
+    change(doc)
+    if redigest:
+        doc["digest"] = digest({k: doc[k] for k in ("instance", "options", "result")})
+    path.write_text(json.dumps(doc))
+
+
+def test_check_refuses_tampered_results(files, tmp_path):
+    good = tmp_path / "r.json"
+    rc, out, err = run("solve", files / "grid.json", "-o", good, "--time-limit", "20")
+    assert rc == 0, err
+    # 1. a lower upper bound with a recomputed digest: the replay finds the real width
+    low = tmp_path / "low.json"
+    low.write_text(good.read_text())
+
+    def lie(doc):
+        doc["result"]["upper"] = doc["result"]["value"] = doc["result"]["lower"] = 3
+
+    _tamper(low, lie, redigest=True)
+    # 2. a swapped witness without touching the digest
+    swapped = tmp_path / "swapped.json"
+    swapped.write_text(good.read_text())
+    _tamper(swapped, lambda d: d["result"]["witness"].reverse(), redigest=False)
+    # 3. a witness missing a vertex (digest recomputed)
+    short = tmp_path / "short.json"
+    short.write_text(good.read_text())
+    _tamper(short, lambda d: d["result"]["witness"].pop(), redigest=True)
+    # 4. the right result against another instance
+    rc, out, err = run("check", good, low, swapped, short)
+    assert rc == 1
+    verdicts = {os.path.basename(l.split(":")[0]): l for l in out.splitlines()}
+    assert ": ok: " in verdicts["r.json"]
+    assert "REFUSED" in verdicts["low.json"] and "width 4" in verdicts["low.json"]
+    assert "REFUSED" in verdicts["swapped.json"] and "edited" in verdicts["swapped.json"]
+    assert "REFUSED" in verdicts["short.json"]
+    rc, out, err = run("check", good, "--instance", files / "wheel.json")
+    assert rc == 1 and "not the one" in out
+
+
+def test_check_with_recompute(files, tmp_path):
+    good = tmp_path / "g.json"
+    assert main(["solve", str(files / "grid.json"), "-o", str(good), "--time-limit", "20"]) == 0
+    assert main(["check", str(good), "--recompute", "--method", "sat", "--time-limit", "20"]) == 0
+
+
+# ------------------------------------------------------------ bad input
+def test_bad_file_is_one_line(files):
+    rc, out, err = run("solve", files / "broken.json")
+    line = _one_line_error(rc, err)
+    assert "broken.json" in line
+    rc, out, err = run("solve", files / "missing.json")
+    assert "no such file" in _one_line_error(rc, err)
+
+
+@pytest.mark.parametrize(
+    "argv, needle, code",
+    [
+        (["solve", "{grid}", "--param", "width"], "unknown parameter 'width'", 1),
+        (["solve", "{grid}", "--method", "magic"], "magic", 1),
+        (["solve", "{grid}", "--time-limit", "soon"], "invalid float value", 2),
+        (["solve", "{c6}", "--param", "homology"], "plane graph", 1),
+        (["solve", "{grid}", "--first", "[9, 9]"], "not a vertex", 1),
+        (["bench", "{grid}", "--db", "{tmp}/x.sqlite"], "--time-limit", 1),
+        (["bench", "{grid}", "--time-limit", "1", "--jobs", "0", "--db", "{tmp}/x.sqlite"], "--jobs", 1),
+        (["bench", "{tmp}/nowhere", "--time-limit", "1", "--db", "{tmp}/x.sqlite"], "no such file", 1),
+        (["export", "--db", "{tmp}/none.sqlite"], "no such results database", 1),
+        (["check", "{grid}"], "not a saved result", 1),
+        (["draw", "{grid}"], "-o/--output", 2),
+        (["convert", "{grid}", "{tmp}/out.xyz"], "format", 1),
+        (["dual", "{c6}"], "plane graph", 1),
+        (["frobnicate"], "invalid choice", 2),
+    ],
+)
+def test_bad_options_are_one_line(argv, needle, code, files, tmp_path, capsys):
+    argv = [a.format(grid=files / "grid.json", c6=files / "c6.json", tmp=tmp_path) for a in argv]
+    try:
+        rc = main(argv)
+    except SystemExit as exc:
+        rc = exc.code
+    err = capsys.readouterr().err
+    line = _one_line_error(rc, err, code)
+    assert needle in line
+
+
+# ------------------------------------------------------ bench and export
+def test_bench_then_resume_then_export(files, tmp_path):
+    db = tmp_path / "runs.sqlite"
+    folder = tmp_path / "set"
+    folder.mkdir()
+    for name in ("grid.json", "wheel.json"):
+        (folder / name).write_text((files / name).read_text())
+    rc, out, err = run("bench", folder, "--param", "cutwidth,homology", "--time-limit", "20", "--jobs", "2", "--db", db)
+    assert rc == 0, err
+    assert "4 task(s) run, 0 skipped" in out
+    assert "median s" in out
+    rc, out, err = run("bench", folder, "--param", "cutwidth,homology", "--time-limit", "20", "--db", db, "--resume", "--quiet")
+    assert rc == 0, err
+    assert "0 task(s) run, 4 skipped" in out
+    csv_path = tmp_path / "runs.csv"
+    rc, out, err = run("export", "--db", db, "-o", csv_path)
+    assert rc == 0, err
+    import csv
+
+    rows = list(csv.DictReader(csv_path.open()))
+    assert len(rows) == 4 and all(r["status"] == "optimal" for r in rows)
+    rc, out, err = run("export", "--db", db, "--format", "jsonl", "--param", "homology")
+    assert rc == 0, err
+    got = [json.loads(l) for l in out.splitlines()]
+    assert len(got) == 2 and all(g["parameter"] == "homology" and g["result"]["witness"] for g in got)
+
+
+# ------------------------------------------------------ dual, convert, draw
+def test_dual_and_convert(files, tmp_path):
+    rc, out, err = run("dual", files / "grid.json", "-o", tmp_path / "d.json")
+    assert rc == 0, err
+    D = sw.read(str(tmp_path / "d.json"))
+    P = sw.read(str(files / "grid.json"))
+    # the dual has one vertex per face and one edge per edge (CHECKS.md, Euler)
+    assert D.number_of_vertices() == P.number_of_faces() and D.number_of_edges() == P.number_of_edges()
+    rc, out, err = run("dual", files / "wheel.json")
+    assert rc == 0 and "dual:" in out
+    assert main(["convert", str(files / "grid.json"), str(tmp_path / "g.gr")]) == 0
+    G = sw.read(str(tmp_path / "g.gr"), kind="graph")
+    assert nx.is_isomorphic(nx.Graph(G), nx.grid_2d_graph(3, 4))  # networkx as the reference
+
+
+def test_draw_writes_a_picture_or_says_why(files, tmp_path):
+    out_png = tmp_path / "w.png"
+    rc, out, err = run("draw", files / "wheel.json", "-o", out_png)
+    if rc == 0:
+        assert out_png.exists() and out_png.stat().st_size > 1000
+    else:
+        _one_line_error(rc, err)
+
+
+# ------------------------------------------------------------------ demo
+def test_demo_runs_and_finds_the_costly_spot(tmp_path):
+    rc, out, err = run("demo", "--out", tmp_path / "demo", "--time-limit", "20", timeout=300)
+    assert rc == 0, err
+    assert "not crowd-safety guidance" in out
+    assert "Larkspur Pavilion" in out
+    # the pavilion is chosen so that one cordon costs more than separate loops; the solvers say by how much
+    assert "keeping the cordon in one piece costs at least" in out
+    assert (tmp_path / "demo" / "pavilion.json").exists()
+    assert "pictures in" in out or "pictures skipped" in out
