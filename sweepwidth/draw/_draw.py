@@ -65,37 +65,34 @@ class Scene:
             s.set_visible(False)
 
     def faces(self, shade: Iterable[int] = (), holes: Iterable[int] = (), fresh: Iterable[int] = ()) -> None:
-        """Fill inner faces white, swept faces pale, holes grey and hatched, fresh faces outlined."""
-        from matplotlib.patches import Polygon
+        """Fill inner faces white, swept faces pale, holes grey and hatched, fresh faces dotted."""
+        from matplotlib.collections import PolyCollection
 
         P = self.P
         shade, holes, fresh = set(shade), set(holes), set(fresh)
+        groups: dict[str, list[np.ndarray]] = {"plain": [], "swept": [], "hole": [], "fresh": []}
         for f in P.faces:
-            if f == P.outer_face and f not in shade:
+            if f == P.outer_face:
+                if f in shade:
+                    self.ax.set_facecolor(PALETTE["swept"])  # a swept outer face tints the background
                 continue
             poly = self.g.face_polygon(f)
             if len(poly) < 3:
                 continue
-            if f == P.outer_face:
-                # a swept outer face: tint the whole background
-                self.ax.set_facecolor(PALETTE["swept"])
-                continue
-            if f in holes:
-                patch = Polygon(poly, closed=True, facecolor=PALETTE["hole"], edgecolor="none",
-                                hatch="///", zorder=self.Z_SHADE)
-            elif f in shade:
-                patch = Polygon(poly, closed=True, facecolor=PALETTE["swept"], edgecolor="none",
-                                zorder=self.Z_SHADE)
-            else:
-                patch = Polygon(poly, closed=True, facecolor="white", edgecolor="none", zorder=self.Z_FACE)
-            self.ax.add_patch(patch)
-        for f in fresh:
-            if f == P.outer_face:
-                continue
-            poly = self.g.face_polygon(f)
-            if len(poly) >= 3:
-                self.ax.add_patch(Polygon(poly, closed=True, facecolor="none", edgecolor=PALETTE["move"],
-                                          hatch=".", linewidth=0, zorder=self.Z_SHADE))
+            groups["hole" if f in holes else "swept" if f in shade else "plain"].append(poly)
+            if f in fresh:
+                groups["fresh"].append(poly)
+        styles = {
+            "plain": dict(facecolors="white", edgecolors="none", zorder=self.Z_FACE),
+            "swept": dict(facecolors=PALETTE["swept"], edgecolors="none", zorder=self.Z_SHADE),
+            "hole": dict(facecolors=PALETTE["hole"], edgecolors=PALETTE["ink"], hatch="///", linewidths=0,
+                         zorder=self.Z_SHADE),
+            "fresh": dict(facecolors="none", edgecolors=PALETTE["move"], hatch=".", linewidths=0,
+                          zorder=self.Z_SHADE),
+        }
+        for key, polys in groups.items():
+            if polys:
+                self.ax.add_collection(PolyCollection(polys, closed=True, **styles[key]))
 
     def edges(self, weights: bool | str = True, colour: str | None = None, width: float | None = None) -> None:
         """All edges (curves for parallels and loops) and, optionally, their weights."""

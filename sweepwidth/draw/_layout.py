@@ -114,43 +114,57 @@ def _tutte(
     pos: dict[Hashable, np.ndarray] = {}
     # the outer face lies on the left of its boundary darts, so the walk runs
     # clockwise around the drawing: place it at decreasing angles
+    # sides next to a busy vertex get short arcs, which opens its inner angle
+    # (an inscribed polygon's angle at v is pi minus half the arcs beside v)
+    deg = [max(len(rot[v]), 1) for v in cycle]
+    arcs = np.array([1.0 / (deg[i] + deg[(i + 1) % k]) for i in range(k)]) if k > 3 else np.ones(k)
+    arcs = 2 * math.pi * arcs / arcs.sum()
+    t = math.pi / 2
     for i, v in enumerate(cycle):
-        t = math.pi / 2 - 2 * math.pi * i / k
         pos[v] = np.array([math.cos(t), math.sin(t)])
+        t -= float(arcs[i])
     inner = [v for v in rot if v not in pos]
     if not inner:
         return pos
-    idx = {v: i for i, v in enumerate(inner)}
-    pairs = [(v, w) for v in inner for w in rot[v]]
     if any(not rot[v] for v in inner):
         raise SweepwidthError("an interior vertex has no neighbours")
-    weights = np.ones(len(pairs))
+    ni = len(inner)
+    idx = {v: i for i, v in enumerate(inner)}
+    fixed = [v for v in rot if v not in idx]
+    fidx = {v: i for i, v in enumerate(fixed)}
+    fxy = np.array([pos[v] for v in fixed], dtype=float).reshape(-1, 2)
+    src, dst_inner, dst_fixed = [], [], []
+    for v in inner:
+        for w in rot[v]:
+            src.append(idx[v])
+            dst_inner.append(idx.get(w, -1))
+            dst_fixed.append(fidx.get(w, -1))
+    src_a = np.asarray(src)
+    di = np.asarray(dst_inner)
+    df = np.asarray(dst_fixed)
+    to_inner = di >= 0
+    weights = np.ones(len(src_a))
+    xy = np.zeros((ni, 2))
     for r in range(rounds + 1):
-        rows, cols, vals = [], [], []
-        diag = np.zeros(len(inner))
-        b = np.zeros((len(inner), 2))
-        for (v, w), wt in zip(pairs, weights):
-            i = idx[v]
-            diag[i] += wt
-            if w in idx:
-                rows.append(i)
-                cols.append(idx[w])
-                vals.append(-wt)
-            else:
-                b[i] += wt * pos[w]
-        rows += list(range(len(inner)))
-        cols += list(range(len(inner)))
-        vals += diag.tolist()
-        A = coo_matrix((vals, (rows, cols)), shape=(len(inner), len(inner))).tocsr()
-        sol = np.atleast_2d(spsolve(A, b))
+        diag = np.bincount(src_a, weights=weights, minlength=ni)
+        rows = np.concatenate([src_a[to_inner], np.arange(ni)])
+        cols = np.concatenate([di[to_inner], np.arange(ni)])
+        vals = np.concatenate([-weights[to_inner], diag])
+        A = coo_matrix((vals, (rows, cols)), shape=(ni, ni)).tocsr()
+        b = np.zeros((ni, 2))
+        if (~to_inner).any():
+            np.add.at(b, src_a[~to_inner], weights[~to_inner, None] * fxy[df[~to_inner]])
+        sol = np.atleast_2d(spsolve(A, b)).reshape(ni, 2)
         if not np.all(np.isfinite(sol)):
             raise SweepwidthError("singular barycentric system")
-        for v in inner:
-            pos[v] = np.asarray(sol[idx[v]], dtype=float)
+        xy = sol
         if r < rounds:
-            lengths = np.array([float(np.hypot(*(pos[v] - pos[w]))) for v, w in pairs])
+            other = np.where(to_inner[:, None], xy[np.maximum(di, 0)], fxy[np.maximum(df, 0)] if len(fxy) else 0.0)
+            lengths = np.hypot(*(xy[src_a] - other).T)
             weights = np.maximum(lengths, 1e-9) ** power
             weights = weights / weights.mean()
+    for v in inner:
+        pos[v] = np.asarray(xy[idx[v]], dtype=float)
     return pos
 
 
@@ -284,18 +298,16 @@ def _layout_simple(P: PlaneGraph) -> dict[Hashable, tuple[float, float]]:
         return {verts[0]: (0.0, 0.0), verts[1]: (1.0, 0.0)}
     rot = _simple_rotation(P)
     cycle = _outer_cycle(P, rot)
-    candidates = []
+    makers = []
     if cycle is not None:
+        makers.append(lambda: _tutte(P, rot, cycle))
+    makers.append(lambda: _framed_tutte(P, rot))
+    makers.append(lambda: _chrobak_payne(P, rot))
+    for make in makers:
         try:
-            candidates.append(_tutte(P, rot, cycle))
-        except Exception:  # a singular system (disconnected interior): use the grid drawing
-            pass
-    try:
-        candidates.append(_framed_tutte(P, rot))
-    except Exception:  # fall back to the grid drawing
-        pass
-    candidates.append(_chrobak_payne(P, rot))
-    for pos in candidates:
+            pos = make()
+        except Exception:  # a singular system or a frame that does not fit: try the next drawing
+            continue
         sign = _drawing_agrees(rot, pos)
         if sign:
             return {v: (float(sign * p[0]), float(p[1])) for v, p in pos.items()}
@@ -727,11 +739,14 @@ class Geometry:
 
     def ring(self) -> tuple[np.ndarray, float]:
         """Centre and radius of a circle around the whole drawing (dual edges to the outer face run on it)."""
+        if getattr(self, "_ring", None) is not None:
+            return self._ring  # type: ignore[return-value]
         lo, hi = self.bounds()
         c = 0.5 * (lo + hi)
         pts = np.vstack([np.array(list(self.xy.values()))] + [x for x in self._curves if len(x)])
         R = float(np.max(np.hypot(*(pts - c).T))) if len(pts) else 0.0
-        return c, R + 0.3 * self.scale
+        self._ring = (c, R + 0.3 * self.scale)
+        return self._ring
 
     def face_point(self, f: int) -> np.ndarray:
         """A point inside face ``f`` (for the outer face: outside the drawing), cached.
@@ -754,6 +769,16 @@ class Geometry:
             p = poly.mean(axis=0) + np.array([0.0, 0.3 * self.scale])
             self._face_pts[f] = p
             return p
+        if len(poly) == len(darts) and len(set(P.boundary_walk(f))) == len(darts):
+            # straight edges: a strictly convex counterclockwise polygon contains its centroid
+            a = poly
+            b = np.roll(poly, -1, axis=0)
+            c = np.roll(poly, -2, axis=0)
+            turn = (b[:, 0] - a[:, 0]) * (c[:, 1] - b[:, 1]) - (b[:, 1] - a[:, 1]) * (c[:, 0] - b[:, 0])
+            if np.all(turn > 0):
+                p = poly.mean(axis=0)
+                self._face_pts[f] = p
+                return p
         cands = [poly.mean(axis=0)]
         for d in darts:
             for t in (0.5,):
