@@ -19,8 +19,9 @@ once (``W(T) = W(T - v) + delta_v(T - v)`` for the lowest face ``v`` of ``T``).
 References
 ----------
 .. [1] G. Brightwell and P. Winkler, "Submodular percolation", SIAM J.
-   Discrete Math. 23(3), 2009 (for submodular weights, such as the cut
-   function of a nested sweep, toggling a face twice never helps).
+   Discrete Math. 23(3), 2009 (for a submodular weight on the lattice of
+   face sets, such as a cut function, a path from the bottom to the top
+   never needs to toggle an element twice).
 .. [2] E. W. Dijkstra, "A note on two problems in connexion with graphs",
    Numerische Mathematik 1, 1959 (the search order; here with max instead
    of sum, the bottleneck path variant).

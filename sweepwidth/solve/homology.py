@@ -25,9 +25,15 @@ present while both or neither of its faces are toggled, which is no cut).
 
 A *non-monotone* sweep may toggle faces several times (any path of face sets
 from the empty set to ``S``); ``monotone=False`` computes the least width of
-those.  By Brightwell and Winkler's submodular percolation theorem it never
-beats the monotone width when the weight is a cut function (nested sweeps,
-in particular from a disk boundary); for crossing sweeps it can.
+those.  The face sets ``X`` (``c0 + dT = dX``) form a Boolean lattice on the
+non-hole faces, on which the weight of ``dX`` is submodular; Brightwell and
+Winkler's submodular percolation theorem concerns paths from the bottom to
+the top of it, so it shows that toggling twice never helps when the sweep
+covers every non-hole face starting from a cycle that bounds all or none of
+them (from a disk's boundary to nothing; from the outer to the inner
+boundary of an annulus).  Between interior curves it can help, even in the
+nested case (``tests/test_homology.py`` pins a six-face example: monotone
+width 6, non-monotone 5).
 
 Methods
 -------
