@@ -334,3 +334,29 @@ def test_render_cli_solves_draws_and_rejects(instance, tmp_path):
     saved.write_text(r.to_json())
     with pytest.raises(SweepwidthError, match="not 'homotopy'"):
         render_cli(path, param="homotopy", result=saved, out=tmp_path / "x.png")
+
+
+@settings(max_examples=8, deadline=None, suppress_health_check=[HealthCheck.too_slow])
+@given(plane_graphs(2, 7, kinds=("dual", "tree", "chords")))
+def test_frames_of_any_face_order_render(P):
+    # duals carry loops and parallel edges; every face order is a valid homology sweep
+    order = _inner(P)
+    r = Result("homology", "bounded", None, 0.0, 1e9, witness=order)
+    fig = sweep_frames(P, r, max_frames=3, dpi=20, panel_size=1.5)
+    fig.canvas.draw()
+    assert len([a for a in fig.axes if a.get_visible()]) == min(3, len(order) + 1)
+
+
+def test_face_points_lie_inside_their_faces():
+    # a non-convex face (an L-shaped hexagon) and convex triangles: each face's point
+    # must be inside the face's polygon (tested with matplotlib's own Path, not our code)
+    from matplotlib.path import Path
+
+    for P in (generators.delaunay(20, seed=7), generators.cycle_with_chords(9, 2, seed=2),
+              PlaneGraph.from_faces([[0, 1, 2, 3, 4, 5]],
+                                    pos={0: (0, 0), 1: (2, 0), 2: (2, 1), 3: (1, 1), 4: (1, 2), 5: (0, 2)})):
+        g = Geometry(P)
+        for f in P.faces:
+            if f == P.outer_face:
+                continue
+            assert Path(g.face_polygon(f)).contains_point(tuple(g.face_point(f))), f
