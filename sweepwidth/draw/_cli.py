@@ -107,6 +107,16 @@ def render_cli(
     SweepwidthError
         Unknown parameter or extension (the valid ones listed), a result about
         another parameter, a GIF without a sweep, or a file that cannot be read.
+
+    Examples
+    --------
+    >>> import os, tempfile, sweepwidth as sw
+    >>> from sweepwidth import generators
+    >>> d = tempfile.mkdtemp()
+    >>> sw.write(generators.grid(2, 3), os.path.join(d, "g.json"))
+    >>> out = render_cli(os.path.join(d, "g.json"), param="homology", out=os.path.join(d, "g.png"))
+    >>> os.path.getsize(out) > 0
+    True
     """
     from ._replay import peak_step, sweep_states
     from ._style import new_figure, require_matplotlib
@@ -133,7 +143,8 @@ def render_cli(
         P = obj if isinstance(obj, PlaneGraph) else PlaneGraph.from_graph(obj)
         from ._draw import draw
 
-        ax = draw(P, dual=dual, labels=P.number_of_vertices() <= 40, title=P.meta.get("name"))
+        holes = [f for f in (P.meta.get("holes") or []) if isinstance(f, int) and 0 <= f < P.number_of_faces()]
+        ax = draw(P, dual=dual, labels=P.number_of_vertices() <= 40, holes=holes, title=P.meta.get("name"))
         ax.figure.savefig(out, dpi=ax.figure.dpi)
         return out
     if res is None:

@@ -27,6 +27,17 @@ class Scene:
     ax : matplotlib Axes
     geometry : Geometry, optional
         Reuse the curves of an earlier scene (frames of one sweep share it).
+
+    Examples
+    --------
+    >>> from sweepwidth import generators
+    >>> from sweepwidth.draw._style import new_figure
+    >>> P = generators.grid(2, 3)
+    >>> sc = Scene(P, new_figure((3, 2)).add_subplot(1, 1, 1))
+    >>> inner = [f for f in P.faces if f != P.outer_face]
+    >>> sc.frame(); sc.faces(shade=inner[:1]); sc.edges(); sc.heavy_edges([0, 1]); sc.vertices()
+    >>> len(sc.ax.collections)      # plain faces, swept faces, edges, heavy edges, vertices
+    5
     """
 
     # z-orders of the layers, bottom to top
