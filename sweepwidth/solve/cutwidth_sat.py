@@ -1,0 +1,806 @@
+"""SAT encoding of "cutwidth <= k", built once and tightened incrementally.
+
+Model
+-----
+An ordering is described by its chain of prefixes: ``x[v][i]`` is true when
+vertex ``v`` is among the first ``i`` (levels ``i = 1..n-1``; level 0 is empty
+and level n is everything).  Clauses:
+
+* monotone chain: ``x[v][i] -> x[v][i+1]``;
+* one vertex enters per step: ``p[v][i] <- x[v][i] & ~x[v][i-1]`` with an
+  at-most-one (ladder) over ``p[.][i]`` for every step, plus the redundant
+  at-least-one.  With n steps and n vertices this makes ``|prefix i| = i``;
+* crossing indicators only as implications, ``x[u][i] & ~x[v][i] -> c[e][i]``
+  (and the mirror), which is all an upper bound on the cut needs;
+* per level a weighted sequential counter over the ``c[.][i]`` with outputs
+  ``ge[i][t]`` = "the cut at level i weighs at least t", for t up to the
+  largest bound that will ever be asked (upper - 1).  "width <= k" is the set
+  of literals ``~ge[i][k+1]``: asked as assumptions (upward search) or added
+  as units once a better ordering is known (downward search).  The formula is
+  never rebuilt.
+
+Pins (``problem.first`` / ``problem.last``) fix position windows, so many
+``x`` are constants and many edges can never be cut at a level; both are
+dropped from the formula.  Symmetry breaking: the first vertex is restricted
+to one representative per orbit of the automorphisms found (preserving the
+pins), and without pins the reversal symmetry is broken by requiring the
+orbit rank of the first vertex to be at most that of the last.
+
+What the ideas bought
+---------------------
+See ``benchmarks/cutwidth.py --ablation``; numbers from the development
+machine (CaDiCaL 1.9.5, seconds to prove optimality, heuristic upper bound
+given) are kept in :data:`ABLATION_NOTES`.
+
+References
+----------
+.. [1] C. Sinz, "Towards an optimal CNF encoding of Boolean cardinality
+   constraints", CP 2005, LNCS 3709 (sequential counter).
+.. [2] O. Bailleux and Y. Boufkhad, "Efficient CNF encoding of Boolean
+   cardinality constraints", CP 2003, LNCS 2833 (totalizer).
+.. [3] J. Rolim, O. Sykora and I. Vrto, "Optimal cutwidths and bisection
+   widths of 2- and 3-dimensional meshes", WG 1995, LNCS 1017 (the grid
+   values used in the tests).
+"""
+
+from __future__ import annotations
+
+import time
+from dataclasses import dataclass, field, replace
+from typing import Any, Callable, Sequence
+
+import numpy as np
+
+from ..errors import SweepwidthError, UnsupportedOptionError, WeightError
+from ..problems.ordering import OrderingProblem
+from ._deadline import BUDGET_SOLVERS, run_limited, sat_call
+
+__all__ = ["SatOutcome", "solve_sat", "greedy_order", "SOLVERS", "ABLATION_NOTES"]
+
+#: Solver names accepted by :func:`solve_sat`.  kissat404 has no assumptions
+#: in python-sat and is rebuilt for every bound.
+SOLVERS = ("cadical195", "cadical153", "glucose4", "glucose42", "minisat22", "maplechrono", "kissat404")
+
+_OPTIONS = {
+    "direction": ("down", "up"),
+    "symmetry": (True, False),
+    "phases": (True, False),
+    "counter": ("itot", "seq"),
+    "counts": ("band", "all", "none"),
+    "hard_deadline": (False, True),
+}
+
+#: Measured effect of each idea (filled from benchmarks/cutwidth.py --ablation).
+ABLATION_NOTES = ""
+
+
+@dataclass
+class SatOutcome:
+    """What the SAT engine proved and found.
+
+    Attributes
+    ----------
+    lower : int
+        Proven lower bound (from UNSAT answers, or the given lower).
+    upper : int
+        Width of ``order`` (or the given upper if no better order was found).
+    order : list of int or None
+        An ordering of ``0..n-1`` of width ``upper`` respecting the pins.
+    optimal : bool
+        ``lower == upper`` was proven.
+    stats : dict
+        ``calls`` (list of ``(k, answer, seconds, conflicts)``), ``vars``,
+        ``clauses``, ``build_seconds``, ``solver``, ``options``.
+    """
+
+    lower: int
+    upper: int
+    order: list[int] | None
+    optimal: bool
+    stats: dict = field(default_factory=dict)
+
+
+# ---------------------------------------------------------------------------
+# helpers on the problem
+
+
+def _int_weights(problem: OrderingProblem) -> list[int]:
+    if not problem.integral:
+        raise WeightError("the SAT engine needs integer edge weights; this problem has fractional weights")
+    return [int(round(w)) for w in problem.weights.tolist()]
+
+
+def _windows(problem: OrderingProblem) -> tuple[list[int], list[int]]:
+    """Allowed positions ``lo[v]..hi[v]`` (1-based) from the pins."""
+    n = problem.n
+    f, l = len(problem.first), len(problem.last)
+    lo = [f + 1] * n
+    hi = [n - l] * n
+    for v in problem.first:
+        lo[v], hi[v] = 1, f
+    for v in problem.last:
+        lo[v], hi[v] = n - l + 1, n
+    return lo, hi
+
+
+def _check_order(problem: OrderingProblem, order: Sequence[int], what: str) -> list[int]:
+    order = [int(v) for v in order]
+    n = problem.n
+    if sorted(order) != list(range(n)):
+        raise SweepwidthError(f"{what} is not an ordering of the vertices 0..{n - 1}")
+    f, l = len(problem.first), len(problem.last)
+    if set(order[:f]) != set(problem.first) or set(order[n - l:] if l else []) != set(problem.last):
+        raise SweepwidthError(f"{what} does not respect the pinned first/last vertices")
+    return order
+
+
+def greedy_order(problem: OrderingProblem) -> list[int]:
+    """A quick ordering respecting the pins: grow the prefix by the cheapest vertex.
+
+    From a vertex of least degree (within the allowed window), repeatedly add
+    the vertex whose entry gives the smallest next cut, ties broken towards
+    more edges back into the prefix (this closes holes first).
+
+    Parameters
+    ----------
+    problem : OrderingProblem
+
+    Returns
+    -------
+    list of int
+        An ordering of ``0..n-1`` with ``problem.first`` first and
+        ``problem.last`` last.
+
+    Notes
+    -----
+    O(n^2 + n m) time.  Only a starting upper bound for :func:`solve_sat`;
+    the stronger heuristics live with the dispatcher.
+
+    Examples
+    --------
+    >>> import networkx as nx
+    >>> from sweepwidth.problems.ordering import OrderingProblem
+    >>> P = OrderingProblem.from_graph(nx.path_graph(5))
+    >>> P.width(greedy_order(P))
+    1.0
+    """
+    n = problem.n
+    adj = problem.neighbours()
+    deg = [sum(a.values()) for a in adj]
+    f, l = len(problem.first), len(problem.last)
+    groups = [sorted(problem.first), sorted(set(range(n)) - problem.first - problem.last), sorted(problem.last)]
+    placed = [False] * n
+    back = [0.0] * n  # weight of edges into the prefix
+    order: list[int] = []
+    cut = 0.0
+    for group in groups:
+        todo = set(group)
+        while todo:
+            if not order or all(back[v] == 0 for v in todo):
+                # start (or restart in a new component) at a least-degree vertex
+                v = min(todo, key=lambda u: (deg[u] - 2 * back[u], -back[u], u))
+                if not order:
+                    v = min(todo, key=lambda u: (deg[u], u))
+            else:
+                v = min(todo, key=lambda u: (deg[u] - 2 * back[u], -back[u], u))
+            todo.discard(v)
+            placed[v] = True
+            order.append(v)
+            cut += deg[v] - 2 * back[v]
+            for u, w in adj[v].items():
+                if not placed[u]:
+                    back[u] += w
+    return order
+
+
+# ---------------------------------------------------------------------------
+# automorphism orbits (for symmetry breaking)
+
+
+def _orbits(problem: OrderingProblem, time_budget: float = 0.5) -> list[int]:
+    """``rep[v]`` = least vertex known to share v's orbit under pin-preserving automorphisms.
+
+    Automorphisms are searched with VF2 (networkx) one target at a time, so
+    the result is exact when the budget suffices and otherwise a refinement
+    of the true orbits (still sound for symmetry breaking: only automorphisms
+    actually found are used).
+    """
+    import networkx as nx
+    from networkx.algorithms.isomorphism import GraphMatcher
+
+    n = problem.n
+    rep = list(range(n))
+    if n > 400 or n < 2:
+        return rep
+    G = nx.Graph()
+    cls = [0] * n
+    for v in problem.first:
+        cls[v] = 1
+    for v in problem.last:
+        cls[v] = 2
+    for v in range(n):
+        G.add_node(v, c=cls[v], mark=0)
+    for (u, v), w in zip(problem.edges.tolist(), problem.weights.tolist()):
+        G.add_edge(u, v, w=w)
+    # invariant: pin class, weighted degree and the histogram of BFS distances
+    adj = problem.neighbours()
+    deg = [round(sum(a.values()), 9) for a in adj]
+    dist = dict(nx.all_pairs_shortest_path_length(G)) if n <= 400 else {}
+    inv = []
+    for v in range(n):
+        hist: dict[int, int] = {}
+        for d in dist.get(v, {}).values():
+            hist[d] = hist.get(d, 0) + 1
+        inv.append((cls[v], deg[v], tuple(sorted(deg[u] for u in adj[v])), tuple(sorted(hist.items()))))
+
+    def find(v: int) -> int:
+        while rep[v] != v:
+            rep[v] = rep[rep[v]]
+            v = rep[v]
+        return v
+
+    def union_perm(perm: dict) -> None:
+        for a, b in perm.items():
+            ra, rb = find(a), find(b)
+            if ra != rb:
+                if ra < rb:
+                    rep[rb] = ra
+                else:
+                    rep[ra] = rb
+
+    t_end = time.monotonic() + time_budget
+    nm = lambda a, b: a["c"] == b["c"] and a["mark"] == b["mark"]  # noqa: E731
+    em = lambda a, b: a["w"] == b["w"]  # noqa: E731
+    for v in range(1, n):
+        if find(v) != v:
+            continue
+        for r in range(v):
+            if time.monotonic() > t_end:
+                return [find(u) for u in range(n)]
+            if find(r) != r or inv[r] != inv[v]:
+                continue
+            G1 = G.copy()
+            G2 = G.copy()
+            G1.nodes[r]["mark"] = 1
+            G2.nodes[v]["mark"] = 1
+            gm = GraphMatcher(G1, G2, node_match=nm, edge_match=em)
+            perm = next(gm.isomorphisms_iter(), None)
+            if perm is not None:
+                union_perm(perm)
+                break
+    return [find(v) for v in range(n)]
+
+
+# ---------------------------------------------------------------------------
+# the encoding
+
+
+class _Formula:
+    """Clauses of "width <= k" for every k up to ``kmax`` (see module docstring)."""
+
+    def __init__(
+        self, problem: OrderingProblem, kmax: int, *, symmetry: bool, counter: str, counts: str = "band", extra: dict | None = None
+    ) -> None:
+        self.extra = extra = dict(extra or {})
+        self.problem = problem
+        self.n = n = problem.n
+        self.kmax = kmax
+        self.top = 0
+        self.clauses: list[list[int]] = []
+        lo, hi = _windows(problem)
+        self.lo, self.hi = lo, hi
+        # x[v][i], i = 0..n: int literal, or True/False constants
+        self.x: list[list[Any]] = []
+        for v in range(n):
+            row: list[Any] = []
+            for i in range(n + 1):
+                if i < lo[v]:
+                    row.append(False)
+                elif i >= hi[v]:
+                    row.append(True)
+                else:
+                    row.append(self._new())
+            self.x.append(row)
+        self._chain()
+        self._steps()
+        if counts != "none":
+            self._level_cards(counts)
+        self.ge: list[list[int] | None] = [None] * (n + 1)  # ge[i][t], t = 1..kmax+1
+        self.always_over: list[int] = []  # levels whose cut is forced above some t (constants)
+        w = _int_weights(problem)
+        self.fixed_cut = [0] * (n + 1)
+        self._cuts(w, counter)
+        self.n_orbits = 0
+        if symmetry:
+            self._symmetry()
+
+    # -- basics
+    def _new(self) -> int:
+        self.top += 1
+        return self.top
+
+    def add(self, lits: Sequence[Any]) -> None:
+        """Add a clause, folding True/False constants."""
+        out = []
+        for a in lits:
+            if a is True:
+                return
+            if a is False:
+                continue
+            out.append(a)
+        if not out:
+            # the empty clause: make it an explicit contradiction
+            z = self._new()
+            self.clauses.append([z])
+            self.clauses.append([-z])
+            return
+        self.clauses.append(out)
+
+    @staticmethod
+    def neg(a: Any) -> Any:
+        if a is True:
+            return False
+        if a is False:
+            return True
+        return -a
+
+    # -- structure
+    def _chain(self) -> None:
+        for row in self.x:
+            for i in range(1, self.n):
+                a, b = row[i], row[i + 1]
+                self.add([self.neg(a), b])
+
+    def _steps(self) -> None:
+        n = self.n
+        for i in range(1, n + 1):
+            ps = []
+            for v in range(n):
+                a, b = self.x[v][i], self.x[v][i - 1]
+                if a is False or b is True:
+                    continue  # cannot enter at step i
+                if a is True and b is False:
+                    ps.append(True)
+                    continue
+                p = self._new()
+                ps.append(p)
+                self.add([self.neg(a), b, p])  # enters -> p
+                self.add([-p, a])
+                self.add([-p, self.neg(b)])
+            lits = [p for p in ps if p is not True]
+            if len(lits) < len(ps):  # someone is forced to enter here
+                for p in lits:
+                    self.add([-p])
+                continue
+            self.add(lits)  # at least one enters
+            self._amo(lits)
+
+    def _level_cards(self, counts: str) -> None:
+        """Redundant: exactly i of the x[.][i] are true (two-sided totalizer).
+
+        ``counts='all'`` at every level, 'band' at the middle half of the
+        levels (i within n/4 of n/2), where orderings of small width are most
+        constrained and the counting saves most conflicts per clause.
+        """
+        every = int(self.extra.get("lc_every", 1))
+        band = float(self.extra.get("lc_band", 0.5 if counts == "band" else 0.0))
+        for i in range(1, self.n):
+            if i % every and i != self.n - 1:
+                continue
+            if band and abs(i - self.n / 2) > band * self.n / 2:
+                continue
+            lits = [row[i] for row in self.x if row[i] is not True and row[i] is not False]
+            need = i - sum(1 for row in self.x if row[i] is True)
+            if len(lits) < 2 or need <= 0 or need >= len(lits):
+                continue
+            self.clauses.extend(self._exact_card(lits, need))
+
+    def _exact_card(self, lits: list[int], need: int) -> list[list[int]]:
+        """Clauses of a two-sided totalizer with "exactly ``need`` of ``lits``" (numpy-built).
+
+        Every output ``o[t]`` of every node means "at least t of the node's
+        inputs"; both directions are encoded, so unit propagation counts
+        exactly.  Size O(len(lits)^2) clauses.
+        """
+        tri: list[np.ndarray] = []
+        duo: list[np.ndarray] = []
+
+        def build(part: np.ndarray) -> np.ndarray:
+            if len(part) == 1:
+                return part
+            mid = len(part) // 2
+            a, b = build(part[:mid]), build(part[mid:])
+            la, lb = len(a), len(b)
+            o = np.arange(self.top + 1, self.top + 1 + la + lb, dtype=np.int64)
+            self.top += la + lb
+            # upward: a_i & b_j -> o_{i+j}
+            I, J = np.meshgrid(np.arange(la), np.arange(lb), indexing="ij")
+            tri.append(np.stack([-a[I], -b[J], o[I + J + 1]], axis=-1).reshape(-1, 3))
+            duo.append(np.stack([-a, o[:la]], axis=-1))
+            duo.append(np.stack([-b, o[:lb]], axis=-1))
+            # downward: ~a_{i+1} & ~b_{j+1} -> ~o_{i+j+1}
+            tri.append(np.stack([a[I], b[J], -o[I + J]], axis=-1).reshape(-1, 3))
+            # i = la (a full) : b_{j+1} or ~o_{la+j+1};  j = lb: a_{i+1} or ~o_{i+lb+1}
+            duo.append(np.stack([b, -o[la:la + lb]], axis=-1))
+            duo.append(np.stack([a, -o[lb:la + lb]], axis=-1))
+            return o
+
+        root = build(np.asarray(lits, dtype=np.int64))
+        out = [[int(root[need - 1])], [int(-root[need])]]
+        for arr in tri + duo:
+            out.extend(arr.tolist())
+        return out
+
+    def _amo(self, lits: list[int]) -> None:
+        """Ladder (sequential) at-most-one."""
+        if len(lits) <= 4:
+            for a in range(len(lits)):
+                for b in range(a + 1, len(lits)):
+                    self.add([-lits[a], -lits[b]])
+            return
+        prev = None
+        for j, a in enumerate(lits):
+            if j == len(lits) - 1:
+                self.add([-a, -prev])
+                break
+            s = self._new()
+            self.add([-a, s])
+            if prev is not None:
+                self.add([-prev, s])
+                self.add([-a, -prev])
+            prev = s
+
+    def _cuts(self, w: list[int], counter: str) -> None:
+        n = self.n
+        cap = self.kmax + 1
+        edges = self.problem.edges.tolist()
+        for i in range(1, n):
+            items: list[tuple[int, int]] = []  # (literal, weight)
+            fixed = 0
+            for e, (u, v) in enumerate(edges):
+                if w[e] == 0:
+                    continue
+                xu, xv = self.x[u][i], self.x[v][i]
+                if (xu is True and xv is False) or (xu is False and xv is True):
+                    fixed += w[e]
+                    continue
+                if (xu is True and xv is True) or (xu is False and xv is False):
+                    continue
+                c = self._new()
+                self.add([self.neg(xu), xv, c])
+                self.add([self.neg(xv), xu, c])
+                items.append((c, w[e]))
+            self.fixed_cut[i] = fixed
+            self.ge[i] = self._counter(items, cap - fixed, counter) if cap - fixed > 0 else None
+
+    def _counter(self, items: list[tuple[int, int]], cap: int, kind: str) -> list[Any]:
+        """``out[t]`` (t = 1..cap) is implied by "weight of true items >= t"; out[0] unused."""
+        if not items:
+            return [True] + [False] * cap
+        if kind == "itot" and sum(wt for _, wt in items) <= 64 * cap + 256:
+            # python-sat's C++ totalizer; a weight w is w copies of the literal
+            from pysat.card import ITotalizer
+
+            lits = [c for c, wt in items for _ in range(wt)]
+            tot = ITotalizer(lits=lits, ubound=cap, top_id=self.top)
+            self.clauses.extend(tot.cnf.clauses)
+            self.top = max(self.top, tot.top_id)
+            rhs = list(tot.rhs)
+            tot.delete()
+            out: list[Any] = [True] + rhs[:cap]
+            out += [False] * (cap + 1 - len(out))
+            return out
+        prev: list[Any] = [True] + [False] * cap  # prev[t]: prefix sum >= t
+        for c, wt in items:
+            cur: list[Any] = [True]
+            for t in range(1, cap + 1):
+                if prev[t] is False and t > wt and prev[t - wt] is False:
+                    cur.append(False)
+                    continue
+                s = self._new()
+                cur.append(s)
+                if prev[t] is not False:
+                    self.add([self.neg(prev[t]), s])
+                if t <= wt:
+                    self.add([-c, s])
+                elif prev[t - wt] is not False:
+                    self.add([-c, self.neg(prev[t - wt]), s])
+            prev = cur
+        return prev
+
+    def _symmetry(self) -> None:
+        """First vertex: one per orbit; no pins: orbit rank of first <= that of last."""
+        p = self.problem
+        rep = _orbits(p)
+        n = self.n
+        reps = sorted(set(rep))
+        self.n_orbits = len(reps)
+        for v in range(n):
+            if rep[v] != v and self.x[v][1] is not True:
+                self.add([self.neg(self.x[v][1])])
+        if p.first or p.last or n < 2:
+            return
+        rank = {r: k for k, r in enumerate(reps)}
+        # last in orbit of rank b  ->  first has rank <= b
+        for v in range(n):
+            b = rank[rep[v]]
+            for r in reps:
+                if rank[r] > b:
+                    self.add([self.x[v][n - 1], self.neg(self.x[r][1])])
+
+    # -- queries
+    def bound(self, k: int) -> tuple[list[int], bool]:
+        """Literals meaning "every cut <= k"; False as 2nd item when impossible outright."""
+        lits = []
+        for i in range(1, self.n):
+            t = k + 1 - self.fixed_cut[i]
+            if t <= 0:
+                return [], False
+            g = self.ge[i]
+            if g is None or t >= len(g):
+                continue
+            a = g[t]
+            if a is True:
+                return [], False
+            if a is False:
+                continue
+            lits.append(-a)
+        return lits, True
+
+    def phases(self, order: Sequence[int]) -> list[int]:
+        pos = {v: j + 1 for j, v in enumerate(order)}
+        out = []
+        for v in range(self.n):
+            for i in range(1, self.n):
+                a = self.x[v][i]
+                if a is not True and a is not False:
+                    out.append(a if pos[v] <= i else -a)
+        return out
+
+    def decode(self, model: Sequence[int]) -> list[int]:
+        val = set(l for l in model if l > 0)
+        first_in = []
+        for v in range(self.n):
+            for i in range(self.n + 1):
+                a = self.x[v][i]
+                if a is True or (a is not False and a in val):
+                    first_in.append((i, v))
+                    break
+        return [v for _, v in sorted(first_in)]
+
+
+# ---------------------------------------------------------------------------
+# entry point
+
+
+def _validate(problem: Any, lower: int, upper: int | None, solver: str, options: dict) -> dict:
+    if not isinstance(problem, OrderingProblem):
+        raise SweepwidthError(f"solve_sat expects an OrderingProblem, got {type(problem).__name__}")
+    if solver not in SOLVERS:
+        raise UnsupportedOptionError("SAT solver", solver, SOLVERS)
+    opts = {k: v[0] for k, v in _OPTIONS.items()}
+    for k, v in options.items():
+        if k == "_extra":  # experimental switches for the benchmarks
+            continue
+        if k not in _OPTIONS:
+            raise UnsupportedOptionError("solve_sat option", k, sorted(_OPTIONS))
+        if v not in _OPTIONS[k]:
+            raise UnsupportedOptionError(f"value for option {k!r}", v, _OPTIONS[k])
+        opts[k] = v
+    if isinstance(lower, bool) or not isinstance(lower, (int, np.integer)) or lower < 0:
+        raise SweepwidthError(f"lower must be a non-negative integer, got {lower!r}")
+    if upper is not None and (isinstance(upper, bool) or not isinstance(upper, (int, np.integer))):
+        raise SweepwidthError(f"upper must be an integer or None, got {upper!r}")
+    return opts
+
+
+def solve_sat(
+    problem: OrderingProblem,
+    *,
+    lower: int = 0,
+    upper: int | None = None,
+    upper_order: list[int] | None = None,
+    deadline: float | None = None,
+    solver: str = "cadical195",
+    progress: Callable[[SatOutcome], None] | None = None,
+    **options: Any,
+) -> SatOutcome:
+    """Cutwidth by incremental SAT: prove ``lower`` up / improve ``upper`` down.
+
+    The cutwidth of an ordering is the largest weight of edges between a
+    prefix and the rest; this finds an ordering (respecting the pins) of least
+    width, or bounds when ``deadline`` comes first.
+
+    Parameters
+    ----------
+    problem : OrderingProblem
+        Integral weights (``problem.integral``); pins and several components
+        are allowed.
+    lower : int
+        A known lower bound (trusted).
+    upper : int, optional
+        A known upper bound; ``upper_order`` attains it when given.  Without
+        either, :func:`greedy_order` supplies one.
+    upper_order : list of int, optional
+        An ordering of width ``upper`` (used as phase hints too).
+    deadline : float, optional
+        ``time.monotonic()`` value; the best bounds so far are returned then.
+    solver : str
+        A python-sat solver name from :data:`SOLVERS`.
+    progress : callable, optional
+        Called with a :class:`SatOutcome` after each improvement.
+    **options
+        ``direction`` ('down': ask upper-1, then below each new ordering, so
+        one UNSAT answer ends the search; 'up': ask lower, lower+1, ...),
+        ``symmetry`` (bool), ``phases`` (bool), ``counter`` ('seq' sequential
+        counter or 'tot' totalizer, unweighted only), ``hard_deadline``
+        (True: run in a child process killed at the deadline, for solvers or
+        encodings where a conflict slice could overrun).
+
+    Returns
+    -------
+    SatOutcome
+
+    Raises
+    ------
+    WeightError
+        Fractional weights.
+    UnsupportedOptionError
+        An unknown solver or option.
+    SweepwidthError
+        A bad ``upper_order`` (not an ordering, pins violated) or bounds.
+
+    Notes
+    -----
+    The formula has O(n^2 + n m kmax) clauses (n levels, a counter of width
+    kmax = upper - 1 over the m crossing indicators of each level) and is
+    built once.  With a deadline each SAT call runs in conflict-budgeted
+    slices (:func:`~sweepwidth.solve._deadline.sat_call`), so the function
+    returns within about a quarter second of the deadline.
+
+    References
+    ----------
+    See the module docstring.
+
+    Examples
+    --------
+    >>> import networkx as nx
+    >>> from sweepwidth.problems.ordering import OrderingProblem
+    >>> out = solve_sat(OrderingProblem.from_graph(nx.grid_2d_graph(3, 3)))
+    >>> out.lower, out.upper, out.optimal
+    (4, 4, True)
+    """
+    t_start = time.monotonic()
+    opts = _validate(problem, lower, upper, solver, options)
+    if opts["hard_deadline"] and deadline is not None:
+        return _solve_isolated(problem, lower, upper, upper_order, deadline, solver, progress, opts)
+    _int_weights(problem)
+    n = problem.n
+    hint = None  # ordering used for phases
+    best_order = None  # ordering attaining `upper`
+    if upper_order is not None:
+        hint = _check_order(problem, upper_order, "upper_order")
+    else:
+        hint = greedy_order(problem)
+    w_hint = int(round(problem.width(hint)))
+    if upper is None or w_hint <= int(upper):
+        upper, best_order = w_hint, hint
+    upper = int(upper)
+    lower = int(lower)
+    stats: dict = {"solver": solver, "options": dict(opts), "calls": []}
+    if lower > upper:
+        raise SweepwidthError(f"lower bound {lower} exceeds upper bound {upper}")
+    best = SatOutcome(lower, upper, best_order, lower >= upper, stats)
+    if best.optimal or n <= 1:
+        best.optimal = True
+        best.lower = best.upper
+        stats["seconds"] = time.monotonic() - t_start
+        return best
+
+    t0 = time.monotonic()
+    F = _Formula(problem, upper - 1, symmetry=opts["symmetry"], counter=opts["counter"], counts=opts["counts"], extra=options.get("_extra"))
+    stats["build_seconds"] = time.monotonic() - t0
+    stats["vars"] = F.top
+    stats["clauses"] = len(F.clauses)
+    stats["orbits"] = F.n_orbits
+
+    def report() -> None:
+        stats["seconds"] = time.monotonic() - t_start
+        if progress is not None:
+            progress(replace(best, order=list(best.order) if best.order else None, stats=dict(stats)))
+
+    if solver == "kissat404":
+        return _search_rebuild(F, best, deadline, opts, report)
+
+    from pysat.solvers import Solver
+
+    with Solver(name=solver, bootstrap_with=F.clauses) as S:
+        F.clauses = []  # free memory; the solver has them
+        if opts["phases"]:
+            S.set_phases(F.phases(hint))
+        while not best.optimal:
+            k = best.upper - 1 if opts["direction"] == "down" else best.lower
+            lits, possible = F.bound(k)
+            if not possible:
+                ans: bool | None = False
+            else:
+                if opts["direction"] == "down":
+                    for a in lits:  # permanent: never ask above k again
+                        S.add_clause([a])
+                    assume: list[int] = []
+                else:
+                    assume = lits
+                cs: dict = {}
+                t1 = time.monotonic()
+                ans = sat_call(S, assume, deadline=deadline, name=solver, stats=cs)
+                stats["calls"].append((k, ans, round(time.monotonic() - t1, 4), cs.get("conflicts", 0)))
+            if ans is None:
+                break
+            if ans:
+                order = F.decode(S.get_model())
+                w = int(round(problem.width(order)))
+                if w > k:  # pragma: no cover - would be an encoding bug
+                    raise SweepwidthError(f"internal error: SAT ordering has width {w} > {k}")
+                best.order, best.upper = order, w
+                if opts["phases"]:
+                    S.set_phases(F.phases(order))
+            else:
+                best.lower = k + 1
+            best.optimal = best.lower >= best.upper
+            report()
+    if best.optimal:
+        best.lower = best.upper
+    stats["seconds"] = time.monotonic() - t_start
+    return best
+
+
+def _search_rebuild(F: _Formula, best: SatOutcome, deadline: float | None, opts: dict, report: Callable[[], None]) -> SatOutcome:
+    """Search for solvers without assumptions (kissat): a fresh solver per bound."""
+    from pysat.solvers import Solver
+
+    base = F.clauses
+    stats = best.stats
+    while not best.optimal:
+        k = best.upper - 1 if opts["direction"] == "down" else best.lower
+        lits, possible = F.bound(k)
+        ans: bool | None = False
+        if possible:
+            t1 = time.monotonic()
+            cs: dict = {}
+            with Solver(name="kissat404", bootstrap_with=base + [[a] for a in lits]) as S:
+                ans = sat_call(S, [], deadline=deadline, name="kissat404", stats=cs)
+                model = S.get_model() if ans else None
+            stats["calls"].append((k, ans, round(time.monotonic() - t1, 4), cs.get("conflicts", 0)))
+            if ans is None:
+                break
+            if ans:
+                order = F.decode(model)
+                best.order, best.upper = order, int(round(F.problem.width(order)))
+        if not ans:
+            best.lower = k + 1
+        best.optimal = best.lower >= best.upper
+        report()
+    if best.optimal:
+        best.lower = best.upper
+    return best
+
+
+def _isolated_body(problem: OrderingProblem, kw: dict, *, progress: Callable) -> SatOutcome:
+    return solve_sat(problem, progress=progress, **kw)
+
+
+def _solve_isolated(problem, lower, upper, upper_order, deadline, solver, progress, opts) -> SatOutcome:
+    kw = dict(lower=lower, upper=upper, upper_order=upper_order, deadline=deadline, solver=solver)
+    kw.update({k: v for k, v in opts.items() if k != "hard_deadline"})
+    finished, value, reports = run_limited(_isolated_body, (problem, kw), deadline=deadline + 0.3, on_progress=progress)
+    if finished:
+        return value
+    if reports:
+        out = reports[-1]
+        out.stats["killed"] = True
+        return out
+    if upper_order is None:
+        upper_order = greedy_order(problem)
+        w = int(round(problem.width(upper_order)))
+        upper = w if upper is None else min(upper, w)
+    return SatOutcome(int(lower), int(upper), upper_order, False, {"solver": solver, "killed": True, "calls": []})
