@@ -139,6 +139,15 @@ def test_draw_into_a_given_axes_and_returns_it():
     assert draw(generators.fan(4), ax=ax) is ax
 
 
+def test_sw_draw_is_callable_even_after_importing_the_package():
+    # regression: ``import sweepwidth.draw`` rebinds ``sw.draw`` to the package
+    import sweepwidth as sw
+    import sweepwidth.draw  # noqa: F401
+
+    ax = sw.draw(generators.grid(2, 2))
+    assert ax.collections
+
+
 def test_drawing_does_not_log_warnings(caplog):
     # regression: a fixed-limits/aspect clash made matplotlib log "Ignoring fixed x limits"
     with caplog.at_level(logging.WARNING):
@@ -172,6 +181,23 @@ def test_given_positions_are_used_as_they_are():
     P = generators.grid(3, 3)
     pos = layout_positions(P)
     assert all(np.allclose(pos[v], P.pos[v]) for v in P.vertices)
+
+
+def test_positions_that_put_another_face_outside_are_replaced():
+    # the same grid drawing, but with an inner square declared the outer face:
+    # the picture must show that square as the unbounded face, so a layout is computed
+    P = generators.grid(3, 3)
+    inner = [f for f in P.faces if f != P.outer_face][0]
+    rot = {v: [P.head(d) for d in P.darts_at(v)] for v in P.vertices}
+    Q = PlaneGraph.from_rotation(rot, pos=P.pos, outer=P.boundary_walk(inner))
+    pos = layout_positions(Q)
+    assert any(not np.allclose(pos[v], P.pos[v]) for v in Q.vertices)
+    _assert_realises_rotation(Q, pos)
+    from scipy.spatial import ConvexHull
+
+    pts = np.array([pos[v] for v in Q.vertices])
+    hull = {Q.vertices[i] for i in ConvexHull(pts).vertices}
+    assert hull <= set(Q.boundary_walk(Q.outer_face))
 
 
 def test_dual_carries_face_points_but_gets_a_real_layout():

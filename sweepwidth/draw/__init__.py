@@ -17,6 +17,8 @@ Agg canvas without pyplot, so nothing global changes.
 from __future__ import annotations
 
 import importlib
+import sys
+import types
 from typing import Any
 
 _PUBLIC = {
@@ -52,3 +54,19 @@ def __getattr__(name: str) -> Any:
 
 def __dir__() -> list[str]:
     return __all__
+
+
+class _DrawingModule(types.ModuleType):
+    """This package, callable as :func:`draw`.
+
+    ``import sweepwidth.draw`` binds the *package* to the name ``draw`` in
+    ``sweepwidth``, hiding the lazily exported function ``sweepwidth.draw``;
+    calling the package forwards to the function, so ``sw.draw(P)`` works
+    whichever way it was reached.
+    """
+
+    def __call__(self, *args: Any, **kwargs: Any) -> Any:
+        return __getattr__("draw")(*args, **kwargs)
+
+
+sys.modules[__name__].__class__ = _DrawingModule

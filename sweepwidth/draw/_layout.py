@@ -283,9 +283,23 @@ def _given_positions(P: PlaneGraph) -> dict[Hashable, tuple[float, float]] | Non
     if P.pos is None or not all(v in P.pos for v in P.vertices):
         return None
     given = {v: (float(P.pos[v][0]), float(P.pos[v][1])) for v in P.vertices}
-    if _drawing_agrees(_simple_rotation(P), {v: np.array(p) for v, p in given.items()}) == 1:
-        return given
-    return None
+    if _drawing_agrees(_simple_rotation(P), {v: np.array(p) for v, p in given.items()}) != 1:
+        return None
+    if P.number_of_edges() and _unbounded_face(P, given) != P.outer_face:
+        return None  # the drawing would put another face outside
+    return given
+
+
+def _unbounded_face(P: PlaneGraph, pos: dict) -> int | None:
+    """The face that a straight-line drawing ``pos`` leaves unbounded (loops ignored)."""
+    v0 = min(P.vertices, key=lambda v: (pos[v][0], pos[v][1]))
+    darts = [d for d in P.darts_at(v0) if P.head(d) != v0]
+    if not darts:
+        return None
+    x0, y0 = pos[v0]
+    # the dart turning furthest counterclockwise from straight down has the unbounded face on its left
+    best = max(darts, key=lambda d: math.atan2(pos[P.head(d)][1] - y0, pos[P.head(d)][0] - x0))
+    return P.face_of_dart(best)
 
 
 def _layout_simple(P: PlaneGraph) -> dict[Hashable, tuple[float, float]]:

@@ -59,9 +59,9 @@ def _walk_pieces(g: Geometry, walk: Sequence[int], closed: bool) -> list[np.ndar
             used[j] = used[k] = True
     pieces = []
     for j, d in enumerate(walk):
-        e = d >> 1
-        occ = seen.get(e, 0)
-        seen[e] = occ + 1
+        # a dart and its reverse sit on opposite sides already; repeats of the same dart step outwards
+        occ = seen.get(d, 0)
+        seen[d] = occ + 1
         pts = g.dart_points(d)
         if cut_end[j] < 1.0 or cut_start[j] > 0.0:
             ts = np.linspace(cut_start[j], cut_end[j], 12)
@@ -73,7 +73,7 @@ def _walk_pieces(g: Geometry, walk: Sequence[int], closed: bool) -> list[np.ndar
             lens = np.hypot(nrm[:, 0], nrm[:, 1])
             lens[lens == 0] = 1.0
             nrm = nrm / lens[:, None]
-            pts = pts + nrm * base * (1.0 + 1.1 * (occ // 2))
+            pts = pts + nrm * base * (1.0 + 1.1 * occ)
         pieces.append(pts)
     return pieces
 
