@@ -217,7 +217,7 @@ def bench_times(
         raise SweepwidthError("no task in the database has both an instance size and a time")
     if ax is None:
         fig = new_figure(figsize, dpi)
-        ax = fig.add_axes((0.12, 0.13, 0.84, 0.78))
+        ax = fig.add_axes((0.14, 0.13, 0.82, 0.78))
     for k, method in enumerate(_methods(usable)):
         colour, marker, ls = SERIES[k % len(SERIES)]
         mine = [r for r in usable if r["method"] == method]
