@@ -157,6 +157,13 @@ def _solver_options(args: argparse.Namespace, parameter: str, obj: Any) -> dict:
     return opts
 
 
+def _relative_to(result_file: str, instance: str) -> str | None:
+    try:
+        return os.path.relpath(os.path.abspath(instance), os.path.dirname(os.path.abspath(result_file)))
+    except ValueError:  # another drive on Windows
+        return None
+
+
 def _saved(path: str, instance_hash: str, result: Any, options: dict) -> dict:
     from . import __version__
     from .bench.hashing import digest
@@ -219,11 +226,15 @@ def cmd_solve(args: argparse.Namespace, out: Callable[[str], None]) -> int:
                     failures += 1
                     note = f"witness refused: {err}"
             saved = _saved(path, h, res, _jsonable_options(opts))
+            targets = []
             if args.save:
                 stem = os.path.splitext(os.path.basename(path))[0]
-                _write_json(saved, os.path.join(args.save, f"{stem}.{p}.json"))
+                targets.append(os.path.join(args.save, f"{stem}.{p}.json"))
             if args.output:
-                _write_json(saved, args.output)
+                targets.append(args.output)
+            for target in targets:
+                # where the instance is seen from the result file (kept out of the digest, so moving both keeps it valid)
+                _write_json({**saved, "instance_from_here": _relative_to(target, path)}, target)
             if args.json:
                 line = {"instance": path, "instance_hash": h, **res.to_dict(), "checked": checked}
                 if note:
@@ -262,8 +273,9 @@ def _find_instance(saved: dict, result_path: str, override: str | None) -> str:
     if not p:
         raise CliError(f"{result_path}: the saved result names no instance; give one with --instance")
     cands = [p]
-    if not os.path.isabs(p):
-        cands.insert(0, os.path.join(os.path.dirname(os.path.abspath(result_path)), p))
+    rel = saved.get("instance_from_here")
+    if isinstance(rel, str):
+        cands.insert(0, os.path.join(os.path.dirname(os.path.abspath(result_path)), rel))
     for c in cands:
         if os.path.exists(c):
             return c
@@ -376,8 +388,9 @@ def cmd_bench(args: argparse.Namespace, out: Callable[[str], None]) -> int:
         options=opts,
         seeds=seeds,
         time_limit=args.time_limit,
-        memory_mb=args.memory,
+        memory_mb=args.memory or None,
         grace=args.grace,
+        solver=args.solver,
     )
     bar = None
     if sys.stderr.isatty() and not args.quiet:
@@ -626,6 +639,7 @@ def build_parser() -> argparse.ArgumentParser:
     b.add_argument("--resume", action="store_true", help="skip tasks already in the database")
     b.add_argument("--seed", action="append", metavar="S", help="seeds (repeat or comma list); each seed is its own task")
     b.add_argument("--sets", action="append", metavar="NAME", help="only these manifest sets (repeat or comma list)")
+    b.add_argument("--solver", metavar="MODULE:FUNCTION", help="benchmark your own solver function instead of the library's (see sweepwidth.bench.Task)")
     b.add_argument("--quiet", action="store_true", help="print only the summary")
     _add_solver_options(b)
 
@@ -662,7 +676,7 @@ def build_parser() -> argparse.ArgumentParser:
 
     m = verb("demo", "walk through the Larkspur Pavilion example", "sweepwidth demo --out demo-output")
     m.add_argument("--out", default="demo-output", metavar="DIR", help="folder for pictures and saved results (default demo-output)")
-    m.add_argument("--time-limit", type=float, default=10.0, metavar="SECONDS", help="seconds per solve (default 10)")
+    m.add_argument("--time-limit", type=float, default=30.0, metavar="SECONDS", help="seconds per solve (default 30)")
     m.add_argument("--no-pictures", action="store_true", help="skip the pictures")
     return top
 

@@ -58,7 +58,7 @@ def test_parser_knows_every_verb():
 
 # ------------------------------------------------------------ solve, check
 def test_solve_table_json_and_save_then_check(files, tmp_path):
-    rc, out, err = run("solve", files / "grid.json", files / "c6.json", "--time-limit", "20")
+    rc, out, err = run("solve", files / "grid.json", files / "c6.json")
     assert rc == 0, err
     lines = out.splitlines()
     assert lines[0].split()[:3] == ["instance", "param", "status"]
@@ -69,7 +69,7 @@ def test_solve_table_json_and_save_then_check(files, tmp_path):
     assert c6[3] == "2"  # cw(C_n) = 2 (common practice)
 
     save = tmp_path / "saved"
-    rc, out, err = run("solve", files / "wheel.json", "--param", "cutwidth,homology", "--json", "--save", save, "--time-limit", "20")
+    rc, out, err = run("solve", files / "wheel.json", "--param", "cutwidth,homology", "--json", "--save", save)
     assert rc == 0, err
     objs = [json.loads(l) for l in out.splitlines()]
     assert [o["parameter"] for o in objs] == ["cutwidth", "homology"]
@@ -95,7 +95,7 @@ def _tamper(path, change, redigest):
 
 def test_check_refuses_tampered_results(files, tmp_path):
     good = tmp_path / "r.json"
-    rc, out, err = run("solve", files / "grid.json", "-o", good, "--time-limit", "20")
+    rc, out, err = run("solve", files / "grid.json", "-o", good)
     assert rc == 0, err
     # 1. a lower upper bound with a recomputed digest: the replay finds the real width
     low = tmp_path / "low.json"
@@ -223,11 +223,12 @@ def test_draw_writes_a_picture_or_says_why(files, tmp_path):
 
 # ------------------------------------------------------------------ demo
 def test_demo_runs_and_finds_the_costly_spot(tmp_path):
-    rc, out, err = run("demo", "--out", tmp_path / "demo", "--time-limit", "20", timeout=300)
+    rc, out, err = run("demo", "--out", tmp_path / "demo", "--time-limit", "30", "--no-pictures", timeout=300)
     assert rc == 0, err
     assert "not crowd-safety guidance" in out
     assert "Larkspur Pavilion" in out
     # the pavilion is chosen so that one cordon costs more than separate loops; the solvers say by how much
     assert "keeping the cordon in one piece costs at least" in out
     assert (tmp_path / "demo" / "pavilion.json").exists()
-    assert "pictures in" in out or "pictures skipped" in out
+    saved = json.loads((tmp_path / "demo" / "pavilion.homotopy.result.json").read_text())
+    assert saved["status"] == "optimal"

@@ -235,11 +235,13 @@ def make_tasks(
     time_limit: float | None = None,
     memory_mb: int | None = DEFAULT_MEMORY_MB,
     grace: float = 5.0,
+    solver: str | None = None,
 ) -> list[Task]:
     """Cross instances with parameters, methods and seeds.
 
     Entries whose manifest kind is 'graph' (no embedding) get no homology or
-    homotopy tasks.  Per-instance options from the manifest are merged
+    homotopy tasks.  ``solver`` (``"module:function"``) replaces the
+    library's solver in every task (see :class:`Task`).  Per-instance options from the manifest are merged
     under the run's ``options`` (the run's win).
 
     Raises
@@ -275,6 +277,7 @@ def make_tasks(
                             time_limit=time_limit,
                             memory_mb=memory_mb,
                             grace=grace,
+                            solver=solver,
                             name=e.name,
                             known=dict((e.known or {}).get(p, {})),
                         )
