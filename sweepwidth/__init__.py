@@ -18,7 +18,8 @@ _PUBLIC = {
     "PlaneGraph": "sweepwidth.plane",
     "read": "sweepwidth.io",
     "write": "sweepwidth.io",
-    "cutwidth": "sweepwidth.solve",
+    # the defining module itself: once imported, ``sweepwidth.solve.cutwidth`` is that module
+    "cutwidth": "sweepwidth.solve.cutwidth",
     "homology_width": "sweepwidth.solve",
     "homotopy_height": "sweepwidth.solve",
     "draw": "sweepwidth.draw",

@@ -399,3 +399,20 @@ def test_time_limit_returns_bounded_with_a_witness():
     assert r.lower <= r.upper
     assert r.check(P) == pytest.approx(r.upper)
     assert "bounds" in r.stats and "holes" in r.stats
+
+
+def test_regression_sw_cutwidth_stays_a_function_after_homology():
+    # regression: homology_width imports sweepwidth.solve.cutwidth, after which the lazy
+    # facade resolved sw.cutwidth to that module instead of the function (fresh interpreter)
+    import subprocess
+    import sys
+
+    code = (
+        "import sweepwidth as sw\n"
+        "from sweepwidth import generators\n"
+        "P = generators.delaunay(30, seed=1)\n"
+        "sw.homology_width(P, method='cutwidth')\n"
+        "print(callable(sw.cutwidth) and not hasattr(sw.cutwidth, '__path__') and type(sw.cutwidth).__name__)\n"
+    )
+    out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, timeout=120)
+    assert out.stdout.strip() == "function", out.stderr
