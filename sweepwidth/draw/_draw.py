@@ -200,29 +200,38 @@ class Scene:
         fl, fr = P.edge_faces(e)
         m = g.midpoint(e)
         a, b = g.face_point(fl), g.face_point(fr)
-        if fl == fr:  # a bridge: a loop through the midpoint
+        outer = P.outer_face
+        if fl == fr == outer:  # a bridge on the outer face: in from the ring, across, back out
+            nrm = g.dart_normal(2 * e)
+            left = m + nrm * 0.2 * g.scale
+            right = m - nrm * 0.2 * g.scale
+            return np.vstack([self._to_outer(left)[::-1], m[None, :], self._to_outer(right)])
+        if fl == fr:  # a bridge inside a face: a loop through the midpoint
             t = _unit(g.point_on(2 * e, 0.55) - g.point_on(2 * e, 0.45))
             out = _unit(m - a)
             s = 0.45 * g.scale
             return _bezier3(a, m + out * s + t * s, m + out * s - t * s, a)
-        outer = P.outer_face
         if outer in (fl, fr):
             inner_pt = a if fr == outer else b
             # normal of e pointing into the outer face: left of the dart that has the outer face on its left
             d = 2 * e if fl == outer else 2 * e + 1
-            nrm = g.dart_normal(d)
-            p1 = m + nrm * 0.25 * g.scale
-            c, R = g.ring()
-            phi1 = float(np.arctan2(p1[1] - c[1], p1[0] - c[0]))
-            phi0 = g.OUTER_ANGLE
-            turn = (phi0 - phi1 + np.pi) % (2 * np.pi) - np.pi
-            steps = max(2, int(abs(turn) / 0.05))
-            arc = [c + R * np.array([np.cos(phi1 + turn * i / steps), np.sin(phi1 + turn * i / steps)])
-                   for i in range(steps + 1)]
-            pts = np.vstack([inner_pt, m, p1] + arc + [g.face_point(outer)])
+            p1 = m + g.dart_normal(d) * 0.25 * g.scale
+            pts = np.vstack([inner_pt[None, :], m[None, :], self._to_outer(p1)])
             return pts if fr == outer else pts[::-1]
         c = 2 * m - 0.5 * (a + b)
         return _bezier2(a, c, b)
+
+    def _to_outer(self, p: np.ndarray) -> np.ndarray:
+        """A route from ``p`` (just outside the drawing) out to the ring and along it to the
+        outer face's point."""
+        g = self.g
+        c, R = g.ring()
+        phi1 = float(np.arctan2(p[1] - c[1], p[0] - c[0]))
+        turn = (g.OUTER_ANGLE - phi1 + np.pi) % (2 * np.pi) - np.pi
+        steps = max(2, int(abs(turn) / 0.05))
+        ang = phi1 + turn * np.arange(steps + 1) / steps
+        arc = c + R * np.column_stack([np.cos(ang), np.sin(ang)])
+        return np.vstack([p[None, :], arc, g.face_point(self.P.outer_face)[None, :]])
 
     def dual(self) -> None:
         """The dual overlaid: a vertex in each face, each dual edge crossing its primal edge."""
