@@ -410,9 +410,30 @@ def test_regression_sw_cutwidth_stays_a_function_after_homology():
     code = (
         "import sweepwidth as sw\n"
         "from sweepwidth import generators\n"
-        "P = generators.delaunay(30, seed=1)\n"
+        "P = generators.delaunay(9, seed=1)\n"
         "sw.homology_width(P, method='cutwidth')\n"
         "print(callable(sw.cutwidth) and not hasattr(sw.cutwidth, '__path__') and type(sw.cutwidth).__name__)\n"
     )
     out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, timeout=120)
     assert out.stdout.strip() == "function", out.stderr
+
+
+def test_paths_between_the_same_ends():
+    # sweeping the 2 x 2 grid from its top-right boundary path to its left-bottom one
+    P = generators.grid(3, 3)
+    top_right = [(0, 0), (0, 1), (0, 2), (1, 2), (2, 2)]
+    left_bottom = [(0, 0), (1, 0), (2, 0), (2, 1), (2, 2)]
+    r = sw.homology_width(P, start=top_right, end=left_bottom, paths=True)
+    c0 = {P.dart_between(u, v) >> 1 for u, v in zip(top_right, top_right[1:])}
+    c1 = {P.dart_between(u, v) >> 1 for u, v in zip(left_bottom, left_bottom[1:])}
+    assert r.value == brute_force(P, c0, c1, {P.outer_face})  # definition, by enumeration
+    assert r.value >= 4.0  # at least the length of the start path
+    assert r.stats["paths"] is True
+    assert r.check(P) == r.value
+    darts = [P.dart_between(u, v) for u, v in zip(top_right, top_right[1:])]
+    r2 = sw.homology_width(P, start={"vertex": (0, 0), "darts": darts}, end=left_bottom, paths=True)
+    assert r2.value == r.value
+    with pytest.raises(sw.InvalidCurveError, match="same ends"):
+        sw.homology_width(P, start=top_right, end=left_bottom[:-1], paths=True)
+    with pytest.raises(sw.InvalidCurveError, match="does not close|not adjacent"):
+        sw.homology_width(P, start=top_right, end=left_bottom)

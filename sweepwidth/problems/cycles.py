@@ -68,7 +68,9 @@ def _is_int(x: Any) -> bool:
     return isinstance(x, int) and not isinstance(x, bool) or (hasattr(x, "dtype") and getattr(x.dtype, "kind", "") in "iu")
 
 
-def walk_cycle(P: Any, darts: Sequence[int], *, vertex: Hashable | None = None, what: str = "curve") -> frozenset[int]:
+def walk_cycle(
+    P: Any, darts: Sequence[int], *, vertex: Hashable | None = None, what: str = "curve", closed: bool = True
+) -> frozenset[int]:
     """The Z2 cycle of a closed walk given by its darts (edges used an odd number of times).
 
     Parameters
@@ -81,6 +83,10 @@ def walk_cycle(P: Any, darts: Sequence[int], *, vertex: Hashable | None = None, 
         The walk's first vertex (the point, for an empty walk); checked.
     what : str
         Name used in error messages ('start', 'end').
+    closed : bool
+        False accepts an open walk (a path form): the last dart need not
+        end where the first starts, and the result is a chain whose odd
+        vertices are the two ends (none when they coincide).
 
     Returns
     -------
@@ -90,7 +96,8 @@ def walk_cycle(P: Any, darts: Sequence[int], *, vertex: Hashable | None = None, 
     ------
     InvalidCurveError
         A dart that does not exist, two consecutive darts that do not meet,
-        a walk that does not close, or a ``vertex`` that is not its start.
+        a walk that does not close (``closed=True``), or a ``vertex`` that is
+        not its start.
 
     Examples
     --------
@@ -115,6 +122,9 @@ def walk_cycle(P: Any, darts: Sequence[int], *, vertex: Hashable | None = None, 
     odd: set[int] = set()
     for i, d in enumerate(ds):
         nxt = ds[(i + 1) % len(ds)]
+        if not closed and i == len(ds) - 1:
+            odd ^= {d >> 1}
+            break
         if P.head_index(d) != P.tail_index(nxt):
             if i == len(ds) - 1:
                 raise InvalidCurveError(
@@ -138,17 +148,19 @@ def _edge_ids(P: Any, items: Iterable[Any], what: str) -> frozenset[int]:
     return frozenset(odd)
 
 
-def _vertex_walk(P: Any, seq: Sequence[Hashable], what: str) -> frozenset[int]:
+def _vertex_walk(P: Any, seq: Sequence[Hashable], what: str, closed: bool = True) -> frozenset[int]:
     vs = list(seq)
     for v in vs:
         if not P.has_vertex(v):
             raise InvalidCurveError(f"{what}: {v!r} is not a vertex of the graph")
-    if len(vs) > 1 and vs[0] == vs[-1]:
+    if closed and len(vs) > 1 and vs[0] == vs[-1]:
         vs = vs[:-1]
     if len(vs) <= 1:
         return frozenset()
     odd: set[int] = set()
-    for i, u in enumerate(vs):
+    steps = len(vs) if closed else len(vs) - 1
+    for i in range(steps):
+        u = vs[i]
         v = vs[(i + 1) % len(vs)]
         ds = P.darts_between(u, v)
         if u == v:
@@ -164,9 +176,9 @@ def _vertex_walk(P: Any, seq: Sequence[Hashable], what: str) -> frozenset[int]:
     return frozenset(odd)
 
 
-def _vertex_walk_or_none(P: Any, seq: Sequence[Any]) -> frozenset[int] | None:
+def _vertex_walk_or_none(P: Any, seq: Sequence[Any], closed: bool = True) -> frozenset[int] | None:
     try:
-        return _vertex_walk(P, seq, "curve")
+        return _vertex_walk(P, seq, "curve", closed)
     except InvalidCurveError:
         return None
 
@@ -184,7 +196,9 @@ def _face_boundary(P: Any, faces: Iterable[Any], what: str) -> frozenset[int]:
 _DICT_KEYS = ("edges", "darts", "vertex", "vertices", "faces")
 
 
-def cycle_edges(P: Any, spec: Any, *, what: str = "curve", default: str = "empty") -> frozenset[int]:
+def cycle_edges(
+    P: Any, spec: Any, *, what: str = "curve", default: str = "empty", closed: bool = True
+) -> frozenset[int]:
     """Parse a cycle specification into a set of edge ids, reduced mod 2 (evenness not checked).
 
     Parameters
@@ -196,6 +210,8 @@ def cycle_edges(P: Any, spec: Any, *, what: str = "curve", default: str = "empty
         Name used in error messages ('start', 'end').
     default : {'empty', 'outer'}
         What ``None`` means: the empty cycle, or the Z2 boundary of the outer face.
+    closed : bool
+        False reads dart walks and vertex lists as open walks (paths).
 
     Returns
     -------
@@ -233,12 +249,12 @@ def cycle_edges(P: Any, spec: Any, *, what: str = "curve", default: str = "empty
         if k == "edges":
             return _edge_ids(P, spec["edges"], what)
         if k == "darts":
-            return walk_cycle(P, spec["darts"], vertex=spec.get("vertex"), what=what)
+            return walk_cycle(P, spec["darts"], vertex=spec.get("vertex"), what=what, closed=closed)
         if k == "vertices":
-            return _vertex_walk(P, spec["vertices"], what)
+            return _vertex_walk(P, spec["vertices"], what, closed)
         return _face_boundary(P, spec["faces"], what)
     if hasattr(spec, "darts") and not isinstance(spec, (str, bytes)):
-        return walk_cycle(P, list(spec.darts), vertex=getattr(spec, "vertex", None), what=what)
+        return walk_cycle(P, list(spec.darts), vertex=getattr(spec, "vertex", None), what=what, closed=closed)
     if isinstance(spec, (set, frozenset)):
         return _edge_ids(P, spec, what)
     if isinstance(spec, (list, tuple)):
@@ -247,7 +263,7 @@ def cycle_edges(P: Any, spec: Any, *, what: str = "curve", default: str = "empty
             return frozenset()
         m = P.number_of_edges()
         as_edges = all(_is_int(e) and 0 <= int(e) < m for e in items)
-        as_walk = _vertex_walk_or_none(P, items) if all(P.has_vertex(v) for v in items) else None
+        as_walk = _vertex_walk_or_none(P, items, closed) if all(P.has_vertex(v) for v in items) else None
         if as_edges and as_walk is not None:
             edges = _edge_ids(P, items, what)
             if edges != as_walk:
@@ -259,7 +275,7 @@ def cycle_edges(P: Any, spec: Any, *, what: str = "curve", default: str = "empty
         if as_edges:
             return _edge_ids(P, items, what)
         if all(P.has_vertex(v) for v in items):
-            return _vertex_walk(P, items, what)  # raises with the precise reason
+            return _vertex_walk(P, items, what, closed)  # raises with the precise reason
         if all(_is_int(e) for e in items):
             return _edge_ids(P, items, what)  # raises naming the bad edge id
         bad = next(v for v in items if not P.has_vertex(v))
@@ -423,6 +439,9 @@ class HomologyProblem:
         the holes), smallest first; empty when infeasible.
     reason : str or None
         Why ``swept`` is empty.
+    paths : bool
+        True when start and end are chains with the same odd vertices (open
+        walks with the same ends) rather than cycles.
     """
 
     graph: Any
@@ -431,10 +450,17 @@ class HomologyProblem:
     holes: frozenset
     swept: tuple
     reason: str | None = None
+    paths: bool = False
 
     @classmethod
-    def build(cls, P: Any, start: Any = None, end: Any = None, holes: Any = None) -> "HomologyProblem":
+    def build(
+        cls, P: Any, start: Any = None, end: Any = None, holes: Any = None, *, paths: bool = False
+    ) -> "HomologyProblem":
         """Parse and check ``start``, ``end`` and ``holes`` (see the module notes).
+
+        With ``paths=True`` dart walks and vertex lists are read as open walks
+        and only ``start + end`` must be a Z2 cycle (the two have the same
+        ends); the sweep then moves a chain with fixed boundary.
 
         Raises
         ------
@@ -453,13 +479,17 @@ class HomologyProblem:
         (4, None)
         """
         _plane(P)
-        c0 = cycle_edges(P, start, what="start", default="outer")
-        c1 = cycle_edges(P, end, what="end", default="empty")
-        check_even(P, c0, what="start")
-        check_even(P, c1, what="end")
+        closed = not paths
+        c0 = cycle_edges(P, start, what="start", default="outer", closed=closed)
+        c1 = cycle_edges(P, end, what="end", default="empty", closed=closed)
+        if paths:
+            check_even(P, c0 ^ c1, what="start + end (the two must have the same ends)")
+        else:
+            check_even(P, c0, what="start")
+            check_even(P, c1, what="end")
         H = parse_holes(P, holes)
         sets, reason = bounded_face_sets(P, c0 ^ c1, H)
-        return cls(P, c0, c1, H, tuple(sets), reason)
+        return cls(P, c0, c1, H, tuple(sets), reason, bool(paths))
 
     @property
     def feasible(self) -> bool:
@@ -472,11 +502,14 @@ class HomologyProblem:
 
     def summary(self) -> dict:
         """JSON-ready description (stored in ``Result.stats``; the checker reads it back)."""
-        return {
+        out = {
             "start": sorted(self.start),
             "end": sorted(self.end),
             "holes": sorted(self.holes),
         }
+        if self.paths:
+            out["paths"] = True
+        return out
 
 
 @dataclass(frozen=True, eq=False)

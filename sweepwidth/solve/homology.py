@@ -355,6 +355,7 @@ def homology_width(
     time_limit: float | None = None,
     seed: int | None = None,
     monotone: bool = True,
+    paths: bool = False,
     **options: Any,
 ) -> Result:
     """The homology sweep width of a plane graph, exact or with proven bounds, with a witness.
@@ -381,6 +382,11 @@ def homology_width(
         True (default): each face of the swept set is toggled once (face
         orders).  False: faces may be toggled any number of times
         ('face-sets').
+    paths : bool
+        False (default): start and end are Z2 cycles.  True: they are open
+        walks (or chains) with the same ends, such as two boundary paths
+        between the same vertices; only ``start + end`` must be a cycle, and
+        the weight of the moving chain is measured as before.
     **options
         ``dp_limit``, ``max_faces``, ``cutwidth_method`` (see :data:`OPTIONS`).
 
@@ -441,7 +447,9 @@ def homology_width(
     t0 = time.monotonic()
     _validate(method, time_limit, seed, monotone, options)
     deadline = None if time_limit is None else t0 + float(time_limit) - 0.1
-    problem = HomologyProblem.build(P, start, end, holes)
+    if not isinstance(paths, bool):
+        raise SweepwidthError(f"paths must be True or False, got {paths!r}")
+    problem = HomologyProblem.build(P, start, end, holes, paths=paths)
     stats: dict[str, Any] = problem.summary()
     stats["monotone"] = monotone
     stats["seed"] = seed

@@ -24,7 +24,7 @@ def _boundary(P: Any, f: int) -> set[int]:
     return odd
 
 
-def _edges(P: Any, spec: Any, default: set[int], what: str) -> set[int]:
+def _edges(P: Any, spec: Any, default: set[int], what: str, closed: bool = True) -> set[int]:
     """Edge ids from a recorded summary (a list of edge ids) or a walk dict; None gives ``default``."""
     if spec is None:
         return set(default)
@@ -34,6 +34,9 @@ def _edges(P: Any, spec: Any, default: set[int], what: str) -> set[int]:
         for i, d in enumerate(ds):
             if not 0 <= d < 2 * m:
                 raise WitnessError(f"{what}: dart {d} does not exist")
+        for i, d in enumerate(ds):
+            if not closed and i == len(ds) - 1:
+                break
             if P.head(d) != P.tail(ds[(i + 1) % len(ds)]):
                 raise WitnessError(f"{what}: darts at positions {i} and {(i + 1) % len(ds)} do not meet")
         odd: set[int] = set()
@@ -124,8 +127,9 @@ def check_homology(result: Any, P: Any, **options: Any) -> float:
         raise SweepwidthError(f"unknown checker option(s) {sorted(options)}; valid: start, end, holes, tol")
     if not (hasattr(P, "face_darts") and hasattr(P, "outer_face")):
         raise WitnessError(f"a homology result is checked against a PlaneGraph, got {type(P).__name__}")
-    c0 = _edges(P, start_spec, _boundary(P, P.outer_face), "start")
-    c1 = _edges(P, end_spec, set(), "end")
+    closed = not stats.get("paths", False)
+    c0 = _edges(P, start_spec, _boundary(P, P.outer_face), "start", closed)
+    c1 = _edges(P, end_spec, set(), "end", closed)
     H = {P.outer_face} if holes_spec is None else {int(h) for h in holes_spec}
     if result.status == "infeasible":
         if _bounds_hole_free(P, c0 ^ c1, H):
