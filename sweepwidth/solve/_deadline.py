@@ -61,7 +61,7 @@ BUDGET_SOLVERS = frozenset(
     }
 )
 
-_PRELOAD = ["__main__", "numpy", "pysat.solvers", "sweepwidth.solve._deadline"]
+_PRELOAD = ["__main__", "numpy", "networkx", "pysat.solvers", "pysat.card", "sweepwidth.solve._deadline", "sweepwidth.solve.cutwidth_sat"]
 _CTX_LOCK = threading.Lock()
 _CTX: Any = None
 

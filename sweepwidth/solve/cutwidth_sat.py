@@ -275,13 +275,26 @@ def _orbits(problem: OrderingProblem, time_budget: float = 0.5) -> list[int]:
 # the encoding
 
 
+class _OutOfTime(Exception):
+    """The deadline passed while the formula was being built or loaded."""
+
+
 class _Formula:
     """Clauses of "width <= k" for every k up to ``kmax`` (see module docstring)."""
 
     def __init__(
-        self, problem: OrderingProblem, kmax: int, *, symmetry: bool, counter: str, counts: str = "band", extra: dict | None = None
+        self,
+        problem: OrderingProblem,
+        kmax: int,
+        *,
+        symmetry: bool,
+        counter: str,
+        counts: str = "band",
+        extra: dict | None = None,
+        deadline: float | None = None,
     ) -> None:
         self.extra = extra = dict(extra or {})
+        self.deadline = deadline
         self.problem = problem
         self.n = n = problem.n
         self.kmax = kmax
@@ -315,6 +328,11 @@ class _Formula:
             self._symmetry()
 
     # -- basics
+    def tick(self) -> None:
+        """Give up building when the deadline has passed."""
+        if self.deadline is not None and time.monotonic() > self.deadline:
+            raise _OutOfTime
+
     def _new(self) -> int:
         self.top += 1
         return self.top
@@ -354,6 +372,8 @@ class _Formula:
     def _steps(self) -> None:
         n = self.n
         for i in range(1, n + 1):
+            if i % 16 == 0:
+                self.tick()
             ps = []
             for v in range(n):
                 a, b = self.x[v][i], self.x[v][i - 1]
@@ -389,6 +409,7 @@ class _Formula:
                 continue
             if band and abs(i - self.n / 2) > band * self.n / 2:
                 continue
+            self.tick()
             lits = [row[i] for row in self.x if row[i] is not True and row[i] is not False]
             need = i - sum(1 for row in self.x if row[i] is True)
             if len(lits) < 2 or need <= 0 or need >= len(lits):
@@ -454,7 +475,11 @@ class _Formula:
         n = self.n
         cap = self.kmax + 1
         edges = self.problem.edges.tolist()
-        for i in range(1, n):
+        # counted cuts: after |first|, ..., n - |last| vertices (levels 0 and n cut nothing)
+        lo_level = max(1, len(self.problem.first))
+        hi_level = min(n - 1, n - len(self.problem.last))
+        for i in range(lo_level, hi_level + 1):
+            self.tick()
             items: list[tuple[int, int]] = []  # (literal, weight)
             fixed = 0
             for e, (u, v) in enumerate(edges):
@@ -511,7 +536,8 @@ class _Formula:
     def _symmetry(self) -> None:
         """First vertex: one per orbit; no pins: orbit rank of first <= that of last."""
         p = self.problem
-        rep = _orbits(p)
+        budget = 0.5 if self.deadline is None else max(0.0, min(0.5, 0.1 * (self.deadline - time.monotonic())))
+        rep = _orbits(p, budget)
         n = self.n
         reps = sorted(set(rep))
         self.n_orbits = len(reps)
@@ -697,25 +723,47 @@ def solve_sat(
         stats["seconds"] = time.monotonic() - t_start
         return best
 
-    t0 = time.monotonic()
-    F = _Formula(problem, upper - 1, symmetry=opts["symmetry"], counter=opts["counter"], counts=opts["counts"], extra=options.get("_extra"))
-    stats["build_seconds"] = time.monotonic() - t0
-    stats["vars"] = F.top
-    stats["clauses"] = len(F.clauses)
-    stats["orbits"] = F.n_orbits
-
     def report() -> None:
         stats["seconds"] = time.monotonic() - t_start
         if progress is not None:
             progress(replace(best, order=list(best.order) if best.order else None, stats=dict(stats)))
+
+    def out_of_time(where: str) -> SatOutcome:
+        stats["stopped"] = f"deadline reached while {where}"
+        stats["seconds"] = time.monotonic() - t_start
+        return best
+
+    t0 = time.monotonic()
+    try:
+        F = _Formula(
+            problem,
+            upper - 1,
+            symmetry=opts["symmetry"],
+            counter=opts["counter"],
+            counts=opts["counts"],
+            extra=options.get("_extra"),
+            deadline=deadline,
+        )
+    except _OutOfTime:
+        return out_of_time("building the formula")
+    stats["build_seconds"] = time.monotonic() - t0
+    stats["vars"] = F.top
+    stats["clauses"] = len(F.clauses)
+    stats["orbits"] = F.n_orbits
 
     if solver == "kissat404":
         return _search_rebuild(F, best, deadline, opts, report)
 
     from pysat.solvers import Solver
 
-    with Solver(name=solver, bootstrap_with=F.clauses) as S:
+    with Solver(name=solver) as S:
+        chunk = 100_000
+        for j in range(0, len(F.clauses), chunk):
+            if deadline is not None and time.monotonic() > deadline:
+                return out_of_time("loading the formula")
+            S.append_formula(F.clauses[j : j + chunk])
         F.clauses = []  # free memory; the solver has them
+        stats["load_seconds"] = time.monotonic() - t0 - stats["build_seconds"]
         if opts["phases"]:
             S.set_phases(F.phases(hint))
         while not best.optimal:
