@@ -18,7 +18,7 @@ except Exception:  # pragma: no cover
     numba = None
     HAVE_NUMBA = False
 
-__all__ = ["HAVE_NUMBA", "csr_with_ids", "edge_betweenness", "subset_dp", "move_pass"]
+__all__ = ["HAVE_NUMBA", "csr_with_ids", "edge_betweenness", "subset_dp", "move_pass", "prefix_search"]
 
 
 def _jit(fn):
@@ -367,3 +367,217 @@ def move_pass(order, indptr, indices, wts, nf, nl, cand, tol=1e-9):
     if not HAVE_NUMBA:  # pragma: no cover - fallback keeps the pass short
         cand = cand[: max(1, min(len(cand), 2000000 // max(1, len(order)) // 20))]
     return _move_pass_nb(order, indptr, indices, wts, nf, nl, cand, tol)
+
+
+# ---------------------------------------------------------------- prefix-set search
+
+
+@_jit
+def _hash_key(key, W):  # pragma: no cover - compiled
+    h = np.uint64(0x9E3779B97F4A7C15)
+    for i in range(W):
+        x = key[i] + np.uint64(0x632BE59BD9B4E019) * np.uint64(i + 1)
+        x ^= x >> np.uint64(33)
+        x *= np.uint64(0xFF51AFD7ED558CCD)
+        x ^= x >> np.uint64(33)
+        h ^= x
+        h *= np.uint64(0xC4CEB9FE1A85EC53)
+    h ^= h >> np.uint64(29)
+    return h
+
+
+@_jit
+def _memo_find(table, used, key, W, mask):  # pragma: no cover - compiled
+    """Slot of ``key`` (found=True) or of the empty slot where it would go."""
+    h = np.int64(_hash_key(key, W) & np.uint64(mask))
+    while True:
+        if not used[h]:
+            return h, False
+        same = True
+        for i in range(W):
+            if table[h, i] != key[i]:
+                same = False
+                break
+        if same:
+            return h, True
+        h = (h + 1) & mask
+
+
+@_jit
+def _prefix_search_nb(n, indptr, indices, wts, deg, a, b, k, tol, rep, table, used, stored, node_budget):  # pragma: no cover
+    """Depth-first "width <= k?" search over prefix sets (see ordering_bnb).
+
+    Returns (status, order, rejected, nodes): status 1 found (order filled),
+    0 refuted, -1 node budget spent, -2 memo table full.  ``table``/``used``
+    (failed sets) and ``stored[0]`` (their number) persist between calls.
+    """
+    W = table.shape[1]
+    mask = table.shape[0] - 1
+    limit = table.shape[0] // 2
+    inS = np.zeros(n, dtype=np.bool_)
+    wS = np.zeros(n)
+    key = np.zeros(W, dtype=np.uint64)
+    cand = np.empty(n * (n + 1) + 1, dtype=np.int64)
+    candc = np.empty(n, dtype=np.float64)
+    cand_start = np.zeros(n + 2, dtype=np.int64)
+    cand_pos = np.zeros(n + 2, dtype=np.int64)
+    cand_end = np.zeros(n + 2, dtype=np.int64)
+    added = np.empty(n + 1, dtype=np.int64)
+    added_start = np.zeros(n + 2, dtype=np.int64)
+    added_end = np.zeros(n + 2, dtype=np.int64)
+    chosen = np.zeros(n + 2, dtype=np.int64)
+    cut_base = np.zeros(n + 2)
+    stamp = np.zeros(n, dtype=np.int64)
+    order = np.full(n, -1, dtype=np.int64)
+    rejected = np.inf
+    nodes = 0
+    placed = 0
+    goal = n if b < 0 else n - 1
+    final_cut = 0.0 if b < 0 else deg[b]
+    cut = 0.0
+    if a >= 0:
+        inS[a] = True
+        placed = 1
+        key[a >> 6] ^= np.uint64(1) << np.uint64(a & 63)
+        for j in range(indptr[a], indptr[a + 1]):
+            wS[indices[j]] += wts[j]
+        cut = deg[a]
+    d = 0
+    n_added = 0
+    entering = True
+    while True:
+        if entering:
+            nodes += 1
+            if nodes > node_budget:
+                return -1, order, rejected, nodes
+            # free moves
+            added_start[d] = n_added
+            changed = True
+            while changed:
+                changed = False
+                for v in range(n):
+                    if inS[v] or v == b:
+                        continue
+                    dl = deg[v] - 2.0 * wS[v]
+                    if dl <= tol:
+                        inS[v] = True
+                        placed += 1
+                        key[v >> 6] ^= np.uint64(1) << np.uint64(v & 63)
+                        for j in range(indptr[v], indptr[v + 1]):
+                            wS[indices[j]] += wts[j]
+                        cut += dl
+                        added[n_added] = v
+                        n_added += 1
+                        changed = True
+            added_end[d] = n_added
+            cut_base[d] = cut
+            dead = False
+            if placed == goal:
+                if final_cut <= k + tol:
+                    # success: rebuild the ordering from the path
+                    p = 0
+                    if a >= 0:
+                        order[p] = a
+                        p += 1
+                    for dd in range(d + 1):
+                        for i in range(added_start[dd], added_end[dd]):
+                            order[p] = added[i]
+                            p += 1
+                        if dd < d:
+                            order[p] = chosen[dd]
+                            p += 1
+                    if b >= 0:
+                        order[p] = b
+                    return 1, order, rejected, nodes
+                if final_cut < rejected:
+                    rejected = final_cut
+                dead = True
+            else:
+                slot, found = _memo_find(table, used, key, W, mask)
+                if found:
+                    dead = True
+            if not dead:
+                # candidates, one per twin class, sorted by next cut then weight into S
+                start = cand_start[d]
+                cnt = 0
+                for v in range(n):
+                    if inS[v] or v == b:
+                        continue
+                    nc = cut + deg[v] - 2.0 * wS[v]
+                    if nc > k + tol:
+                        if nc < rejected:
+                            rejected = nc
+                        continue
+                    r = rep[v]
+                    if stamp[r] == nodes:
+                        continue
+                    stamp[r] = nodes
+                    # insertion by (nc, -wS)
+                    i = cnt
+                    while i > 0:
+                        u = cand[start + i - 1]
+                        cu = candc[i - 1]
+                        if cu > nc + tol or (abs(cu - nc) <= tol and wS[u] < wS[v]):
+                            cand[start + i] = u
+                            candc[i] = cu
+                            i -= 1
+                        else:
+                            break
+                    cand[start + i] = v
+                    candc[i] = nc
+                    cnt += 1
+                cand_pos[d] = start
+                cand_end[d] = start + cnt
+                cand_start[d + 1] = start + cnt
+            else:
+                cand_pos[d] = cand_start[d]
+                cand_end[d] = cand_start[d]
+                cand_start[d + 1] = cand_start[d]
+            entering = False
+        # try the next candidate at depth d
+        if cand_pos[d] < cand_end[d]:
+            v = cand[cand_pos[d]]
+            cand_pos[d] += 1
+            chosen[d] = v
+            inS[v] = True
+            placed += 1
+            key[v >> 6] ^= np.uint64(1) << np.uint64(v & 63)
+            for j in range(indptr[v], indptr[v + 1]):
+                wS[indices[j]] += wts[j]
+            cut = cut_base[d] + deg[v] - 2.0 * wS[v]  # wS[v]: weight from v into the old set
+            d += 1
+            entering = True
+            continue
+        # all candidates failed: remember the set, undo the free moves, go up
+        if placed != goal:
+            slot, found = _memo_find(table, used, key, W, mask)
+            if not found:
+                if stored[0] >= limit:
+                    return -2, order, rejected, nodes
+                used[slot] = True
+                for i in range(W):
+                    table[slot, i] = key[i]
+                stored[0] += 1
+        for i in range(added_end[d] - 1, added_start[d] - 1, -1):
+            v = added[i]
+            inS[v] = False
+            placed -= 1
+            key[v >> 6] ^= np.uint64(1) << np.uint64(v & 63)
+            for j in range(indptr[v], indptr[v + 1]):
+                wS[indices[j]] -= wts[j]
+        n_added = added_start[d]
+        if d == 0:
+            return 0, order, rejected, nodes
+        d -= 1
+        v = chosen[d]
+        inS[v] = False
+        placed -= 1
+        key[v >> 6] ^= np.uint64(1) << np.uint64(v & 63)
+        for j in range(indptr[v], indptr[v + 1]):
+            wS[indices[j]] -= wts[j]
+        cut = cut_base[d]
+
+
+def prefix_search(n, indptr, indices, wts, deg, a, b, k, tol, rep, table, used, stored, node_budget):
+    """Compiled "width <= k?" search; see :func:`_prefix_search_nb` (numba only)."""
+    return _prefix_search_nb(n, indptr, indices, wts, deg, a, b, k, tol, rep, table, used, stored, node_budget)

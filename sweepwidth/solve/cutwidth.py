@@ -15,7 +15,8 @@ Methods
 -------
 ==============  ===========================================================
 'auto'          forest -> 'tree'; few vertices -> 'dp'; otherwise heuristic
-                upper bound, lower bounds, a short 'bnb' run, then 'sat'
+                upper bound, lower bounds, a 'bnb' run (40 % of the time
+                left, or 10 s + n / 20 s without a limit), then 'sat'
                 (integral weights, or rationals with a small common
                 denominator) or 'bnb' (other real weights) for the rest of
                 the time.  ``stats['auto']`` says what was chosen and why.
@@ -279,7 +280,7 @@ def _auto_part(P: OrderingProblem, deadline: float | None, seed: int | None, opt
     lb, ub, order = p.lower, p.upper, p.order
     chain = ["heuristic"]
     # a short prefix-set search first: on sparse graphs of small width it is instant
-    slice_s = min(3.0 + n / 50.0, 0.15 * _left(deadline)) if deadline is not None else 3.0 + n / 50.0
+    slice_s = 0.4 * _left(deadline) if deadline is not None else 10.0 + n / 20.0
     out = solve_bnb(P, lower=lb, upper=ub, upper_order=order, deadline=_sub_deadline(deadline, slice_s), max_states=min(max_states, 1_000_000))
     chain.append("bnb")
     stats["bnb"] = dict(out.stats)

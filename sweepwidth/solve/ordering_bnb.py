@@ -17,6 +17,15 @@ Reductions, each proven to keep some optimal ordering:
   cut at least the smallest cut value that the search rejected, which is the
   next threshold (and a proven lower bound).  This also makes real weights
   exact without any scaling.
+
+The search runs compiled (:func:`sweepwidth.solve._kernels.prefix_search`,
+failed sets in an open-addressing table of bitmask words) when numba is
+available, in slices of a node budget so the time limit is checked between
+slices; a slice restarts from the empty prefix but keeps the failed sets, so
+little work is repeated.  Without numba a Python version (sets of ints) runs.
+Measured on the development machine (2 shared cores), proofs of optimality:
+8x8 grid 0.35 s, hypercube Q_5 2.2 s, complete binary tree of height 6
+(127 vertices) 0.66 s; the Python version needs 5.1 s for the tree.
 """
 
 from __future__ import annotations
@@ -28,6 +37,10 @@ from typing import Any
 import numpy as np
 
 from ..problems.ordering import OrderingProblem
+from . import _kernels
+
+#: memory cap of the compiled search's table of failed sets, bytes
+_TABLE_BYTES = 512 << 20
 
 __all__ = ["solve_bnb", "BnbOutcome"]
 
@@ -88,6 +101,7 @@ def solve_bnb(
     upper_order: list[int] | None = None,
     deadline: float | None = None,
     max_states: int = 4_000_000,
+    force_python: bool = False,
 ) -> BnbOutcome:
     """Exact (pinned) cutwidth by threshold search over prefix sets.
 
@@ -104,6 +118,9 @@ def solve_bnb(
         ``time.monotonic()`` value; the search returns its bounds there.
     max_states : int
         Remembered failed sets before the search gives up (bounded result).
+    force_python : bool
+        Use the pure Python search even when the compiled one is available
+        (the two cross-check each other in the tests).
 
     Returns
     -------
@@ -180,7 +197,49 @@ def solve_bnb(
     if a is not None:
         lb = max(lb, float(deg[a]))
 
-    while best > lb + tol:
+    compiled = _kernels.HAVE_NUMBA and not force_python
+    stats["engine"] = "compiled" if compiled else "python"
+    while compiled and best > lb + tol:
+        k = lb
+        stats["thresholds"].append(k)
+        W = (n + 63) // 64
+        cap = 1 << max(10, int(2 * max_states - 1).bit_length())
+        while cap > 1024 and cap * (8 * W + 1) > _TABLE_BYTES:
+            cap //= 2
+        table = np.zeros((cap, W), dtype=np.uint64)
+        used = np.zeros(cap, dtype=np.bool_)
+        stored = np.zeros(1, dtype=np.int64)
+        rejected = np.inf
+        status = -1
+        budget = 200_000
+        while status == -1:
+            if deadline is not None and time.monotonic() > deadline:
+                break
+            status, order_arr, rej, nodes = _kernels.prefix_search(
+                n, indptr, indices, wts, deg, -1 if a is None else a, -1 if b is None else b,
+                float(k), tol, rep.astype(np.int64), table, used, stored, budget,
+            )
+            counter[0] += int(nodes)
+            rejected = min(rejected, float(rej))
+            budget = min(budget * 2, 5_000_000)
+        stats["remembered"] += int(stored[0])
+        if status == -1:
+            stats["stopped"] = "time limit"
+            break
+        if status == -2:
+            stats["stopped"] = f"more than {cap // 2} remembered states"
+            break
+        if status == 1:
+            order = [int(x) for x in order_arr]
+            w = problem.width(order)
+            if w < best - tol:
+                best, best_order = w, order
+            break
+        if not np.isfinite(rejected):
+            break
+        lb = max(lb, float(rejected))
+
+    while not compiled and best > lb + tol:
         k = lb
         failed: set[int] = set()
         rejected = [np.inf]
