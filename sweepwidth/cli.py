@@ -721,6 +721,13 @@ def main(argv: Sequence[str] | None = None) -> int:
         return 130
     except BrokenPipeError:
         return 0
+    except Exception as err:  # noqa: BLE001 - a bug somewhere below: still one line, traceback on request
+        if os.environ.get("SWEEPWIDTH_TRACEBACK"):
+            raise
+        msg = " ".join(str(err).split())
+        sys.stderr.write(
+            f"sweepwidth: error: internal error {type(err).__name__}: {msg} (set SWEEPWIDTH_TRACEBACK=1 for the traceback)\n"
+        )
     return EXIT_FAIL
 
 

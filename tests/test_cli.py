@@ -232,3 +232,16 @@ def test_demo_runs_and_finds_the_costly_spot(tmp_path):
     assert (tmp_path / "demo" / "pavilion.json").exists()
     saved = json.loads((tmp_path / "demo" / "pavilion.homotopy.result.json").read_text())
     assert saved["status"] == "optimal"
+
+
+def test_internal_errors_are_one_line_too(files, capsys, monkeypatch):
+    import sweepwidth.cli as cli
+
+    def boom(args, out):
+        raise TypeError("something below the command line broke")
+
+    monkeypatch.setitem(cli._COMMANDS, "dual", boom)
+    monkeypatch.delenv("SWEEPWIDTH_TRACEBACK", raising=False)
+    rc = main(["dual", str(files / "grid.json")])
+    line = _one_line_error(rc, capsys.readouterr().err)
+    assert "internal error TypeError" in line and "SWEEPWIDTH_TRACEBACK" in line
