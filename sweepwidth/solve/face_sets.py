@@ -58,9 +58,9 @@ __all__ = [
 ]
 
 #: Largest target set for :func:`monotone_sweep` (two float64 tables of 2^k).
-MAX_MONOTONE_FACES = 24 if HAVE_NUMBA else 16
+MAX_MONOTONE_FACES = 22 if HAVE_NUMBA else 16
 #: Largest free face count for :func:`toggle_search` (tables of 2^k plus a heap).
-MAX_TOGGLE_FACES = 22 if HAVE_NUMBA else 14
+MAX_TOGGLE_FACES = 20 if HAVE_NUMBA else 14
 
 # measured on the development machine (numba): ns per state and face
 _NS_PER_STATE_FACE = 4.0 if HAVE_NUMBA else 800.0

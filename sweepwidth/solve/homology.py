@@ -158,12 +158,9 @@ def _by_cutwidth(fs: FaceSweep, deadline: float | None, seed: int | None, floor:
         return _Outcome(floor, gw, gorder, "cutwidth", info)
     G, first, last = fs.ordering_graph(drop_anti=not nested)
     up_how = "greedy sweep"
-    if deadline is not None:
-        # insurance against an engine that does not report in time: its heuristic, run here
-        hw, horder = _quick_upper(fs, G, first, last, seed, time.monotonic() + min(5.0, 0.15 * _left(deadline)))
-        info["heuristic_width"] = hw
-        if hw < gw - _EPS:
-            gw, gorder, up_how = hw, horder, "ordering heuristic of the cutwidth engine (re-evaluated)"
+    if gw <= floor + _EPS * max(1.0, floor):
+        info["bounds"] = {"lower": "weights of start and end", "upper": "greedy sweep (meets the lower bound)"}
+        return _Outcome(floor, gw, gorder, "cutwidth", info)
     kw = {"weight": "weight", "seed": seed, "method": options.get("cutwidth_method", "auto")}
     r = _run_engine(G, first, last, kw, deadline, info)
     if r is None:
@@ -203,50 +200,36 @@ def _by_cutwidth(fs: FaceSweep, deadline: float | None, seed: int | None, floor:
     return _Outcome(lower, width, order, "cutwidth", info)
 
 
-def _engine_child(G: Any, first: Any, last: Any, kw: dict, *, progress: Callable) -> Result:
-    from .cutwidth import cutwidth
-
-    return cutwidth(G, first=[first], last=[last], **kw)
-
-
 def _run_engine(G: Any, first: Any, last: Any, kw: dict, deadline: float | None, info: dict) -> Result | None:
-    """Call the cutwidth engine; under a deadline in a child process killed at the deadline.
+    """Call the cutwidth engine under the time left; None when no time is left for it.
 
-    The engine gets most of the time left as its own limit and the child is
-    killed at ``deadline`` whatever happens, so the time limit holds even if
-    the engine overruns; None when it did not report in time.
+    Under a deadline the engine's SAT stage runs with ``hard_deadline`` (a
+    child process killed at the deadline, whose progress reports survive the
+    kill); the engine's other stages check the deadline themselves.  In a
+    process that may not start children (for instance inside another
+    time-limited child) the engine runs without that option.
     """
     from .cutwidth import cutwidth
 
     if deadline is None:
         return cutwidth(G, first=[first], last=[last], **kw)
-    from ._deadline import run_limited
-
     left = _left(deadline)
-    kw = dict(kw, time_limit=max(0.05, 0.7 * left - 0.1))
+    if left <= 0.1:
+        info["cutwidth"] = "skipped: no time left"
+        return None
+    kw = dict(kw, time_limit=max(0.05, left - 0.05))
+    if kw.get("method", "auto") in ("auto", "sat"):
+        kw["sat_options"] = {"hard_deadline": True}
     try:
-        done, r, _ = run_limited(_engine_child, (G, first, last, kw), deadline=deadline)
+        return cutwidth(G, first=[first], last=[last], **kw)
     except (AssertionError, OSError, RuntimeError) as err:
-        # e.g. the engine wants a child process of its own, which a child may not start
-        info["cutwidth_child"] = f"{type(err).__name__}: {err}; ran in this process instead"
+        # e.g. "daemonic processes are not allowed to have children"
+        info["cutwidth_child"] = f"{type(err).__name__}: {err}; ran without a child process instead"
+        kw.pop("sat_options", None)
         left = _left(deadline)
         if left <= 0.1:
             return None
-        return cutwidth(G, first=[first], last=[last], **dict(kw, time_limit=max(0.05, 0.5 * left)))
-    if not done:
-        info["cutwidth"] = "the engine did not report before the time limit (child stopped)"
-        return None
-    return r
-
-
-def _quick_upper(fs: FaceSweep, G: Any, first: Any, last: Any, seed: int | None, deadline: float) -> tuple[float, list[int]]:
-    from ..problems.ordering import OrderingProblem
-    from .ordering_heuristics import heuristic_ordering
-
-    Q = OrderingProblem.from_graph(G, first=[first], last=[last])
-    _, order, _ = heuristic_ordering(Q, seed=seed, deadline=deadline)
-    faces = [Q.labels[i] for i in order if Q.labels[i] != first and Q.labels[i] != last]
-    return max(fs.profile(faces)), faces
+        return cutwidth(G, first=[first], last=[last], **dict(kw, time_limit=max(0.05, left - 0.05)))
 
 
 def _quick_lower(G: Any, first: Any, last: Any) -> float:
