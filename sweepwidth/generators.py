@@ -108,9 +108,10 @@ def delaunay(n: int, *, seed: int | None = None) -> PlaneGraph:
     cross = (b[:, 0] - a[:, 0]) * (c[:, 1] - a[:, 1]) - (b[:, 1] - a[:, 1]) * (c[:, 0] - a[:, 0])
     simp = np.where((cross < 0)[:, None], simp[:, [0, 2, 1]], simp)
     keep = np.abs(cross) > 1e-14
-    faces = simp[keep].tolist()
-    used = sorted({v for f in faces for v in f})
-    pos = {v: (float(pts[v, 0]), float(pts[v, 1])) for v in used}
+    faces = simp[keep]
+    used = np.unique(faces).tolist()
+    xy = pts.tolist()
+    pos = {v: tuple(xy[v]) for v in used}
     return PlaneGraph.from_faces(faces, pos=pos, meta={"name": f"delaunay-{n}-s{seed}"})
 
 

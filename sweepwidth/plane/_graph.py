@@ -16,6 +16,7 @@ Conventions
 
 from __future__ import annotations
 
+import itertools
 import math
 from typing import Any, Callable, Hashable, Iterable, Iterator, Mapping, NamedTuple, Sequence
 
@@ -24,6 +25,7 @@ import numpy as np
 
 from .._weights import check_weight, weight_function
 from ..errors import InvalidEmbeddingError, NonPlanarError, SweepwidthError
+from . import _arrays
 
 __all__ = ["PlaneGraph", "Edge"]
 
@@ -76,6 +78,7 @@ class PlaneGraph:
         "meta",
         "_dual_outer_vertex",
         "face_to_primal_vertex",
+        "_arr",
     )
 
     # ------------------------------------------------------------------ core
@@ -104,11 +107,23 @@ class PlaneGraph:
             raise InvalidEmbeddingError("vertex labels are not distinct")
         n = len(self._labels)
         m = len(ends)
-        self._eu = [int(a) for a, _ in ends]
-        self._ev = [int(b) for _, b in ends]
-        self._w = [float(x) for x in weights]
+        pre: dict[str, np.ndarray] = {}  # arrays given by the caller, reused by the vectorised path
+        if isinstance(ends, np.ndarray) and ends.ndim == 2 and ends.shape[1] == 2 and ends.dtype.kind in "iu":
+            pre["eu"] = np.ascontiguousarray(ends[:, 0], dtype=np.int64)
+            pre["ev"] = np.ascontiguousarray(ends[:, 1], dtype=np.int64)
+            self._eu = pre["eu"].tolist()
+            self._ev = pre["ev"].tolist()
+        else:
+            self._eu = [int(a) for a, _ in ends]
+            self._ev = [int(b) for _, b in ends]
+        self._w = weights.astype(float).tolist() if isinstance(weights, np.ndarray) else [float(x) for x in weights]
         self._edata = [dict(d) for d in edge_data] if edge_data is not None else [{} for _ in range(m)]
-        self._next = [int(x) for x in next_dart]
+        if isinstance(next_dart, np.ndarray) and next_dart.ndim == 1 and next_dart.dtype.kind in "iu":
+            pre["next"] = next_dart.astype(np.int64, copy=False)
+            self._next = pre["next"].tolist()
+        else:
+            self._next = [int(x) for x in next_dart]
+        self._arr: dict[str, np.ndarray] | None = None
         self.pos = dict(pos) if pos is not None else None
         self.meta = dict(meta) if meta else {}
         self._dual_outer_vertex: Hashable | None = None
@@ -117,9 +132,12 @@ class PlaneGraph:
             raise InvalidEmbeddingError(f"{m} edges but {len(self._w)} weights")
         if len(self._next) != 2 * m:
             raise InvalidEmbeddingError(f"rotation has {len(self._next)} darts, expected {2 * m}")
-        self._validate_rotation(n, m)
-        self._trace_faces()
-        self._validate_topology()
+        if 2 * m >= _arrays.FAST_MIN_DARTS and self._fast_build(n, m, pre):
+            pass
+        else:
+            self._validate_rotation(n, m)
+            self._trace_faces()
+            self._validate_topology()
         if outer is None and outer_dart is None:
             outer = self._largest_face()
         elif outer is None:
@@ -129,6 +147,62 @@ class PlaneGraph:
         if not (isinstance(outer, (int, np.integer)) and 0 <= outer < len(self._faces)):
             raise InvalidEmbeddingError(f"outer face {outer!r} is not a face id in 0..{len(self._faces) - 1}")
         self._outer = int(outer)
+
+    def _fast_build(self, n: int, m: int, pre: dict[str, np.ndarray] | None = None) -> bool:
+        """Validation and face tracing with numpy; False (nothing set) when the input is invalid.
+
+        Computes exactly what ``_validate_rotation``, ``_trace_faces`` and
+        ``_validate_topology`` compute.  On any violation it returns False and
+        the caller runs those plain loops, which raise the precise error.
+        """
+        m2 = 2 * m
+        if m == 0 or n == 0:
+            return False  # nothing to vectorise
+        pre = pre or {}
+        try:
+            eu = pre["eu"] if "eu" in pre else np.asarray(self._eu, dtype=np.int64)
+            ev = pre["ev"] if "ev" in pre else np.asarray(self._ev, dtype=np.int64)
+            nxt = pre["next"] if "next" in pre else np.asarray(self._next, dtype=np.int64)
+        except (OverflowError, ValueError):
+            return False
+        if eu.min() < 0 or ev.min() < 0 or eu.max() >= n or ev.max() >= n:
+            return False
+        if nxt.min() < 0 or nxt.max() >= m2 or not np.all(np.bincount(nxt, minlength=m2) == 1):
+            return False
+        tail = np.empty(m2, dtype=np.int64)
+        tail[0::2], tail[1::2] = eu, ev
+        if not np.array_equal(tail[nxt], tail):
+            return False
+        ar = np.arange(m2, dtype=np.int64)
+        prev = np.empty(m2, dtype=np.int64)
+        prev[nxt] = ar
+        rhead, rrank = _arrays.cycles(nxt, prev)
+        is_head = rhead == ar
+        if np.bincount(tail[is_head], minlength=n).max() > 1:
+            return False  # some vertex has two rotation cycles
+        lab = _arrays.components(n, eu, ev)
+        if lab.max() > 0:
+            return False
+        degree = np.bincount(tail, minlength=n)
+        out_order = np.lexsort((rrank, tail))
+        # faces: cycles of d -> prev[d ^ 1]
+        phi = prev[ar ^ 1]
+        phinv = np.empty(m2, dtype=np.int64)
+        phinv[phi] = ar
+        fhead, frank = _arrays.cycles(phi, phinv)
+        fstart = fhead == ar
+        fid_of = np.cumsum(fstart) - 1
+        dface = fid_of[fhead]
+        f = int(fstart.sum())
+        if n - m + f != 2:
+            return False
+        face_order = np.lexsort((frank, dface))
+        self._prev = prev.tolist()
+        self._out = _arrays.split(out_order, degree)
+        self._dface = dface.tolist()
+        self._faces = _arrays.split(face_order, np.bincount(dface, minlength=f))
+        self._arr = {"tail": tail, "next": nxt, "prev": prev, "dface": dface}
+        return True
 
     def _validate_rotation(self, n: int, m: int) -> None:
         nxt = self._next
@@ -223,6 +297,8 @@ class PlaneGraph:
             )
 
     def _largest_face(self) -> int:
+        if isinstance(self._faces, _arrays.Ragged):
+            return int(np.argmax(self._faces.lengths()))  # the first longest, as below
         best, size = 0, -1
         for i, walk in enumerate(self._faces):
             if len(walk) > size:
@@ -515,9 +591,6 @@ class PlaneGraph:
         """
         m = len(self._eu)
         F = len(self._faces)
-        ends = [(self._dface[2 * e], self._dface[2 * e + 1]) for e in range(m)]
-        # dual rotation: next*(d) = face_next(d)
-        nxt = [self._prev[d ^ 1] for d in range(2 * m)]
         # faces of the dual correspond to primal vertices: the dual face containing
         # dual dart d surrounds primal vertex head(d)
         if self._dual_outer_vertex is not None:
@@ -526,7 +599,7 @@ class PlaneGraph:
             walk = self._faces[self._outer]
             v0 = self.tail_index(walk[0]) if walk else 0
         dpos = None
-        if self.pos is not None and m > 0:
+        if self.pos is not None and m > 0 and all(v in self.pos for v in self._labels):
             dpos = self._face_points()
         if m == 0:
             D = PlaneGraph([0], [], [], [], outer=0, meta={"name": f"dual of {self.meta.get('name', 'graph')}"})
@@ -535,6 +608,11 @@ class PlaneGraph:
             return D
         # a dart into v0 is the reverse of one leaving it
         outer_dart = self._out[v0][0] ^ 1
+        if 2 * m >= _arrays.FAST_MIN_DARTS:
+            return self._dual_fast(outer_dart, dpos)
+        ends = [(self._dface[2 * e], self._dface[2 * e + 1]) for e in range(m)]
+        # dual rotation: next*(d) = face_next(d)
+        nxt = [self._prev[d ^ 1] for d in range(2 * m)]
         D = PlaneGraph(
             list(range(F)),
             ends,
@@ -549,9 +627,69 @@ class PlaneGraph:
         D._dual_outer_vertex = self._outer
         return D
 
+    def _dual_fast(self, outer_dart: int, dpos: dict | None) -> "PlaneGraph":
+        """The body of :meth:`dual` with numpy (same result; the tests compare both)."""
+        m = len(self._eu)
+        F = len(self._faces)
+        arr = self._arrays()
+        ar = np.arange(2 * m, dtype=np.int64)
+        ends = arr["dface"].reshape(m, 2)
+        nxt = arr["prev"][ar ^ 1]
+        D = PlaneGraph(
+            list(range(F)),
+            ends,
+            self._w,
+            nxt,
+            outer_dart=outer_dart,
+            pos=dpos,
+            edge_data=self._edata,
+            meta={"name": f"dual of {self.meta.get('name', 'graph')}"} if self.meta.get("name") else None,
+        )
+        dd = D._arrays()["dface"]
+        fids, first = np.unique(dd, return_index=True)
+        o = np.argsort(first, kind="stable")
+        heads = arr["tail"][ar ^ 1][first[o]]
+        L = self._labels
+        D.face_to_primal_vertex = dict(zip(fids[o].tolist(), [L[h] for h in heads.tolist()]))
+        D._dual_outer_vertex = self._outer
+        return D
+
+    def _arrays(self) -> dict[str, np.ndarray]:
+        """numpy copies of tails, rotation successors and predecessors, and dart faces (cached)."""
+        if self._arr is None:
+            m2 = len(self._next)
+            tail = np.empty(m2, dtype=np.int64)
+            tail[0::2] = self._eu
+            tail[1::2] = self._ev
+            self._arr = {
+                "tail": tail,
+                "next": np.asarray(self._next, dtype=np.int64),
+                "prev": np.asarray(self._prev, dtype=np.int64),
+                "dface": np.asarray(self._dface, dtype=np.int64),
+            }
+        return self._arr
+
     def _face_points(self) -> dict[int, tuple[float, float]]:
         """A point for each face: the centroid of its boundary vertices (outer face: outside the box)."""
         assert self.pos is not None
+        if len(self._next) >= _arrays.FAST_MIN_DARTS:
+            xs = np.array([p[0] for p in self.pos.values()], dtype=float)
+            ys = np.array([p[1] for p in self.pos.values()], dtype=float)
+            pos = self.pos
+            xy = np.fromiter(
+                itertools.chain.from_iterable((pos[v][0], pos[v][1]) for v in self._labels),
+                dtype=float,
+                count=2 * len(self._labels),
+            ).reshape(-1, 2)
+            arr = self._arrays()
+            F = len(self._faces)
+            cnt = np.bincount(arr["dface"], minlength=F).astype(float)
+            cx = np.bincount(arr["dface"], weights=xy[arr["tail"], 0], minlength=F) / np.maximum(cnt, 1)
+            cy = np.bincount(arr["dface"], weights=xy[arr["tail"], 1], minlength=F) / np.maximum(cnt, 1)
+            span = max(float(xs.max() - xs.min()), float(ys.max() - ys.min()), 1.0)
+            cx[self._outer] = float(xs.max()) + 0.25 * span
+            cy[self._outer] = float(ys.max()) + 0.25 * span
+            return dict(enumerate(zip(cx.tolist(), cy.tolist())))
         pts: dict[int, tuple[float, float]] = {}
         xs = [p[0] for p in self.pos.values()]
         ys = [p[1] for p in self.pos.values()]
@@ -916,6 +1054,111 @@ class PlaneGraph:
         >>> P.number_of_faces(), len(P.boundary_walk(P.outer_face))
         (3, 4)
         """
+        if isinstance(faces, np.ndarray):
+            built = cls._from_faces_fast(faces, outer=outer, weights=weights, pos=pos, meta=meta)
+            if built is not None:
+                return built
+            faces = faces.tolist()
+        elif sum(len(fc) for fc in faces) >= _arrays.FAST_MIN_DARTS:
+            built = cls._from_faces_fast(faces, outer=outer, weights=weights, pos=pos, meta=meta)
+            if built is not None:
+                return built
+        return cls._from_faces_slow(faces, outer=outer, weights=weights, pos=pos, meta=meta)
+
+    @classmethod
+    def _from_faces_fast(
+        cls,
+        faces: Sequence[Sequence[Hashable]] | np.ndarray,
+        *,
+        outer: int | None = None,
+        weights: Mapping[tuple[Hashable, Hashable], float] | None = None,
+        pos: Mapping[Hashable, tuple[float, float]] | None = None,
+        meta: Mapping[str, Any] | None = None,
+    ) -> "PlaneGraph | None":
+        """``from_faces`` with numpy; None when the mesh is invalid (the plain path then says why)."""
+        prepared = _arrays.mesh_arrays(faces)
+        if prepared is None:
+            return None
+        labels, a, lens = prepared
+        k = lens.shape[0]
+        N = a.shape[0]
+        if k == 0 or N == 0 or lens.min() < 1:
+            return None
+        n = len(labels)
+        starts = np.cumsum(lens) - lens
+        succ = np.arange(1, N + 1, dtype=np.int64)
+        succ[starts + lens - 1] = starts
+        b = a[succ]
+        if np.any(a == b):
+            return None
+        ukey = np.minimum(a, b) * n + np.maximum(a, b)
+        uniq, first, inv = np.unique(ukey, return_index=True, return_inverse=True)
+        m = uniq.shape[0]
+        order = np.argsort(first, kind="stable")
+        eid_of = np.empty(m, dtype=np.int64)
+        eid_of[order] = np.arange(m, dtype=np.int64)
+        eid = eid_of[inv.reshape(-1)]
+        fa = first[order]
+        eu, ev = a[fa], b[fa]
+        dart = 2 * eid + (a != eu[eid]).astype(np.int64)
+        m2 = 2 * m
+        if np.bincount(dart, minlength=m2).max() > 1:
+            return None  # an edge used twice in the same direction
+        nxt = np.full(m2, -1, dtype=np.int64)
+        nxt[dart[succ]] = dart ^ 1
+        in_face = np.zeros(m2, dtype=bool)
+        in_face[dart] = True
+        free = np.flatnonzero(~in_face)
+        if free.size:
+            tail = np.empty(m2, dtype=np.int64)
+            tail[0::2], tail[1::2] = eu, ev
+            has_pred = np.zeros(m2, dtype=bool)
+            has_pred[nxt[nxt >= 0]] = True
+            xs = np.flatnonzero(nxt < 0)
+            ys = np.flatnonzero(~has_pred)
+            cx = np.bincount(tail[xs], minlength=n)
+            cy = np.bincount(tail[ys], minlength=n)
+            if cx.max() > 1 or np.any(cy[cx > 0] != 1):
+                return None  # a pinched vertex
+            y_at = np.full(n, -1, dtype=np.int64)
+            y_at[tail[ys]] = ys
+            nxt[xs] = y_at[tail[xs]]
+        wts = [1.0] * m
+        if weights:
+            dart_of = dict(zip(zip(a.tolist(), b.tolist()), dart.tolist()))
+            index = {v: i for i, v in enumerate(labels)}
+            for (u, v), w in weights.items():
+                d = dart_of.get((index.get(u, -1), index.get(v, -1)))
+                if d is None:
+                    d = dart_of.get((index.get(v, -1), index.get(u, -1)))
+                if d is None:
+                    raise InvalidEmbeddingError(f"weight given for ({u!r}, {v!r}), which is not an edge of the mesh")
+                wts[d >> 1] = check_weight(w, f"edge ({u!r}, {v!r})")
+        if outer is not None:
+            if not 0 <= outer < k:
+                raise InvalidEmbeddingError(f"outer face index {outer} is not one of the {k} faces")
+            outer_dart = int(dart[starts[outer]])
+        elif free.size:
+            outer_dart = int(free[0])
+        else:
+            outer_dart = int(dart[starts[0]])
+        ends = np.stack([eu, ev], axis=1)
+        try:
+            return cls(labels, ends, wts, nxt, outer_dart=outer_dart, pos=pos, meta=meta)
+        except InvalidEmbeddingError:
+            return None  # e.g. not connected or not genus 0: the plain path gives the message
+
+    @classmethod
+    def _from_faces_slow(
+        cls,
+        faces: Sequence[Sequence[Hashable]],
+        *,
+        outer: int | None = None,
+        weights: Mapping[tuple[Hashable, Hashable], float] | None = None,
+        pos: Mapping[Hashable, tuple[float, float]] | None = None,
+        meta: Mapping[str, Any] | None = None,
+    ) -> "PlaneGraph":
+        """The plain-loop ``from_faces`` (reference for the vectorised one, and its error messages)."""
         labels: list[Hashable] = []
         index: dict[Hashable, int] = {}
         for fc in faces:
