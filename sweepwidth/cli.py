@@ -241,9 +241,7 @@ def cmd_solve(args: argparse.Namespace, out: Callable[[str], None]) -> int:
                     line["check_error"] = note
                 out(json.dumps(line))
             else:
-                check_cell = "-" if checked is None else ("ok" if not note else "REFUSED")
-                if note:
-                    check_cell = "REFUSED"
+                check_cell = "REFUSED" if note else ("-" if checked is None else "ok")
                 rows.append(
                     [
                         os.path.basename(path),
@@ -597,6 +595,19 @@ def _add_solver_options(p: argparse.ArgumentParser) -> None:
 
 
 def build_parser() -> argparse.ArgumentParser:
+    """The argument parser of the ``sweepwidth`` command, one subparser per verb.
+
+    Returns
+    -------
+    argparse.ArgumentParser
+        Its errors print one line ``sweepwidth: error: ...`` and exit with status 2.
+
+    Examples
+    --------
+    >>> args = build_parser().parse_args(["solve", "g.json", "--param", "homology", "--time-limit", "5"])
+    >>> args.verb, args.param, args.time_limit
+    ('solve', ['homology'], 5.0)
+    """
     from . import __version__
 
     top = _Parser(
@@ -694,7 +705,25 @@ _COMMANDS = {
 
 
 def main(argv: Sequence[str] | None = None) -> int:
-    """Run the command line; return the exit status."""
+    """Run the command line; return the exit status.
+
+    Parameters
+    ----------
+    argv : sequence of str, optional
+        The arguments after the program name (default: ``sys.argv[1:]``).
+
+    Returns
+    -------
+    int
+        0 on success; 1 when a check refuses a result, a result contradicts
+        a known value, or an error was reported; 2 for a bad command line
+        (raised as ``SystemExit`` by the parser); 130 when interrupted.
+
+    Examples
+    --------
+    >>> main(["solve", "no-such-file.json"])
+    1
+    """
     parser = build_parser()
     args = parser.parse_args(argv)
     if not args.verb:
