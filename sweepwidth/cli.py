@@ -141,6 +141,8 @@ def _solver_options(args: argparse.Namespace, parameter: str, obj: Any) -> dict:
             opts["last"] = [_label(x, obj) for x in _split(args.last, [])]
         if getattr(args, "unit", False):
             opts["weight"] = None
+        if getattr(args, "sat_solver", None):
+            opts["solver"] = args.sat_solver
     else:
         holes = _face_ids(getattr(args, "holes", None))
         if holes is not None:
@@ -365,7 +367,13 @@ def cmd_bench(args: argparse.Namespace, out: Callable[[str], None]) -> int:
         raise CliError(f"--jobs must be at least 1, got {args.jobs}")
     if args.time_limit is None:
         raise CliError("bench needs --time-limit (seconds per task)")
+    if args.first or args.last:
+        raise CliError("bench does not take --first/--last (labels differ between instances); give pins per instance in a manifest's 'options'")
     opts: dict[str, Any] = {}
+    if args.sat_solver:
+        opts["solver"] = args.sat_solver
+    if args.unit:
+        opts["weight"] = None
     if args.holes:
         opts["holes"] = _face_ids(args.holes)
     if args.no_spikes:
@@ -587,6 +595,7 @@ def _add_solver_options(p: argparse.ArgumentParser) -> None:
     g.add_argument("--first", action="append", metavar="V", help="cutwidth: vertex (or comma list) placed first")
     g.add_argument("--last", action="append", metavar="V", help="cutwidth: vertex (or comma list) placed last")
     g.add_argument("--unit", action="store_true", help="cutwidth: ignore edge weights (every edge counts 1)")
+    g.add_argument("--sat-solver", metavar="NAME", help="cutwidth: python-sat solver for the SAT method (e.g. cadical195, glucose4)")
     g.add_argument("--holes", metavar="F,F", help="homology/homotopy: face ids that may not be swept (default: the outer face)")
     g.add_argument("--no-spikes", action="store_true", help="homotopy: forbid spikes and unspikes")
     g.add_argument("--simple", action="store_true", help="homotopy: every intermediate curve must be simple")

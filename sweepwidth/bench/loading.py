@@ -29,7 +29,7 @@ PARAMETERS = ("cutwidth", "homology", "homotopy")
 
 #: Options each parameter's solver accepts besides method, time_limit and seed.
 OPTIONS: dict[str, tuple[str, ...]] = {
-    "cutwidth": ("first", "last", "weight"),
+    "cutwidth": ("first", "last", "weight", "solver"),
     "homology": ("start", "end", "holes", "monotone"),
     "homotopy": ("start", "end", "spikes", "simple", "monotone", "length", "holes", "s", "t"),
 }

@@ -81,6 +81,16 @@ def task_row(task: Task, outcome: Mapping[str, Any]) -> dict:
     return row
 
 
+def _default_sat_solver() -> str:
+    """The python-sat solver the cutwidth SAT engine uses when none is named."""
+    try:
+        from ..solve.cutwidth_sat import SOLVERS
+
+        return str(SOLVERS[0])
+    except (ImportError, AttributeError, IndexError):  # pragma: no cover
+        return "default"
+
+
 class _Owned:
     """An executor we created (and must shut down), with its cleanup."""
 
@@ -183,7 +193,19 @@ def run_tasks(
         todo = [t for k, t in unique.items() if k not in done]
         skipped = len(unique) - len(todo)
         ex_desc = executor if isinstance(executor, str) or executor is None else type(executor).__name__
-        run_id = database.start_run(run_metadata(jobs=jobs, executor=ex_desc or "local", tasks=len(todo), resume=resume, **dict(meta or {})))
+        sat = sorted({str(t.options.get("solver", _default_sat_solver())) for t in todo if t.parameter == "cutwidth"})
+        seeds = sorted({t.seed for t in todo}, key=lambda s: (s is None, s if s is not None else 0))
+        run_id = database.start_run(
+            run_metadata(
+                jobs=jobs,
+                executor=ex_desc or "local",
+                tasks=len(todo),
+                resume=resume,
+                sat_solvers=sat,
+                seeds=seeds,
+                **dict(meta or {}),
+            )
+        )
         report = RunReport(run_id=run_id, total=len(unique), skipped=skipped, finished=0)
         if not todo:
             database.finish_run(run_id)
