@@ -437,3 +437,34 @@ def test_paths_between_the_same_ends():
         sw.homology_width(P, start=top_right, end=left_bottom[:-1], paths=True)
     with pytest.raises(sw.InvalidCurveError, match="does not close|not adjacent"):
         sw.homology_width(P, start=top_right, end=left_bottom)
+
+
+# ------------------------------------------------------------------ slow checks (make test-slow)
+@pytest.mark.slow
+@pytest.mark.parametrize("name", ["trigrid-10", "delaunay-108"])
+def test_speed_goal_disks_are_solved_exactly(name):
+    # the ~200-face goal of benchmarks/_homology_rows.py, cross-checked with the identity
+    P = generators.triangulated_grid(10) if name == "trigrid-10" else generators.delaunay(108, seed=1)
+    r = sw.homology_width(P, time_limit=60, seed=0)
+    assert r.check(P) == r.upper
+    cw = sw.cutwidth(P.dual(), first=P.outer_face, time_limit=60, seed=0)
+    assert r.lower <= cw.upper + 1e-9 and cw.lower <= r.upper + 1e-9
+    if r.status == "optimal" and cw.status == "optimal":
+        assert r.value == cw.value
+
+
+@pytest.mark.slow
+@settings(max_examples=200, **SETTINGS)
+@given(sweep_instances(max_vertices=9, max_faces=8))
+def test_curve_to_curve_against_brute_force_many(inst):
+    P, c0, c1, holes = inst
+    ref = brute_force(P, c0, c1, holes)
+    r = sw.homology_width(P, start=set(c0), end=set(c1), holes=holes)
+    if ref is None:
+        assert r.status == "infeasible"
+    else:
+        assert r.value == pytest.approx(ref)
+        assert r.check(P) == pytest.approx(ref)
+        free = sw.homology_width(P, start=set(c0), end=set(c1), holes=holes, monotone=False)
+        assert free.value <= r.value + 1e-9
+        assert free.value == pytest.approx(brute_force_toggles(P, c0, c1, holes))
