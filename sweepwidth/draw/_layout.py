@@ -285,8 +285,10 @@ def _given_positions(P: PlaneGraph) -> dict[Hashable, tuple[float, float]] | Non
     given = {v: (float(P.pos[v][0]), float(P.pos[v][1])) for v in P.vertices}
     if _drawing_agrees(_simple_rotation(P), {v: np.array(p) for v, p in given.items()}) != 1:
         return None
-    if P.number_of_edges() and _unbounded_face(P, given) != P.outer_face:
-        return None  # the drawing would put another face outside
+    if P.number_of_edges():
+        unbounded = _unbounded_face(P, given)
+        if unbounded is not None and unbounded != P.outer_face:
+            return None  # the drawing would put another face outside
     return given
 
 
