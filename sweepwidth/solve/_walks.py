@@ -137,6 +137,7 @@ class WalkSpace:
     monotone: bool = False
     mode: str = "weight"
     integral: bool = True
+    fweight: list = field(default_factory=list)
     tree: list = field(default_factory=list)
     outer: int = 0
     labels: list = field(default_factory=list)
@@ -196,6 +197,7 @@ class WalkSpace:
                 hole_set.add(int(h))
         hole = [f in hole_set for f in range(F)]
         out = [tuple(P.darts_at(P.label(v))) for v in range(n)]
+        fweight = [sum(dlen[d] for d in CC[f][: flen[f]]) for f in range(F)]
         # dual spanning tree from the outer face, for winding numbers
         outer = P.outer_face
         tree: list = []
@@ -215,7 +217,7 @@ class WalkSpace:
         return cls(
             n=n, tail=tail, head=head, dlen=dlen, face=face, idx=idx, ridx=ridx, CC=CC, RCC=RCC,
             flen=flen, out=out, hole=hole, closed=closed, spikes=spikes, simple=simple,
-            monotone=monotone, mode=length, integral=integral, tree=tree, outer=outer,
+            monotone=monotone, mode=length, integral=integral, fweight=fweight, tree=tree, outer=outer,
             labels=list(P.vertices),
         )
 
@@ -286,52 +288,85 @@ class WalkSpace:
         return len(set(vs)) == len(vs)
 
     # ------------------------------------------------------------- moves
-    def moves(self, key: tuple) -> Iterator[tuple]:
-        """All walks one legal move from ``key``.
+    def dart_sum(self, key: tuple) -> Any:
+        """Summed dart lengths of a walk key (0 for a point)."""
+        if len(key) == 1 and key[0] < 0:
+            return 0
+        dl = self.dlen
+        return sum(dl[d] for d in key)
 
-        Yields ``(new_darts, vertex, move, face, sign)``: the new dart tuple
-        (not yet canonical; ``()`` for a point), the vertex index of the new
-        point when ``new_darts`` is empty, the move in witness form relative to
-        ``key``'s dart sequence, the flipped face (``-1`` for spikes) and the
-        change of that face's winding number.  Moves that produce the same walk
-        several times are not removed here.
+    def moves(self, key: tuple, cap: Any = None) -> Iterator[tuple]:
+        """All walks one legal move from ``key`` whose length is below ``cap``.
+
+        Yields ``(new_darts, vertex, move, face, sign, new_length)``: the new
+        dart tuple (not yet canonical; ``()`` for a point), the vertex index of
+        the new point when ``new_darts`` is empty, a compact move record
+        relative to ``key``'s dart sequence (see :meth:`move_json`), the flipped
+        face (``-1`` for spikes), the change of that face's winding number, and
+        the new walk's length.  Moves whose result has length ``>= cap`` are
+        skipped before the new tuple is built.  Moves that produce the same
+        walk several times are not removed here.
         """
+        if cap is None:
+            cap = float("inf")
+        ds = self.dart_sum(key)
         if self.closed:
-            yield from self._moves_closed(key)
+            yield from self._moves_closed(key, ds, cap)
         else:
-            yield from self._moves_open(key)
+            yield from self._moves_open(key, ds, cap)
 
-    def _insertions(self, v: int, pos: int, before: tuple, after: tuple) -> Iterator[tuple]:
-        CC, RCC, idx, ridx, face, flen, hole = self.CC, self.RCC, self.idx, self.ridx, self.face, self.flen, self.hole
+    def move_json(self, move: tuple) -> dict:
+        """The witness form of a compact move record ``(kind, pos, arg, put, face)``."""
+        kind, pos, arg, q, f = move
+        if kind == 0:
+            return {"op": "flip", "face": f, "pos": pos, "take": arg, "put": list(q)}
+        if kind == 1:
+            return {"op": "spike", "pos": pos, "dart": arg}
+        return {"op": "unspike", "pos": pos}
+
+    def _extra(self, empty: bool) -> int:
+        # length = dart sum + extra: a vertex-count point counts 1, an open walk counts darts + 1
+        if self.mode != "vertices":
+            return 0
+        return 1 if (empty or not self.closed) else 0
+
+    def _insertions(self, v: int, pos: int, before: tuple, after: tuple, ds: Any, cap: Any) -> Iterator[tuple]:
+        CC, RCC, idx, ridx, face, flen, hole, fw = (
+            self.CC, self.RCC, self.idx, self.ridx, self.face, self.flen, self.hole, self.fweight,
+        )
+        ex = self._extra(False)
         for c in self.out[v]:
             f = face[c]
-            if not hole[f]:
+            if not hole[f] and ds + fw[f] + ex < cap:
                 m = flen[f]
                 o = idx[c]
                 loop = CC[f][o : o + m]  # boundary of f starting with dart c: winding of f +1
-                yield before + loop + after, v, {"op": "flip", "face": f, "pos": pos, "take": 0, "put": list(loop)}, f, 1
-            # the reversed boundary of the face on the right of c^1 ... i.e. a loop
-            # leaving v along c that runs around face(c^1) clockwise
+                yield before + loop + after, v, (0, pos, 0, loop, f), f, 1, ds + fw[f] + ex
+            # a loop leaving v along c around the face g on the right of c, clockwise
             g = face[c ^ 1]
-            if not hole[g]:
+            if not hole[g] and ds + fw[g] + ex < cap:
                 m = flen[g]
                 o = ridx[c]
                 loop = RCC[g][o : o + m]  # reversed boundary of g starting with c: winding of g -1
-                yield before + loop + after, v, {"op": "flip", "face": g, "pos": pos, "take": 0, "put": list(loop)}, g, -1
+                yield before + loop + after, v, (0, pos, 0, loop, g), g, -1, ds + fw[g] + ex
             if self.spikes:
-                yield before + (c, c ^ 1) + after, v, {"op": "spike", "pos": pos, "dart": c}, -1, 0
+                nl = ds + 2 * self.dlen[c] + ex
+                if nl < cap:
+                    yield before + (c, c ^ 1) + after, v, (1, pos, c, (), -1), -1, 0, nl
 
-    def _moves_closed(self, key: tuple) -> Iterator[tuple]:
+    def _moves_closed(self, key: tuple, ds: Any, cap: Any) -> Iterator[tuple]:
         if self.is_point(key):
             v = -1 - key[0]
-            yield from self._insertions(v, 0, (), ())
+            yield from self._insertions(v, 0, (), (), 0, cap)
             return
         W = key
         L = len(W)
         WW = W + W
-        CC, RCC, idx, ridx, face, flen, hole, tl = (
+        CC, RCC, idx, ridx, face, flen, hole, tl, dl, fw = (
             self.CC, self.RCC, self.idx, self.ridx, self.face, self.flen, self.hole, self.tail,
+            self.dlen, self.fweight,
         )
+        pt = self._extra(True)
         for i in range(L):
             d = W[i]
             # flips with a non-empty piece starting at position i
@@ -346,36 +381,46 @@ class WalkSpace:
                 RCf = RC[f]
                 kmax = m if m < L else L
                 k = 1
+                plen = 0
+                tot = fw[f]
                 while k <= kmax and WW[i + k - 1] == Cf[o + k - 1]:
-                    # q = reverse of Cf[o+k : o+m] = RCf[m-o : 2m-o-k]
-                    q = RCf[m - o : 2 * m - o - k]
-                    if i + k <= L:
-                        new = W[:i] + q + W[i + k :]
-                    else:
-                        new = q + W[i + k - L : i]
-                    yield new, tl[d], {"op": "flip", "face": f, "pos": i, "take": k, "put": list(q)}, f, sign
+                    plen += dl[Cf[o + k - 1]]
+                    nds = ds - plen + (tot - plen)
+                    nl = pt if (k == L and k == m) else nds
+                    if nl < cap:
+                        # q = reverse of Cf[o+k : o+m] = RCf[m-o : 2m-o-k]
+                        q = RCf[m - o : 2 * m - o - k]
+                        if i + k <= L:
+                            new = W[:i] + q + W[i + k :]
+                        else:
+                            new = q + W[i + k - L : i]
+                        yield new, tl[d], (0, i, k, q, f), f, sign, nl
                     k += 1
             # unspike
             if self.spikes and WW[i + 1] == d ^ 1:
+                nds = ds - 2 * dl[d]
                 if L == 2:
                     new = ()
-                elif i + 2 <= L:
-                    new = W[:i] + W[i + 2 :]
+                    nl = pt
                 else:
-                    new = W[1:i]
-                yield new, tl[d], {"op": "unspike", "pos": i}, -1, 0
+                    nl = nds
+                    new = W[:i] + W[i + 2 :] if i + 2 <= L else W[1:i]
+                if nl < cap:
+                    yield new, tl[d], (2, i, 0, (), -1), -1, 0, nl
             # insertions before position i
-            yield from self._insertions(tl[d], i, W[:i], W[i:])
+            yield from self._insertions(tl[d], i, W[:i], W[i:], ds, cap)
 
-    def _moves_open(self, key: tuple) -> Iterator[tuple]:
+    def _moves_open(self, key: tuple, ds: Any, cap: Any) -> Iterator[tuple]:
+        ex = self._extra(False)
         if self.is_point(key):
             v = -1 - key[0]
-            yield from self._insertions(v, 0, (), ())
+            yield from self._insertions(v, 0, (), (), 0, cap)
             return
         W = key
         L = len(W)
-        CC, RCC, idx, ridx, face, flen, hole, tl = (
+        CC, RCC, idx, ridx, face, flen, hole, tl, dl, fw = (
             self.CC, self.RCC, self.idx, self.ridx, self.face, self.flen, self.hole, self.tail,
+            self.dlen, self.fweight,
         )
         for i in range(L):
             d = W[i]
@@ -390,14 +435,21 @@ class WalkSpace:
                 RCf = RC[f]
                 kmax = min(m, L - i)
                 k = 1
+                plen = 0
+                tot = fw[f]
                 while k <= kmax and W[i + k - 1] == Cf[o + k - 1]:
-                    q = RCf[m - o : 2 * m - o - k]
-                    yield W[:i] + q + W[i + k :], tl[d], {"op": "flip", "face": f, "pos": i, "take": k, "put": list(q)}, f, sign
+                    plen += dl[Cf[o + k - 1]]
+                    nl = ds - plen + (tot - plen) + ex
+                    if nl < cap:
+                        q = RCf[m - o : 2 * m - o - k]
+                        yield W[:i] + q + W[i + k :], tl[d], (0, i, k, q, f), f, sign, nl
                     k += 1
             if self.spikes and i + 1 < L and W[i + 1] == d ^ 1:
-                yield W[:i] + W[i + 2 :], tl[d], {"op": "unspike", "pos": i}, -1, 0
-            yield from self._insertions(tl[d], i, W[:i], W[i:])
-        yield from self._insertions(self.head[W[-1]], L, W, ())
+                nl = ds - 2 * dl[d] + ex
+                if nl < cap:
+                    yield W[:i] + W[i + 2 :], tl[d], (2, i, 0, (), -1), -1, 0, nl
+            yield from self._insertions(tl[d], i, W[:i], W[i:], ds, cap)
+        yield from self._insertions(self.head[W[-1]], L, W, (), ds, cap)
 
     # ------------------------------------------------------ applying moves
     def apply(self, darts: tuple, vertex: int, move: dict) -> tuple[tuple, int]:

@@ -226,9 +226,17 @@ class _Search:
             self.rev_end = tuple(d ^ 1 for d in reversed(ed))
         self.free = [f for f in range(F) if not sp.hole[f]]
 
-    # state = walk key, or (walk key, mask) when monotone
+    # state = walk key, or (walk key, mask of flipped faces) when monotone and the
+    # outer face may be flipped.  When the outer face is a hole, a flip of face f
+    # changes the winding number w(f) by one and no other (outer face fixed at 0),
+    # and the end fixes every w(f).  So in a monotone homotopy face f is flipped
+    # exactly once if |w_start(f) - w_end(f)| = 1, never if it is 0, and the
+    # problem is infeasible if it is >= 2; every flip must move w(f) towards
+    # w_end(f).  Conversely, when all differences are <= 1, flips that move
+    # towards the end flip each face at most once.  The flipped set is then
+    # {f : w(f) != w_start(f)}, a function of the walk: no mask is needed.
     def walk(self, state: Any) -> tuple:
-        return state[0] if self.sp.monotone else state
+        return state[0] if (self.sp.monotone and not self.sp.hole[self.sp.outer]) else state
 
     def is_goal(self, key: tuple) -> bool:
         if self.goal_key is None:
@@ -309,7 +317,10 @@ def _run(
     ``greedy=True``: order by the winding estimate first (a dive for an upper bound).
     """
     sp = search.sp
-    monotone = sp.monotone
+    # monotone homotopies with the outer face a hole: winding numbers decide which
+    # flips are allowed and the flipped set is a function of the walk (see _Search)
+    wind_mono = sp.monotone and sp.hole[sp.outer]
+    monotone = sp.monotone and not wind_mono
     simple = sp.simple
     length = sp.length
     closed = sp.closed
@@ -364,7 +375,7 @@ def _run(
             break
         done.add(state)
         settled += 1
-        if (settled & 63) == 0:
+        if (settled & 7) == 0:
             if deadline is not None and time.monotonic() > deadline:
                 reason = "deadline"
                 break
@@ -376,17 +387,17 @@ def _run(
                 break
         mask = state[1] if monotone else 0
         _, wn = search.potential_and_winding(key)
-        for new, v, move, face, sign in sp.moves(key):
+        for new, v, move, face, sign, nl in sp.moves(key, cap):
             generated += 1
-            if face >= 0 and monotone and (mask >> face) & 1:
-                continue
+            if face >= 0:
+                if wind_mono and (wn[face] - wend[face]) * sign >= 0:
+                    continue
+                if monotone and (mask >> face) & 1:
+                    continue
             if new:
                 nkey = least_rotation(new) if closed else new
             else:
                 nkey = sp.point(v)
-            nl = length(nkey)
-            if cap is not None and nl >= cap:
-                continue
             f2 = f if f >= nl else nl
             if cap is not None and f2 >= cap:
                 continue
@@ -451,13 +462,13 @@ def _witness(search: _Search, parent: dict, state: Any) -> dict:
     moves = []
     for ps, move in chain:
         key = search.walk(ps)
-        mv = dict(move)
+        mv = sp.move_json(move)
         if sp.closed and not sp.is_point(key):
             L = len(key)
             r = find_rotation(A, key)
             if r < 0:  # pragma: no cover - internal consistency
                 raise SweepwidthError("internal error: witness walk lost track of its state")
-            mv["pos"] = (move["pos"] - r) % L
+            mv["pos"] = (move[1] - r) % L
         if "put" in mv:
             mv["put"] = list(mv["put"])
         moves.append(mv)
@@ -593,6 +604,16 @@ def search_homotopy(
         stats["reason"] = "simple homotopy: the start walk is not simple"
         stats["infeasible"] = True
         return SearchOutcome(lower=float("inf"), upper=None, witness=None, optimal=False, stats=stats)
+    if spec.monotone and sp.hole[sp.outer]:
+        w0 = sp.winding(search.start_key) if sp.closed else search.potential_and_winding(search.start_key)[1]
+        for f in search.free:
+            if abs(w0[f] - search.wend[f]) >= 2:
+                stats["reason"] = (
+                    f"monotone homotopy: the winding number of face {f} must change by "
+                    f"{abs(w0[f] - search.wend[f])}, but each flip changes it by one and a face is flipped at most once"
+                )
+                stats["infeasible"] = True
+                return SearchOutcome(lower=float("inf"), upper=None, witness=None, optimal=False, stats=stats)
     lo = max(sp.length(search.start_key), search.end_length())
     lower_from = "lengths of the start and end walks"
     if lower is not None and lower > lo:
@@ -644,7 +665,8 @@ def search_homotopy(
             report()
 
     if dive and (deadline is None or time.monotonic() < deadline):
-        dl = deadline
+        # the dive gets at most a third of the time left
+        dl = None if deadline is None else time.monotonic() + (deadline - time.monotonic()) / 3
         r = _run(search, lower=lo, upper=state["upper"], deadline=dl, max_states=max_states, greedy=True,
                  on_upper=on_upper_factory("greedy dive"), on_lower=None, expand_limit=dive)
         stats["dive_states"] = r["settled"]
@@ -670,6 +692,11 @@ def search_homotopy(
     if r["exhausted"]:
         if state["upper"] is not None:
             state["lower"] = state["upper"]
+            if state["witness"] is None:
+                # an upper bound was given without a witness: what is proved is
+                # only that no homotopy has a smaller height
+                stats["reason"] = "no homotopy of height below the given upper bound"
+                return outcome(False)
             return outcome(True)
         # finite component without an end state: not homotopic
         stats["reason"] = "no end state is reachable (all walks reachable from the start were explored)"
