@@ -101,6 +101,9 @@ HOMOLOGY_SHARE = 0.6
 #: the homology solver is asked for this share of its budget (its set-up time
 #: comes on top: on a 9800-face disk about 11 s whatever the limit)
 HOMOLOGY_ASK = 0.25
+#: up to this many sweepable faces the homology bound runs in this process
+#: (a child process costs about 1.5 s to start on a loaded machine)
+HOMOLOGY_INPROCESS_FACES = 200
 #: homology budget (s) when no time limit is given
 HOMOLOGY_DEFAULT_BUDGET = 20.0
 
@@ -952,8 +955,8 @@ def _homology_lower(
 ) -> tuple[float | None, dict, list | None]:
     """Homology width with the same start/end/holes as a lower bound (closed curves).
 
-    With ``hard_deadline`` the homology solver runs in a child process killed
-    then; it is asked for ``HOMOLOGY_ASK * budget`` seconds because its
+    With ``hard_deadline`` (and more than ``HOMOLOGY_INPROCESS_FACES`` faces)
+    the homology solver runs in a child process killed then; it is asked for ``HOMOLOGY_ASK * budget`` seconds because its
     set-up time comes on top of its time limit.
     """
     info: dict = {}
@@ -972,7 +975,7 @@ def _homology_lower(
     z1 = _z2(H.end.darts) if H.end is not None else set()
     kw = {"start": z0, "end": z1, "holes": sorted(H.holes), "time_limit": max(budget * HOMOLOGY_ASK, 0.3)}
     try:
-        if hard_deadline is None:
+        if hard_deadline is None or len(H.sweepable_faces) <= HOMOLOGY_INPROCESS_FACES:
             r = homology_width(P, **kw)
         else:
             from ._deadline import run_limited
