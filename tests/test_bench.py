@@ -183,9 +183,10 @@ def test_sigkill_then_resume_loses_and_repeats_nothing(tmp_path):
     for n in range(3, 11):
         sw.write(nx.cycle_graph(n), str(folder / f"cycle{n:02d}.json"))  # cw(C_n) = 2 (common practice)
     db = str(tmp_path / "kill.sqlite")
-    cmd = [PY, "-m", "sweepwidth", "bench", str(folder), "--time-limit", "5", "--db", db, "--quiet", "--method", "sweepwidth-probe"]
-    # a probe method name would fail; use the real solver with a sleeping wrapper via --solver-free path:
-    cmd = [PY, "-c", _SLOW_RUN, str(folder), db]
+    pids = tmp_path / "pids"
+    pids.mkdir()
+    # every task sleeps a little, records its process id, then solves for real
+    cmd = [PY, "-c", _SLOW_RUN, str(folder), db, str(pids)]
     proc = subprocess.Popen(cmd, stdout=subprocess.DEVNULL, stderr=subprocess.PIPE)
     deadline = time.monotonic() + 90
     done = 0
@@ -202,11 +203,19 @@ def test_sigkill_then_resume_loses_and_repeats_nothing(tmp_path):
         assert proc.poll() is None, proc.stderr.read().decode()
     proc.send_signal(signal.SIGKILL)
     proc.wait(timeout=10)
+    # the task children die with the runner (PR_SET_PDEATHSIG): none is left running
+    started = [int(p.stem) for p in pids.glob("*.pid")]
+    assert started
+    give_up = time.monotonic() + 10
+    while any(_alive(pid) for pid in started) and time.monotonic() < give_up:
+        time.sleep(0.2)
+    for pid in started:
+        assert not _alive(pid), f"task process {pid} outlived the killed runner: {_describe(pid)}"
     with ResultsDB(db) as d:
         before = {(r["instance_hash"], r["config_hash"]): r["finished_at"] for r in d.rows()}
     assert 2 <= len(before) < 8
     # resume in this process: only the unfinished tasks run
-    tasks = _slow_tasks(str(folder))
+    tasks = _slow_tasks(str(folder), str(pids))
     rep = run_tasks(tasks, db, jobs=2, resume=True)
     assert rep.skipped == len(before)
     assert rep.finished == 8 - len(before)
@@ -221,16 +230,36 @@ def test_sigkill_then_resume_loses_and_repeats_nothing(tmp_path):
         assert r["status"] == "optimal" and r["value"] == 2
 
 
-def _slow_tasks(folder):
+def _alive(pid):
+    try:
+        with open(f"/proc/{pid}/stat") as fh:
+            return fh.read().split(")")[-1].split()[0] != "Z"  # a zombie is dead
+    except FileNotFoundError:
+        return False
+
+
+def _describe(pid):
+    try:
+        with open(f"/proc/{pid}/stat") as fh:
+            stat = fh.read()
+        with open(f"/proc/{pid}/cmdline", "rb") as fh:
+            cmd = fh.read().replace(b"\0", b" ").decode()[:200]
+        return stat[:120] + " | " + cmd
+    except OSError:
+        return "gone"
+
+
+def _slow_tasks(folder, pid_dir=None):
     ts = make_tasks(discover([folder]), ["cutwidth"], time_limit=10)
-    return [Task(**{**t.to_dict(), "solver": PROBE + "honest", "options": {"delay": 0.3}}) for t in ts]
+    opts = {"delay": 0.3, **({"pid_dir": pid_dir} if pid_dir else {})}
+    return [Task(**{**t.to_dict(), "solver": PROBE + "honest", "options": opts}) for t in ts]
 
 
 _SLOW_RUN = """
 import sys
 from tests.test_bench import _slow_tasks
 from sweepwidth.bench import run_tasks
-run_tasks(_slow_tasks(sys.argv[1]), sys.argv[2], jobs=1)
+run_tasks(_slow_tasks(sys.argv[1], sys.argv[3]), sys.argv[2], jobs=1)
 """
 
 

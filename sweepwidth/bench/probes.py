@@ -10,6 +10,7 @@ seed, progress, **options)``.  Use them as ``solver="sweepwidth.bench.probes:NAM
 ``crash``      kills itself with SIGSEGV
 ``broken``     raises ValueError
 ``honest``     the real cutwidth solver, after sleeping ``delay`` seconds
+               (and writing its process id into ``pid_dir`` when given)
 """
 
 from __future__ import annotations
@@ -55,9 +56,22 @@ def broken(obj: Any, **_: Any) -> Any:
     raise ValueError("this probe always fails")
 
 
-def honest(obj: Any, *, delay: float = 0.0, method: str = "auto", time_limit: float | None = None, seed: Any = None, progress: Any = None, **options: Any) -> Any:
+def honest(
+    obj: Any,
+    *,
+    delay: float = 0.0,
+    pid_dir: str | None = None,
+    method: str = "auto",
+    time_limit: float | None = None,
+    seed: Any = None,
+    progress: Any = None,
+    **options: Any,
+) -> Any:
     """Sleep ``delay`` seconds, then solve cutwidth for real."""
     from .loading import solve_object
 
+    if pid_dir:
+        with open(os.path.join(pid_dir, f"{os.getpid()}.pid"), "w") as fh:
+            fh.write(str(os.getpid()))
     time.sleep(delay)
     return solve_object(obj, "cutwidth", method=method, time_limit=time_limit, seed=seed, options=options)
