@@ -14,6 +14,25 @@ Verbs
 Every failure prints one line ``sweepwidth: error: ...`` on standard error
 and exits with status 1 (2 for a bad command line).  The library never
 prints; everything shown here is formatted in this module.
+
+Saved results
+-------------
+``solve --save DIR`` and ``solve -o FILE`` write one JSON object per result::
+
+    {"format": "sweepwidth-saved-result", "version": 1,
+     "instance": {"path": "/abs/path/grid.json", "hash": "<content hash>"},
+     "options": {...},                  # the parameter options used
+     "result": {...},                   # Result.to_dict()
+     "sweepwidth": "0.1.0",
+     "digest": "<sha256 of canonical JSON of instance, options, result>",
+     "instance_from_here": "../grid.json"}
+
+``check`` finds the instance (``--instance``, else ``instance_from_here``
+relative to the result file, else the absolute path), refuses the result
+when the digest does not match (the file was edited), when the instance's
+content hash differs, or when the independent checker's replay of the
+witness fails or does not attain the claimed upper bound;
+``--recompute`` also solves again and compares the bounds.
 """
 
 from __future__ import annotations
