@@ -209,10 +209,17 @@ def test_planar_code_two_byte_entries_and_byte_orders(tmp_path):
         read(path, index=5)
 
 
-def test_planar_code_refuses_multigraphs():
+def test_planar_code_refuses_multigraphs_and_plain_graphs():
     D = sw.PlaneGraph.from_graph(nx.cycle_graph(3)).dual()
     with pytest.raises(SweepwidthError, match="parallel"):
         write_planar_code(D)
+    with pytest.raises(SweepwidthError, match="from_graph"):
+        write_planar_code(nx.cycle_graph(3))
+    loops = sw.PlaneGraph.from_graph(nx.path_graph(3)).dual()
+    with pytest.raises(SweepwidthError, match="loop"):
+        write_planar_code(loops)
+    with pytest.raises(SweepwidthError, match="loop"):
+        write_mesh(loops, "off")
 
 
 # ----------------------------------------------------------------- meshes

@@ -199,6 +199,10 @@ def write_planar_code(
     >>> read_planar_code(write_planar_code(P))[0].number_of_edges()
     3
     """
+    import networkx as nx
+
+    if isinstance(obj, nx.Graph):
+        raise SweepwidthError("planar_code holds plane graphs; build one first with PlaneGraph.from_graph(G)")
     graphs = [obj] if isinstance(obj, PlaneGraph) else list(obj)
     if not graphs:
         raise SweepwidthError("planar_code needs at least one graph to write")
