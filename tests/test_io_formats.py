@@ -22,6 +22,7 @@ from sweepwidth.errors import (
 )
 from sweepwidth.io import FORMATS, detect_format, read, read_all, write
 from sweepwidth.io._gr import read_gr, write_gr
+from sweepwidth.io._graphml import read_graphml, write_graphml
 from sweepwidth.io._mesh import read_mesh, write_mesh
 from sweepwidth.io._planar_code import HEADER, read_planar_code, write_planar_code
 
@@ -58,7 +59,7 @@ def _simple(P):
 @settings(max_examples=25, deadline=None)
 @given(plane_graphs(1, 9, weighted=True))
 def test_graphml_round_trip_is_exact(P):
-    Q = sw.io._graphml.read_graphml(sw.io._graphml.write_graphml(P))
+    Q = read_graphml(write_graphml(P))
     assert Q.vertices == P.vertices
     assert Q.same_embedding(P)
     assert Q.outer_face == P.outer_face
@@ -295,16 +296,16 @@ def test_graphml_from_other_writers(tmp_path):
         del d["old"]
     buf = io.BytesIO()
     nx.write_graphml(H, buf)
-    P = sw.io._graphml.read_graphml(buf.getvalue())
+    P = read_graphml(buf.getvalue())
     assert isinstance(P, sw.PlaneGraph) and P.number_of_faces() == 5  # a 3x3 grid: 4 squares + outer
     assert P.pos is not None
     buf = io.BytesIO()
     nx.write_graphml(nx.complete_graph(5), buf)
-    K = sw.io._graphml.read_graphml(buf.getvalue())
+    K = read_graphml(buf.getvalue())
     assert isinstance(K, nx.Graph) and not isinstance(K, sw.PlaneGraph) and K.number_of_edges() == 10
     buf = io.BytesIO()
     nx.write_graphml(nx.cycle_graph(6), buf)
-    assert sw.io._graphml.read_graphml(buf.getvalue()).number_of_faces() == 2
+    assert read_graphml(buf.getvalue()).number_of_faces() == 2
 
 
 def test_graphml_crossing_drawing():
@@ -314,7 +315,7 @@ def test_graphml_crossing_drawing():
     buf = io.BytesIO()
     nx.write_graphml(G, buf)
     with pytest.raises(CrossingEdgesError, match="cross"):
-        sw.io._graphml.read_graphml(buf.getvalue(), path="c.graphml")
+        read_graphml(buf.getvalue(), path="c.graphml")
 
 
 # ------------------------------------------------------------- bad files
@@ -390,7 +391,7 @@ def _reader(fmt):
         "planar_code": lambda d: read_planar_code(d, "bad.plc"),
         "off": lambda d: read_mesh(d, "off", path="bad.off"),
         "obj": lambda d: read_mesh(d, "obj", path="bad.obj"),
-        "graphml": lambda d: sw.io._graphml.read_graphml(d, path="bad.graphml"),
+        "graphml": lambda d: read_graphml(d, path="bad.graphml"),
     }[fmt]
 
 
