@@ -380,3 +380,12 @@ def test_feasibility_agrees_with_brute_force(P, seed):
         # one hole: a disk, every closed curve is contractible and the sweep finds a homotopy
         r = homotopy_height(P, holes=holes, method="bounds")
         assert r.upper is not None and r.check(P) == r.upper
+
+
+def test_path_result_survives_json_round_trip():
+    # regression: tuple vertex labels come back from JSON as lists (s, t, walk vertices)
+    P = triangulated_grid(2)
+    r = homotopy_height(P, s=(0, 0), t=(2, 2), method="bounds")
+    back = sw.Result.from_dict(__import__("json").loads(r.to_json()))
+    assert back.check(P) == r.upper
+    assert back.stats["options"]["closed"] is False

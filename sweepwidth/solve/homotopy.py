@@ -1042,7 +1042,10 @@ def homotopy_bounds(
 
     def run_homology() -> None:
         hard = None if deadline is None else min(deadline - 0.3, t0 + homology_budget)
-        hom["result"] = _homology_lower(H, homology_budget, hard)
+        try:
+            hom["result"] = _homology_lower(H, homology_budget, hard)
+        except Exception as err:  # a child that cannot start (e.g. unguarded __main__): no bound
+            hom["result"] = (None, {"homology": f"failed: {type(err).__name__}: {err}"}, None)
 
     worker = None
     if deadline is None:
@@ -1139,7 +1142,15 @@ def _run_search(H: HomotopyProblem, deadline: float | None, upper: float | None,
     if deadline is None:
         done, value, reports = run_limited(_search_child, (H, kw), deadline=None)
     else:
-        done, value, reports = run_limited(_search_child, (H, kw), deadline=deadline + 0.4)
+        try:
+            done, value, reports = run_limited(_search_child, (H, kw), deadline=deadline + 0.4)
+        except (RuntimeError, OSError) as err:
+            if isinstance(err, SweepwidthError):
+                raise
+            # no child process possible here (e.g. a script without a __main__ guard):
+            # the search's own cooperative deadline
+            done, value, reports = run_limited(_search_child, (H, kw), deadline=None)
+            return value, f"finished in this process ({type(err).__name__} starting a child)"
     if done:
         return value, "finished"
     if reports:
