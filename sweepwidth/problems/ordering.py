@@ -204,7 +204,7 @@ class OrderingProblem:
 
     def is_forest(self) -> bool:
         """True when the merged graph has no cycle."""
-        return self.m == self.n - len(self.components())
+        return self.m == self.n - self.component_labels()[0]
 
     def integer_scale(self, max_denominator: int = 1000) -> int | None:
         """Smallest ``q <= max_denominator`` making every ``q * weight`` an integer, or None.
@@ -237,24 +237,46 @@ class OrderingProblem:
         """
         return PinContraction.build(self)
 
+    def component_labels(self) -> tuple[int, np.ndarray]:
+        """``(count, label)``: the number of connected components and each vertex's component."""
+        from scipy.sparse import coo_matrix
+        from scipy.sparse.csgraph import connected_components
+
+        n = self.n
+        if n == 0:
+            return 0, np.zeros(0, dtype=np.int64)
+        A = coo_matrix((np.ones(self.m), (self.edges[:, 0], self.edges[:, 1])), shape=(n, n))
+        k, lab = connected_components(A, directed=False)
+        return int(k), lab
+
     def components(self) -> list[list[int]]:
         """Vertex sets of the connected components (isolated vertices included)."""
-        H = nx.Graph()
-        H.add_nodes_from(range(self.n))
-        H.add_edges_from(self.edges.tolist())
-        return [sorted(c) for c in nx.connected_components(H)]
+        k, lab = self.component_labels()
+        order = np.argsort(lab, kind="stable")
+        bounds = np.searchsorted(lab[order], np.arange(k + 1))
+        return [order[bounds[i] : bounds[i + 1]].tolist() for i in range(k)]
 
     def subproblem(self, vertices: Sequence[int]) -> "OrderingProblem":
         """The induced subproblem on ``vertices`` (renumbered in the given order)."""
-        idx = {v: i for i, v in enumerate(vertices)}
-        keep = [k for k, (u, v) in enumerate(self.edges.tolist()) if u in idx and v in idx]
-        e = np.array([[idx[int(self.edges[k, 0])], idx[int(self.edges[k, 1])]] for k in keep], dtype=np.int64).reshape(-1, 2)
+        vertices = [int(v) for v in vertices]
+        idx = np.full(self.n, -1, dtype=np.int64)
+        idx[np.asarray(vertices, dtype=np.int64)] = np.arange(len(vertices))
+        if self.m:
+            a = idx[self.edges[:, 0]]
+            b = idx[self.edges[:, 1]]
+            keep = (a >= 0) & (b >= 0)
+            e = np.stack([np.minimum(a, b)[keep], np.maximum(a, b)[keep]], axis=1).reshape(-1, 2)
+            w = self.weights[keep].copy()
+            srt = np.lexsort((e[:, 1], e[:, 0]))
+            e, w = e[srt], w[srt]
+        else:
+            e, w = np.zeros((0, 2), dtype=np.int64), np.zeros(0)
         return OrderingProblem(
             labels=tuple(self.labels[v] for v in vertices),
             edges=e,
-            weights=self.weights[keep].copy(),
-            first=frozenset(idx[v] for v in self.first if v in idx),
-            last=frozenset(idx[v] for v in self.last if v in idx),
+            weights=w,
+            first=frozenset(int(idx[v]) for v in self.first if idx[v] >= 0),
+            last=frozenset(int(idx[v]) for v in self.last if idx[v] >= 0),
         )
 
 

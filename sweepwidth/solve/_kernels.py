@@ -42,9 +42,9 @@ def csr_with_ids(n: int, edges: np.ndarray) -> tuple[np.ndarray, np.ndarray, np.
 # ---------------------------------------------------------------- betweenness
 
 
-def _betweenness_py(n, indptr, indices, eid, m):  # pragma: no cover - fallback
+def _betweenness_py(n, indptr, indices, eid, m, sources):  # pragma: no cover - fallback
     load = np.zeros(m)
-    for s in range(n):
+    for s in sources:
         dist = np.full(n, -1, dtype=np.int64)
         sigma = np.zeros(n)
         stack = []
@@ -75,13 +75,13 @@ def _betweenness_py(n, indptr, indices, eid, m):  # pragma: no cover - fallback
 
 
 @_jit
-def _betweenness_nb(n, indptr, indices, eid, m):  # pragma: no cover - compiled
+def _betweenness_nb(n, indptr, indices, eid, m, sources):  # pragma: no cover - compiled
     load = np.zeros(m)
     dist = np.empty(n, dtype=np.int64)
     sigma = np.empty(n)
     delta = np.empty(n)
     queue = np.empty(n, dtype=np.int64)
-    for s in range(n):
+    for s in sources:
         for i in range(n):
             dist[i] = -1
             sigma[i] = 0.0
@@ -113,14 +113,19 @@ def _betweenness_nb(n, indptr, indices, eid, m):  # pragma: no cover - compiled
     return load
 
 
-def edge_betweenness(n: int, indptr: np.ndarray, indices: np.ndarray, eid: np.ndarray, m: int) -> np.ndarray:
-    """Shortest-path (hop count) load of every edge, pairs routed from both ends.
+def edge_betweenness(
+    n: int, indptr: np.ndarray, indices: np.ndarray, eid: np.ndarray, m: int, sources: np.ndarray | None = None
+) -> np.ndarray:
+    """Shortest-path (hop count) load of every edge from the given sources.
 
-    Each ordered pair ``(s, t)`` sends one unit split evenly over the shortest
-    ``s``-``t`` paths (Brandes' accumulation).  ``O(n m)``.
+    Each pair ``(s, t)`` with ``s`` in ``sources`` (default: all vertices)
+    sends one unit split evenly over the shortest ``s``-``t`` paths (Brandes'
+    accumulation).  ``O(|sources| m)``.
     """
+    if sources is None:
+        sources = np.arange(n, dtype=np.int64)
     fn = _betweenness_nb if HAVE_NUMBA else _betweenness_py
-    return fn(n, indptr, indices, eid, m)
+    return fn(n, indptr, indices, eid, m, np.asarray(sources, dtype=np.int64))
 
 
 # ---------------------------------------------------------------- subset DP

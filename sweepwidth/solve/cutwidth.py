@@ -72,6 +72,8 @@ OPTIONS: dict[str, tuple[str, ...]] = {
 }
 
 _TINY_DP = 20  # 'auto' uses the DP up to this many unpinned vertices
+_SAT_MAX_N = 400  # 'auto' does not build SAT encodings (n^2 variables) above this
+_BIG = 3000  # above this many vertices 'auto' only runs bounds and heuristics
 
 Outcome = tuple[float, float, list[int], dict]  # lower, upper, order, stats
 
@@ -96,7 +98,8 @@ def _sub_deadline(deadline: float | None, seconds: float) -> float:
 
 def _heuristic(P: OrderingProblem, seed: int | None, deadline: float | None, improve: bool = True, effort: int = 6) -> tuple[float, list[int], dict]:
     # the heuristic gets a fraction of the time: exact methods need the rest
-    share = 0.25 * _left(deadline) if deadline is not None else 5.0 + P.n / 500.0
+    frac = 0.25 if P.n <= _BIG else 0.7  # exact methods are hopeless on big graphs
+    share = frac * _left(deadline) if deadline is not None else 5.0 + P.n / 500.0
     return heuristic_ordering(P, seed=seed, deadline=_sub_deadline(deadline, share), improve=improve, effort=effort)
 
 
@@ -279,6 +282,10 @@ def _auto_part(P: OrderingProblem, deadline: float | None, seed: int | None, opt
         return p
     lb, ub, order = p.lower, p.upper, p.order
     chain = ["heuristic"]
+    if n > _BIG:
+        stats["auto"] = {"choice": "heuristic", "reason": f"{n} vertices: only bounds and heuristics (exact search above {_BIG} vertices is hopeless)", "notes": why}
+        p.method = "heuristic"
+        return p
     # a short prefix-set search first: on sparse graphs of small width it is instant
     slice_s = 0.4 * _left(deadline) if deadline is not None else 10.0 + n / 20.0
     out = solve_bnb(P, lower=lb, upper=ub, upper_order=order, deadline=_sub_deadline(deadline, slice_s), max_states=min(max_states, 1_000_000))
@@ -292,7 +299,9 @@ def _auto_part(P: OrderingProblem, deadline: float | None, seed: int | None, opt
         stats["auto"] = {"choice": "bnb", "reason": "time limit reached", "chain": chain, "notes": why}
         return _Part(lb, ub, order, stats, "bnb")
     q = P.integer_scale()
-    if q is not None:
+    if q is not None and n > _SAT_MAX_N:
+        why.append(f"sat skipped: {n} vertices make an order encoding of about n^2 = {n * n} variables")
+    elif q is not None:
         try:
             lo2, up2, o2, st = _m_sat(P, lower=lb, upper=ub, upper_order=order, deadline=deadline, seed=seed, solver=solver, sat_options=sat_options)
             chain.append("sat")
@@ -309,7 +318,8 @@ def _auto_part(P: OrderingProblem, deadline: float | None, seed: int | None, opt
     chain.append("bnb")
     stats["bnb_full"] = dict(out.stats)
     lb, ub, order = max(lb, out.lower), out.upper, out.order
-    stats["auto"] = {"choice": "bnb", "reason": "real weights: the prefix-set search is exact on them", "chain": chain, "notes": why}
+    reason = "real weights: the prefix-set search is exact on them" if q is None else "graph too large for the SAT encoding"
+    stats["auto"] = {"choice": "bnb", "reason": reason, "chain": chain, "notes": why}
     return _Part(ub if out.optimal else lb, ub, order, stats, "bnb")
 
 

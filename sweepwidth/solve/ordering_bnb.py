@@ -68,28 +68,37 @@ def _twin_classes(problem: OrderingProblem) -> np.ndarray:
     and have equal weighted neighbourhoods apart from each other.  Pinned
     vertices are never twins.
     """
-    adj = problem.neighbours()
     n = problem.n
     rep = np.arange(n)
+    indptr, indices, wts = problem.csr()
     pinned = problem.first | problem.last
+    ilist, wlist = indices.tolist(), wts.tolist()
+    rows = []
+    for v in range(n):
+        lo, hi = int(indptr[v]), int(indptr[v + 1])
+        rows.append(dict(zip(ilist[lo:hi], wlist[lo:hi])))
     open_key: dict = {}
     closed_key: dict = {}
     for v in range(n):
         if v in pinned:
             continue
-        ok = tuple(sorted(adj[v].items()))
+        row = rows[v]
+        ok = tuple(sorted(row.items()))
         if ok in open_key:
             rep[v] = open_key[ok]
             continue
         open_key[ok] = v
-        # closed: the neighbourhood with v itself added, weights of the rest
-        for u, w in adj[v].items():
-            if u < v and rep[u] == u and u not in pinned:
-                a_ = {x: y for x, y in adj[u].items() if x != v}
-                b_ = {x: y for x, y in adj[v].items() if x != u}
-                if a_ == b_:
-                    rep[v] = u
-                    break
+        # closed twins u < v: N[u] - {v} = N[v] - {u} with equal weights; group by
+        # the closed neighbourhood's vertex set and weight multiset
+        ck = (tuple(sorted(set(row) | {v})), tuple(sorted(row.values())))
+        u = closed_key.get(ck)
+        if u is not None and v in rows[u]:
+            a_ = {x: y for x, y in rows[u].items() if x != v}
+            b_ = {x: y for x, y in row.items() if x != u}
+            if a_ == b_:
+                rep[v] = u
+                continue
+        closed_key.setdefault(ck, v)
     return rep
 
 
@@ -170,7 +179,7 @@ def solve_bnb(
     indptr, indices, wts = problem.csr()
     nbr = [indices[indptr[v] : indptr[v + 1]] for v in range(n)]
     nbw = [wts[indptr[v] : indptr[v + 1]] for v in range(n)]
-    rep = _twin_classes(problem)
+    rep = _twin_classes(problem) if n <= 20000 else np.arange(n)
     has_twins = bool(np.any(rep != np.arange(n)))
     full = (1 << n) - 1
     goal = full if b is None else full ^ (1 << b)
@@ -198,6 +207,7 @@ def solve_bnb(
         lb = max(lb, float(deg[a]))
 
     compiled = _kernels.HAVE_NUMBA and not force_python
+    rep64 = rep.astype(np.int64)
     stats["engine"] = "compiled" if compiled else "python"
     while compiled and best > lb + tol:
         k = lb
@@ -211,17 +221,23 @@ def solve_bnb(
         stored = np.zeros(1, dtype=np.int64)
         rejected = np.inf
         status = -1
-        budget = 200_000
+        # a node costs O(n): size the slices so that one lasts well under a second
+        budget = max(200, int(2e6 // (n + 10)))
         while status == -1:
             if deadline is not None and time.monotonic() > deadline:
                 break
+            t_call = time.monotonic()
             status, order_arr, rej, nodes = _kernels.prefix_search(
                 n, indptr, indices, wts, deg, -1 if a is None else a, -1 if b is None else b,
-                float(k), tol, rep.astype(np.int64), table, used, stored, budget,
+                float(k), tol, rep64, table, used, stored, budget,
             )
+            spent = time.monotonic() - t_call
             counter[0] += int(nodes)
             rejected = min(rejected, float(rej))
-            budget = min(budget * 2, 5_000_000)
+            if spent < 0.1:
+                budget = min(budget * 2, 20_000_000)
+            elif spent > 0.4:
+                budget = max(100, budget // 2)
         stats["remembered"] += int(stored[0])
         if status == -1:
             stats["stopped"] = "time limit"

@@ -332,30 +332,41 @@ def heuristic_ordering(
     if n <= 1:
         return 0.0, list(range(n)), {"construction": "trivial"}
     rng = np.random.default_rng(seed)
+
+    def late(margin: float = 0.0) -> bool:
+        return deadline is not None and time.monotonic() > deadline - margin
+
     cands: list[tuple[str, list[int]]] = [("identity", _pin(problem, list(range(n))))]
     pts: list[int] = []
     if problem.first:
         pts.append(next(iter(problem.first)))
     if problem.last:
         pts.append(next(iter(problem.last)))
-    pts += [p for p in _spread_points(problem, effort, rng) if p not in pts]
-    for p in pts[: effort + 2]:
-        cands.append((f"levels from {p}", level_ordering(problem, p)))
+    if not late():
+        pts += [p for p in _spread_points(problem, effort, rng) if p not in pts]
     pairs = [(p, q) for i, p in enumerate(pts) for q in pts[i + 1 :]]
     if problem.first or problem.last:
         pairs = [pr for pr in pairs if not (pr[0] in problem.last or pr[1] in problem.first)]
         if problem.first and problem.last:
             pairs.insert(0, (next(iter(problem.first)), next(iter(problem.last))))
     for p, q in pairs[: 3 * effort]:
+        if late():
+            break
         cands.append((f"two sources {p},{q}", two_source_ordering(problem, p, q)))
         cands.append((f"two sources {q},{p}", two_source_ordering(problem, q, p)))
-    if n <= 50000 and (deadline is None or deadline - time.monotonic() > 2.0):
+    for p in pts[: effort + 2]:
+        if late():
+            break
+        cands.append((f"levels from {p}", level_ordering(problem, p)))
+    if n <= 20000 and not late(margin=1.0 + n / 10000.0):
         for i, o in enumerate(spectral_orderings(problem)):
             cands.append((f"spectral {i}", o))
     scored = sorted(((problem.width(o), i, name, o) for i, (name, o) in enumerate(cands)), key=lambda t: (t[0], t[1]))
     best_w, _, best_name, best = scored[0]
     # greedy growth with the best few constructions as tie-breakers
     for w0, _, name, o in scored[:3]:
+        if late():
+            break
         g = greedy_ordering(problem, o)
         wg = problem.width(g)
         if wg < best_w:
