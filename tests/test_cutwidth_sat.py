@@ -44,16 +44,27 @@ def nx_width(G: nx.Graph, order: list, weight: str = "weight", nfirst: int = 0, 
     return best
 
 
-def subset_cutwidth(G: nx.Graph) -> float:
-    """Exhaustive search over prefix sets (no pins): f(S) = max(cut(S), min_v f(S - v))."""
+def subset_cutwidth(G: nx.Graph, first=None) -> float:
+    """Exhaustive search over prefix sets: f(S) = max(cut(S), min_v f(S - v)).
+
+    With ``first`` (one vertex) only prefixes containing it exist.
+    """
     nodes = list(G)
     idx = {v: i for i, v in enumerate(nodes)}
     edges = [(idx[u], idx[v], d.get("weight", 1)) for u, v, d in G.edges(data=True) if u != v]
     n = len(nodes)
-    f = [0.0] * (1 << n)
+    INF = math.inf
+    a = None if first is None else idx[first]
+    f = [INF] * (1 << n)
+    f[0] = 0.0
     for S in range(1, 1 << n):
-        cut = sum(w for a, b, w in edges if ((S >> a) & 1) != ((S >> b) & 1))
-        f[S] = max(cut, min(f[S & ~(1 << v)] for v in range(n) if (S >> v) & 1))
+        if a is not None and not (S >> a) & 1:
+            continue
+        cut = sum(w for x, y, w in edges if ((S >> x) & 1) != ((S >> y) & 1))
+        if a is not None and S == 1 << a:
+            f[S] = cut
+            continue
+        f[S] = max(cut, min(f[S & ~(1 << v)] for v in range(n) if (S >> v) & 1 and v != a))
     return f[(1 << n) - 1]
 
 
@@ -226,6 +237,31 @@ def test_complete_binary_tree():
     G = nx.balanced_tree(2, 4)
     P, out = solve_graph(G)
     assert out.optimal and out.upper == 3
+    assert_valid(G, P, out)
+
+
+@pytest.mark.parametrize(
+    "name,G",
+    [
+        ("petersen", nx.petersen_graph()),
+        ("K_3,3", nx.complete_bipartite_graph(3, 3)),
+        ("prism 5", nx.circular_ladder_graph(5)),
+        ("cube + pendant", nx.hypercube_graph(3)),
+        ("K_4 x K_2", nx.cartesian_product(nx.complete_graph(4), nx.path_graph(2))),
+    ],
+)
+def test_symmetric_graphs_against_exhaustive_search(name, G):
+    # symmetry breaking (orbits, stabilisers, reversal) must not lose the optimum
+    if name == "cube + pendant":
+        G = nx.Graph(G)
+        G.add_edge((0, 0, 0), "tail")
+    P, out = solve_graph(G)
+    assert out.optimal and out.upper == subset_cutwidth(G)
+    assert_valid(G, P, out)
+    # with a pinned first vertex only the stabiliser of that vertex is used
+    v = next(iter(G))
+    P, out = solve_graph(G, first=[v])
+    assert out.optimal and out.upper == subset_cutwidth(G, first=v)
     assert_valid(G, P, out)
 
 

@@ -197,8 +197,11 @@ def greedy_order(problem: OrderingProblem) -> list[int]:
 # automorphism orbits (for symmetry breaking)
 
 
-def _orbits(problem: OrderingProblem, time_budget: float = 0.5) -> list[int]:
+def _orbits(problem: OrderingProblem, time_budget: float = 0.5, fixed: Sequence[int] = ()) -> list[int]:
     """``rep[v]`` = least vertex known to share v's orbit under pin-preserving automorphisms.
+
+    With ``fixed``, only automorphisms fixing each of those vertices count
+    (the stabiliser); the fixed vertices are their own orbits.
 
     Automorphisms are searched with VF2 (networkx) one target at a time, so
     the result is exact when the budget suffices and otherwise a refinement
@@ -218,11 +221,13 @@ def _orbits(problem: OrderingProblem, time_budget: float = 0.5) -> list[int]:
         cls[v] = 1
     for v in problem.last:
         cls[v] = 2
+    for j, v in enumerate(fixed):
+        cls[v] = 3 + j
     for v in range(n):
         G.add_node(v, c=cls[v], mark=0)
     for (u, v), w in zip(problem.edges.tolist(), problem.weights.tolist()):
         G.add_edge(u, v, w=w)
-    # invariant: pin class, weighted degree and the histogram of BFS distances
+    # invariant: pin class, weighted degree, the histogram of BFS distances, distances to `fixed`
     adj = problem.neighbours()
     deg = [round(sum(a.values()), 9) for a in adj]
     dist = dict(nx.all_pairs_shortest_path_length(G)) if n <= 400 else {}
@@ -231,7 +236,8 @@ def _orbits(problem: OrderingProblem, time_budget: float = 0.5) -> list[int]:
         hist: dict[int, int] = {}
         for d in dist.get(v, {}).values():
             hist[d] = hist.get(d, 0) + 1
-        inv.append((cls[v], deg[v], tuple(sorted(deg[u] for u in adj[v])), tuple(sorted(hist.items()))))
+        to_fixed = tuple(dist.get(f, {}).get(v, -1) for f in fixed)
+        inv.append((cls[v], deg[v], tuple(sorted(deg[u] for u in adj[v])), tuple(sorted(hist.items())), to_fixed))
 
     def find(v: int) -> int:
         while rep[v] != v:
@@ -475,6 +481,12 @@ class _Formula:
         n = self.n
         cap = self.kmax + 1
         edges = self.problem.edges.tolist()
+        eorder = list(range(len(edges)))
+        exact_c = bool(self.extra.get("exact_c", False))
+        hint = self.extra.get("hint")
+        if hint is not None and self.extra.get("edge_order", "index") == "hint":
+            pos = {v: j for j, v in enumerate(hint)}
+            eorder.sort(key=lambda e: (min(pos[edges[e][0]], pos[edges[e][1]]), max(pos[edges[e][0]], pos[edges[e][1]])))
         # counted cuts: after |first|, ..., n - |last| vertices (levels 0 and n cut nothing)
         lo_level = max(1, len(self.problem.first))
         hi_level = min(n - 1, n - len(self.problem.last))
@@ -482,7 +494,8 @@ class _Formula:
             self.tick()
             items: list[tuple[int, int]] = []  # (literal, weight)
             fixed = 0
-            for e, (u, v) in enumerate(edges):
+            for e in eorder:
+                u, v = edges[e]
                 if w[e] == 0:
                     continue
                 xu, xv = self.x[u][i], self.x[v][i]
@@ -494,6 +507,9 @@ class _Formula:
                 c = self._new()
                 self.add([self.neg(xu), xv, c])
                 self.add([self.neg(xv), xu, c])
+                if exact_c:
+                    self.add([-c, xu, xv])
+                    self.add([-c, self.neg(xu), self.neg(xv)])
                 items.append((c, w[e]))
             self.fixed_cut[i] = fixed
             self.ge[i] = self._counter(items, cap - fixed, counter) if cap - fixed > 0 else None
@@ -534,19 +550,44 @@ class _Formula:
         return prev
 
     def _symmetry(self) -> None:
-        """First vertex: one per orbit; no pins: orbit rank of first <= that of last."""
+        """Break automorphisms (preserving the pins) and, without pins, the reversal.
+
+        Let q be the first position of a free (unpinned) vertex.  Any
+        automorphism maps an ordering to one of the same width, so the vertex
+        at q can be taken as the least vertex of its orbit, and then the
+        vertex at q + 1 as the least of its orbit under the automorphisms
+        fixing the vertex at q.  Without pins an ordering and its reverse
+        have the same width, so the orbit of the first vertex can be taken of
+        rank at most that of the last (orbits are invariant under the
+        automorphisms, so the three choices are compatible).
+        """
         p = self.problem
-        budget = 0.5 if self.deadline is None else max(0.0, min(0.5, 0.1 * (self.deadline - time.monotonic())))
-        rep = _orbits(p, budget)
         n = self.n
-        reps = sorted(set(rep))
-        self.n_orbits = len(reps)
-        for v in range(n):
-            if rep[v] != v and self.x[v][1] is not True:
-                self.add([self.neg(self.x[v][1])])
+        left = lambda: 0.5 if self.deadline is None else max(0.0, min(0.5, 0.1 * (self.deadline - time.monotonic())))  # noqa: E731
+        rep = _orbits(p, left())
+        free = [v for v in range(n) if v not in p.first and v not in p.last]
+        q = len(p.first) + 1
+        reps = sorted(set(rep[v] for v in free))
+        self.n_orbits = len(set(rep))
+        if not free:
+            return
+        for v in free:
+            if rep[v] != v:
+                self.add([self.neg(self.x[v][q])])  # v is not at position q
+        if q + 1 <= n - len(p.last) and len(free) >= 2:
+            t_end = time.monotonic() + 2 * left()
+            for r in reps:
+                budget = t_end - time.monotonic()
+                if budget <= 0:
+                    break
+                rep2 = _orbits(p, budget, fixed=(r,))
+                for v in free:
+                    if v != r and rep2[v] != v:
+                        # r at q and v at q + 1 cannot both hold
+                        self.add([self.neg(self.x[r][q]), self.neg(self.x[v][q + 1])])
         if p.first or p.last or n < 2:
             return
-        rank = {r: k for k, r in enumerate(reps)}
+        rank = {r: k for k, r in enumerate(sorted(set(rep)))}
         # last in orbit of rank b  ->  first has rank <= b
         for v in range(n):
             b = rank[rep[v]]
@@ -741,7 +782,7 @@ def solve_sat(
             symmetry=opts["symmetry"],
             counter=opts["counter"],
             counts=opts["counts"],
-            extra=options.get("_extra"),
+            extra={"hint": hint, **(options.get("_extra") or {})},
             deadline=deadline,
         )
     except _OutOfTime:
