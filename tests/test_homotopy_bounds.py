@@ -28,7 +28,7 @@ from sweepwidth.generators import cycle_with_chords, delaunay, fan, grid, triang
 from sweepwidth.problems.homotopy import HomotopyProblem
 from sweepwidth.solve.homotopy import homotopy_bounds, homotopy_height
 
-from reference_homotopy import reference_height
+from reference_homotopy import legal_moves, reference_height
 from strategies import plane_graphs, triangulated_disks
 
 TINY = plane_graphs(min_vertices=2, max_vertices=5)
@@ -107,6 +107,36 @@ def test_open_paths(P, seed):
     rv = homotopy_height(P, s=s, t=t, method="bounds", length="vertices")
     assert rv.check(P) == rv.upper
     assert rv.lower <= _ref(P, rv.upper, s=s, t=t, length="vertices") <= rv.upper
+
+
+@settings(max_examples=30, deadline=None)
+@given(plane_graphs(min_vertices=3, max_vertices=6), st.integers(0, 10**6), st.booleans())
+def test_interior_starts(P, seed, to_boundary):
+    """Starts reached by random legal moves (so contractible), to a point or to the outer boundary."""
+    rng = random.Random(seed)
+    H = HomotopyProblem.build(P)
+    walk, vertex = tuple(H.start.darts), H.start.vertex
+    for _ in range(rng.randrange(1, 6)):
+        opts = [m for m in legal_moves(H, walk, vertex) if len(m[1]) <= len(H.start.darts) + 3]
+        if not opts:
+            break
+        _, walk, vertex = rng.choice(opts)
+    start = {"vertex": P.label(vertex), "darts": list(walk)}
+    end = {"darts": list(H.start.darts)} if (to_boundary and H.start.darts) else None
+    r = homotopy_height(P, start=start, end=end, method="bounds")
+    assert r.upper is not None and r.check(P) == r.upper
+    ref = reference_height(HomotopyProblem.build(P, start=start, end=end), r.upper)[0]
+    assert ref is not None and r.lower <= ref <= r.upper
+
+
+def test_point_start_grows_to_the_boundary():
+    # regression: a point start had no face run to flip; the sweep now inserts a face loop
+    P = cycle_with_chords(3, 0, seed=0)
+    outer = P.face_darts(P.outer_face)
+    far = P.label(next(i for i in range(3) if i != P.tail_index(outer[0])))
+    r = homotopy_height(P, start={"vertex": far, "darts": []}, end={"darts": outer}, method="bounds")
+    assert r.status == "optimal" and r.value == 3  # the end has length 3 (CHECKS.md: height >= end length)
+    assert r.check(P) == 3
 
 
 def test_curve_to_curve_and_point_end():

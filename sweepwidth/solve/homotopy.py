@@ -592,7 +592,29 @@ class _Sweeper:
                     chosen = (r, mv, nw)
                     break
             if chosen is None:
-                return None
+                if simple:
+                    return None
+                ins = self._insertion(W, c, rank)
+                if ins is None:
+                    return None
+                ins_moves, f, right = ins
+                for m_ in ins_moves:
+                    W = apply_move(H, W, m_, check=False)
+                    moves.append(m_)
+                    height = max(height, self.length(W.darts))
+                c[f] += 1 if right else -1
+                if c[f] == 0:
+                    remaining -= 1
+                if use_unspikes and W.darts:
+                    darts, vtx = self.cancel(W.darts, moves, None)
+                    W = Curve(darts, H.tail[darts[0]] if darts else vtx)
+                total = sum(cost[d] for d in W.darts)
+                fast = len(set(W.darts)) == len(W.darts)
+                if fast:
+                    nxt = successor_map(W.darts)
+                    heap.clear()
+                    push_darts(W.darts)
+                continue
             r, mv, nw = chosen
             old = W.darts
             L = len(old)
@@ -620,6 +642,90 @@ class _Sweeper:
                     nxt = successor_map(W.darts)
                     push_darts(touched)
         return W, moves, height
+
+    def _insertion(self, W: Curve, c: list[int], rank: Sequence[float]) -> tuple[list, int, bool] | None:
+        """No run to flip: insert a whole face boundary as a loop (after carrying a point to it).
+
+        The loop goes round a face f with ``c_f != 0`` in the orientation that
+        moves ``c_f`` towards 0; on a nonempty walk it is inserted only at a
+        visit of a vertex of f whose corner on the correct side contains f.
+        Returns (moves, face, right) or None.
+        """
+        H = self.H
+        P = H.graph
+        faces = sorted((f for f, v in enumerate(c) if v != 0 and f not in H.holes), key=lambda f: rank[f])
+        if not faces:
+            return None
+
+        def loop_at(f: int, v: int) -> list[int] | None:
+            B = H.face_walks[f]
+            O = list(B) if c[f] < 0 else [d ^ 1 for d in reversed(B)]
+            k = next((i for i, d in enumerate(O) if H.tail[d] == v), None)
+            return None if k is None else O[k:] + O[:k]
+
+        if not W.darts:
+            # carry the point to the nearest vertex of such a face
+            want: dict[int, int] = {}
+            for f in faces:
+                for d in H.face_walks[f]:
+                    want.setdefault(H.tail[d], f)
+            dist = {W.vertex: 0.0}
+            heap = [(0.0, W.vertex)]
+            target = None
+            while heap:
+                dd, a = heapq.heappop(heap)
+                if dd > dist.get(a, math.inf):
+                    continue
+                if a in want:
+                    target = a
+                    break
+                for d in P.darts_at(P.label(a)):
+                    b = H.head[d]
+                    nd = dd + H.cost[d]
+                    if nd < dist.get(b, math.inf):
+                        dist[b] = nd
+                        heapq.heappush(heap, (nd, b))
+            if target is None:
+                return None
+            moves = _transport(H, W.vertex, target)
+            if moves is None:
+                return None
+            f = want[target]
+            q = loop_at(f, target)
+            moves.append({"op": "flip", "face": f, "pos": 0, "take": 0, "put": q})
+            return moves, f, c[f] < 0
+        w = W.darts
+        L = len(w)
+        for f in faces:
+            need_right = c[f] < 0
+            on_f = {H.tail[d] for d in H.face_walks[f]}
+            for i in range(L):
+                v = H.tail[w[i]]
+                if v not in on_f:
+                    continue
+                if H.closed or i > 0:
+                    right_faces = self._right_corners(w[i - 1], w[i])
+                    if (f in right_faces) != need_right:
+                        continue
+                q = loop_at(f, v)
+                if q is not None:
+                    return [{"op": "flip", "face": f, "pos": i, "take": 0, "put": q}], f, need_right
+        return None
+
+    def _right_corners(self, a: int, b: int) -> set[int]:
+        """Faces in the corners on the right of the walk ``a, b`` at ``head(a) = tail(b)``."""
+        P = self.H.graph
+        df = self.H.dart_face
+        out: set[int] = set()
+        y = b
+        stop = a ^ 1
+        for _ in range(len(self.H.tail)):
+            z = P.prev_dart(y)
+            out.add(df[z])
+            if z == stop:
+                break
+            y = z
+        return out
 
     def _len(self, total: float, ndarts: int) -> float:
         if self.H.length == "vertices":
