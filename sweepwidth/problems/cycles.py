@@ -257,6 +257,8 @@ def cycle_edges(
         return walk_cycle(P, list(spec.darts), vertex=getattr(spec, "vertex", None), what=what, closed=closed)
     if isinstance(spec, (set, frozenset)):
         return _edge_ids(P, spec, what)
+    if type(spec).__name__ == "ndarray" and hasattr(spec, "tolist"):
+        spec = spec.tolist()
     if isinstance(spec, (list, tuple)):
         items = list(spec)
         if not items:
@@ -313,7 +315,15 @@ def check_even(P: Any, edges: Iterable[int], *, what: str = "curve") -> None:
 
 
 def cycle_weight(P: Any, edges: Iterable[int]) -> float:
-    """Total weight of a set of edge ids."""
+    """Total weight of a set of edge ids (the length of a Z2 cycle).
+
+    Examples
+    --------
+    >>> from sweepwidth import generators
+    >>> P = generators.grid(2, 3)
+    >>> cycle_weight(P, P.face_boundary_cycle(P.outer_face))
+    6.0
+    """
     return float(sum(P.weight(e) for e in edges))
 
 
@@ -324,6 +334,13 @@ def parse_holes(P: Any, holes: Any) -> frozenset[int]:
     ------
     SweepwidthError
         A face id that does not exist.
+
+    Examples
+    --------
+    >>> from sweepwidth import generators
+    >>> P = generators.grid(2, 3)
+    >>> parse_holes(P, None) == {P.outer_face}, parse_holes(P, ()), sorted(parse_holes(P, 0))
+    (True, frozenset(), [0])
     """
     if holes is None:
         return frozenset({P.outer_face})
