@@ -348,7 +348,7 @@ def sat_call(
         raise UnsupportedOptionError(
             "solver for a time-limited SAT call", name, sorted(BUDGET_SOLVERS)
         )
-    budget = 2000
+    budget = 300  # first slice: small, the conflict rate is not known yet
     rate: float | None = None  # conflicts per second
     while True:
         left = deadline - time.monotonic()

@@ -1,5 +1,10 @@
 """SAT encoding of "cutwidth <= k", built once and tightened incrementally.
 
+The width of an ordering is its heaviest counted cut (with pins, only the
+prefixes of sizes ``|first| .. n - |last|`` count, see
+:mod:`sweepwidth.problems.ordering`); :func:`solve_sat` finds an ordering of
+least width, or proven bounds when its deadline comes first.
+
 Model
 -----
 An ordering is described by its chain of prefixes: ``x[v][i]`` is true when
@@ -8,29 +13,35 @@ and level n is everything).  Clauses:
 
 * monotone chain: ``x[v][i] -> x[v][i+1]``;
 * one vertex enters per step: ``p[v][i] <- x[v][i] & ~x[v][i-1]`` with an
-  at-most-one (ladder) over ``p[.][i]`` for every step, plus the redundant
-  at-least-one.  With n steps and n vertices this makes ``|prefix i| = i``;
+  at-most-one (ladder) over ``p[.][i]`` and the at-least-one, for every step.
+  With n steps and n vertices this makes ``|prefix i| = i``;
+* level counts (redundant): "exactly i of the ``x[.][i]``" as a two-sided
+  totalizer at the levels of the middle half (option ``counts``).  Without
+  them the solver has to rediscover pigeonhole arguments ("more than i
+  vertices before position i") by resolution, which it cannot do cheaply;
+  this is the idea that buys most (table below);
 * crossing indicators only as implications, ``x[u][i] & ~x[v][i] -> c[e][i]``
   (and the mirror), which is all an upper bound on the cut needs;
-* per level a weighted sequential counter over the ``c[.][i]`` with outputs
-  ``ge[i][t]`` = "the cut at level i weighs at least t", for t up to the
-  largest bound that will ever be asked (upper - 1).  "width <= k" is the set
-  of literals ``~ge[i][k+1]``: asked as assumptions (upward search) or added
-  as units once a better ordering is known (downward search).  The formula is
+* per counted level a totalizer (python-sat's C++ one; a weight w is w copies
+  of the indicator) or a weighted sequential counter over the ``c[.][i]``,
+  with outputs "the cut at level i weighs more than t" for t up to the
+  largest bound ever asked (upper - 1).  "width <= k" is the set of negated
+  outputs at t = k: added as units once an ordering of width k + 1 is known
+  (downward search, the default) or assumed (upward search).  The formula is
   never rebuilt.
 
-Pins (``problem.first`` / ``problem.last``) fix position windows, so many
-``x`` are constants and many edges can never be cut at a level; both are
-dropped from the formula.  Symmetry breaking: the first vertex is restricted
-to one representative per orbit of the automorphisms found (preserving the
-pins), and without pins the reversal symmetry is broken by requiring the
-orbit rank of the first vertex to be at most that of the last.
+Pins fix position windows, so many ``x`` are constants and many crossings
+cannot happen at a level; both are folded away.  Symmetry breaking (option
+``symmetry``): automorphisms preserving the pins are found with VF2, the
+vertex at the first free position is restricted to orbit representatives,
+the next one to representatives of the orbits of the stabiliser of the
+first, and without pins the reversal is broken by orbit ranks of the first
+and last vertex.  Phases are set from the best ordering known.
 
 What the ideas bought
 ---------------------
-See ``benchmarks/cutwidth.py --ablation``; numbers from the development
-machine (CaDiCaL 1.9.5, seconds to prove optimality, heuristic upper bound
-given) are kept in :data:`ABLATION_NOTES`.
+Measured with ``benchmarks/cutwidth.py --ablation`` (heuristic upper bound
+given, proving optimality; see :data:`ABLATION_NOTES`).
 
 References
 ----------
@@ -38,7 +49,13 @@ References
    constraints", CP 2005, LNCS 3709 (sequential counter).
 .. [2] O. Bailleux and Y. Boufkhad, "Efficient CNF encoding of Boolean
    cardinality constraints", CP 2003, LNCS 2833 (totalizer).
-.. [3] J. Rolim, O. Sykora and I. Vrto, "Optimal cutwidths and bisection
+.. [3] L. P. Cordella, P. Foggia, C. Sansone and M. Vento, "A (sub)graph
+   isomorphism algorithm for matching large graphs", IEEE TPAMI 26(10), 2004
+   (VF2, used through networkx for the automorphisms).
+.. [4] J. Crawford, M. Ginsberg, E. Luks and A. Roy, "Symmetry-breaking
+   predicates for search problems", KR 1996 (why fixing orbit
+   representatives is sound).
+.. [5] J. Rolim, O. Sykora and I. Vrto, "Optimal cutwidths and bisection
    widths of 2- and 3-dimensional meshes", WG 1995, LNCS 1017 (the grid
    values used in the tests).
 """
@@ -197,7 +214,9 @@ def greedy_order(problem: OrderingProblem) -> list[int]:
 # automorphism orbits (for symmetry breaking)
 
 
-def _orbits(problem: OrderingProblem, time_budget: float = 0.5, fixed: Sequence[int] = ()) -> list[int]:
+def _orbits(
+    problem: OrderingProblem, time_budget: float = 0.5, fixed: Sequence[int] = (), cache: dict | None = None
+) -> list[int]:
     """``rep[v]`` = least vertex known to share v's orbit under pin-preserving automorphisms.
 
     With ``fixed``, only automorphisms fixing each of those vertices count
@@ -206,7 +225,8 @@ def _orbits(problem: OrderingProblem, time_budget: float = 0.5, fixed: Sequence[
     Automorphisms are searched with VF2 (networkx) one target at a time, so
     the result is exact when the budget suffices and otherwise a refinement
     of the true orbits (still sound for symmetry breaking: only automorphisms
-    actually found are used).
+    actually found are used).  ``cache`` (a dict) keeps the distance table
+    between calls on the same problem.
     """
     import networkx as nx
     from networkx.algorithms.isomorphism import GraphMatcher
@@ -230,7 +250,12 @@ def _orbits(problem: OrderingProblem, time_budget: float = 0.5, fixed: Sequence[
     # invariant: pin class, weighted degree, the histogram of BFS distances, distances to `fixed`
     adj = problem.neighbours()
     deg = [round(sum(a.values()), 9) for a in adj]
-    dist = dict(nx.all_pairs_shortest_path_length(G)) if n <= 400 else {}
+    if cache is not None and "dist" in cache:
+        dist = cache["dist"]
+    else:
+        dist = dict(nx.all_pairs_shortest_path_length(G))
+        if cache is not None:
+            cache["dist"] = dist
     inv = []
     for v in range(n):
         hist: dict[int, int] = {}
@@ -325,7 +350,6 @@ class _Formula:
         if counts != "none":
             self._level_cards(counts)
         self.ge: list[list[int] | None] = [None] * (n + 1)  # ge[i][t], t = 1..kmax+1
-        self.always_over: list[int] = []  # levels whose cut is forced above some t (constants)
         w = _int_weights(problem)
         self.fixed_cut = [0] * (n + 1)
         self._cuts(w, counter)
@@ -564,7 +588,8 @@ class _Formula:
         p = self.problem
         n = self.n
         left = lambda: 0.5 if self.deadline is None else max(0.0, min(0.5, 0.1 * (self.deadline - time.monotonic())))  # noqa: E731
-        rep = _orbits(p, left())
+        cache: dict = {}
+        rep = _orbits(p, left(), cache=cache)
         free = [v for v in range(n) if v not in p.first and v not in p.last]
         q = len(p.first) + 1
         reps = sorted(set(rep[v] for v in free))
@@ -580,7 +605,7 @@ class _Formula:
                 budget = t_end - time.monotonic()
                 if budget <= 0:
                     break
-                rep2 = _orbits(p, budget, fixed=(r,))
+                rep2 = _orbits(p, budget, fixed=(r,), cache=cache)
                 for v in free:
                     if v != r and rep2[v] != v:
                         # r at q and v at q + 1 cannot both hold
@@ -697,12 +722,17 @@ def solve_sat(
     progress : callable, optional
         Called with a :class:`SatOutcome` after each improvement.
     **options
-        ``direction`` ('down': ask upper-1, then below each new ordering, so
-        one UNSAT answer ends the search; 'up': ask lower, lower+1, ...),
-        ``symmetry`` (bool), ``phases`` (bool), ``counter`` ('seq' sequential
-        counter or 'tot' totalizer, unweighted only), ``hard_deadline``
-        (True: run in a child process killed at the deadline, for solvers or
-        encodings where a conflict slice could overrun).
+        ``direction`` ('down', default: ask upper-1, then below each new
+        ordering, so one UNSAT answer ends the search; 'up': ask lower,
+        lower+1, ...), ``symmetry`` (bool, default True), ``phases`` (bool,
+        default True), ``counter`` ('itot' totalizer, default, or 'seq'
+        weighted sequential counter), ``counts`` ('band' default, 'all',
+        'none': where the redundant level counts go), ``hard_deadline``
+        (default False; True runs the search in a child process killed at
+        the deadline, for solvers or encodings where a conflict slice could
+        overrun).  ``_extra`` (dict) holds experimental switches for the
+        benchmarks (``edge_order``: 'index' or 'hint'; ``exact_c``: also
+        ``c -> x[u] xor x[v]``).
 
     Returns
     -------
@@ -878,7 +908,17 @@ def _isolated_body(problem: OrderingProblem, kw: dict, *, progress: Callable) ->
     return solve_sat(problem, progress=progress, **kw)
 
 
-def _solve_isolated(problem, lower, upper, upper_order, deadline, solver, progress, opts) -> SatOutcome:
+def _solve_isolated(
+    problem: OrderingProblem,
+    lower: int,
+    upper: int | None,
+    upper_order: list[int] | None,
+    deadline: float,
+    solver: str,
+    progress: Callable[[SatOutcome], None] | None,
+    opts: dict,
+) -> SatOutcome:
+    """``solve_sat`` in a child process killed at the deadline; the last report survives."""
     kw = dict(lower=lower, upper=upper, upper_order=upper_order, deadline=deadline, solver=solver)
     kw.update({k: v for k, v in opts.items() if k != "hard_deadline"})
     finished, value, reports = run_limited(_isolated_body, (problem, kw), deadline=deadline + 0.3, on_progress=progress)
@@ -888,8 +928,9 @@ def _solve_isolated(problem, lower, upper, upper_order, deadline, solver, progre
         out = reports[-1]
         out.stats["killed"] = True
         return out
-    if upper_order is None:
-        upper_order = greedy_order(problem)
-        w = int(round(problem.width(upper_order)))
-        upper = w if upper is None else min(upper, w)
-    return SatOutcome(int(lower), int(upper), upper_order, False, {"solver": solver, "killed": True, "calls": []})
+    hint = list(upper_order) if upper_order is not None else greedy_order(problem)
+    w = int(round(problem.width(hint)))
+    order: list[int] | None = hint
+    if upper is not None and int(upper) < w:
+        order, w = None, int(upper)
+    return SatOutcome(int(lower), w, order, int(lower) >= w, {"solver": solver, "killed": True, "calls": []})
