@@ -389,3 +389,28 @@ def test_path_result_survives_json_round_trip():
     back = sw.Result.from_dict(__import__("json").loads(r.to_json()))
     assert back.check(P) == r.upper
     assert back.stats["options"]["closed"] is False
+
+
+@settings(max_examples=25, deadline=None)
+@given(plane_graphs(min_vertices=4, max_vertices=7, kinds=("delaunay", "chords")), st.integers(0, 10**6))
+def test_curves_reached_by_moves_are_homotopic(P, seed):
+    """With one or two extra holes, an end reached from the start by legal moves (reference
+    enumeration) is in the start's class: never 'infeasible'; a witness found replays."""
+    rng = random.Random(seed)
+    inner = [f for f in P.faces if f != P.outer_face]
+    if len(inner) < 2:
+        return
+    holes = {P.outer_face} | set(rng.sample(inner, rng.randint(1, min(2, len(inner) - 1))))
+    H = HomotopyProblem.build(P, holes=holes)
+    walk, vertex = tuple(H.start.darts), H.start.vertex
+    for _ in range(rng.randrange(1, 8)):
+        opts = [m for m in legal_moves(H, walk, vertex) if len(m[1]) <= len(H.start.darts) + 3]
+        if not opts:
+            break
+        _, walk, vertex = rng.choice(opts)
+    end = {"vertex": P.label(vertex), "darts": list(walk)}
+    assert homotopy_classes_equal(HomotopyProblem.build(P, end=end, holes=holes))[0]
+    r = homotopy_height(P, end=end, holes=holes, method="bounds")
+    assert r.status != "infeasible"
+    if r.upper is not None:
+        assert r.check(P) == r.upper
