@@ -72,8 +72,8 @@ def table_exact(quick):
     if not quick:
         cases.append(("delaunay-12 boundary", generators.delaunay(12, seed=8)))
     for name, P in cases:
-        rd, td = _timed(lambda: sw.homology_width(P, method="subset-dp"), 3)
-        rc, tc = _timed(lambda: sw.homology_width(P, method="cutwidth"), 1)
+        rd, td = _timed(lambda P=P: sw.homology_width(P, method="subset-dp"), 3)
+        rc, tc = _timed(lambda P=P: sw.homology_width(P, method="cutwidth"), 1)
         rd.check(P)
         rc.check(P)
         same = "ok" if rd.value == rc.value else "DIFFER"
@@ -90,9 +90,9 @@ def table_goal(quick):
     if quick:
         cases = cases[:1] + [("delaunay-60", generators.delaunay(60, seed=5))]
     for name, P in cases:
-        r, t = _timed(lambda: sw.homology_width(P, time_limit=limit, seed=0))
+        r, t = _timed(lambda P=P: sw.homology_width(P, time_limit=limit, seed=0))
         r.check(P)
-        b, tb = _timed(lambda: sw.cutwidth(P.dual(), first=P.outer_face, time_limit=limit, seed=0))
+        b, tb = _timed(lambda P=P: sw.cutwidth(P.dual(), first=P.outer_face, time_limit=limit, seed=0))
         _line(name, len(_inner(P)), r.method, r.status, r.lower, r.upper, round(t, 2), "")
         _line("", "", "dual cw", b.status, b.lower, b.upper, round(tb, 2), f"{tb / max(t, 1e-6):.2f}x")
         print(f"    bounds: {r.stats.get('bounds')}")
@@ -110,8 +110,8 @@ def table_non_monotone(quick):
         cases.append(("grid-4x5", generators.grid(4, 5)))
         cases.append(("delaunay-11", generators.delaunay(11, seed=4)))
     for name, P in cases:
-        rm, tm = _timed(lambda: sw.homology_width(P, method="subset-dp"), 3)
-        rn, tn = _timed(lambda: sw.homology_width(P, monotone=False), 3)
+        rm, tm = _timed(lambda P=P: sw.homology_width(P, method="subset-dp"), 3)
+        rn, tn = _timed(lambda P=P: sw.homology_width(P, monotone=False), 3)
         rn.check(P)
         tag = "equal" if rn.value == rm.value else f"non-monotone better by {rm.value - rn.value:g}"
         _line(name, len(_inner(P)), "subset-dp", rm.value, rm.lower, rm.upper, round(tm, 4), "base")
@@ -163,8 +163,8 @@ def table_crossing(quick):
     print("             exact subset DP vs relaxed cutwidth bounds (the crossing edges dropped)")
     _line("instance", "faces", "method", "status", "lower", "upper", "seconds", "ratio")
     for name, G, c0, c1 in _crossing_cases(2 if quick else 4):
-        rd, td = _timed(lambda: sw.homology_width(G, start=c0, end=c1, method="subset-dp"), 3)  # median: no compile
-        rc, tc = _timed(lambda: sw.homology_width(G, start=c0, end=c1, method="cutwidth"), 3)
+        rd, td = _timed(lambda G=G, c0=c0, c1=c1: sw.homology_width(G, start=c0, end=c1, method="subset-dp"), 3)  # median: no compile
+        rc, tc = _timed(lambda G=G, c0=c0, c1=c1: sw.homology_width(G, start=c0, end=c1, method="cutwidth"), 3)
         rd.check(G)
         rc.check(G)
         k = len(rd.stats["swept"])

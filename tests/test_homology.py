@@ -17,7 +17,7 @@ import math
 
 import networkx as nx
 import pytest
-from hypothesis import HealthCheck, example, given, settings
+from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
 
 import sweepwidth as sw
@@ -275,7 +275,7 @@ def test_crossing_sweep_exact_and_relaxed():
 def test_crossing_detected_from_shared_edges():
     # start and end share edges with swept faces on both sides -> crossing (anti pairs)
     P = generators.grid(2, 4)  # three squares in a row: faces a | b | c
-    a, b, c = sorted(inner_faces(P), key=lambda f: min(P.boundary_walk(f)))
+    a, b, _c = sorted(inner_faces(P), key=lambda f: min(P.boundary_walk(f)))
     c0 = _bnd(P, [a])
     c1 = _bnd(P, [b])
     fs = FaceSweep.build(P, c0, [a, b])

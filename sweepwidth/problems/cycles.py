@@ -42,7 +42,7 @@ ambiguous: say ``{"edges": ...}`` or ``{"vertices": ...}``.
 from __future__ import annotations
 
 from collections import deque
-from dataclasses import dataclass, field
+from dataclasses import dataclass
 from typing import Any, Hashable, Iterable, Mapping, Sequence
 
 from ..errors import InvalidCurveError, SweepwidthError
@@ -519,7 +519,7 @@ class HomologyProblem:
 
     def summary(self) -> dict:
         """JSON-ready description (stored in ``Result.stats``; the checker reads it back)."""
-        out = {
+        out: dict[str, Any] = {
             "start": sorted(self.start),
             "end": sorted(self.end),
             "holes": sorted(self.holes),

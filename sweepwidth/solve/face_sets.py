@@ -44,7 +44,7 @@ try:  # pragma: no cover - depends on the installation
 
     HAVE_NUMBA = True
 except Exception:  # pragma: no cover
-    numba = None
+    numba = None  # type: ignore[assignment]
     HAVE_NUMBA = False
 
 __all__ = [

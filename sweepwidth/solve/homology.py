@@ -112,7 +112,7 @@ def _validate(method: Any, time_limit: Any, seed: Any, monotone: Any, options: d
     if method not in METHODS:
         raise UnsupportedOptionError("homology method", method, list(METHODS))
     if time_limit is not None:
-        if isinstance(time_limit, bool) or not isinstance(time_limit, numbers.Real) or not time_limit > 0:
+        if isinstance(time_limit, bool) or not isinstance(time_limit, numbers.Real) or not float(time_limit) > 0:
             raise SweepwidthError(f"time_limit must be a positive number of seconds or None, got {time_limit!r}")
     if seed is not None and (isinstance(seed, bool) or not isinstance(seed, numbers.Integral)):
         raise SweepwidthError(f"seed must be an integer or None, got {seed!r}")
