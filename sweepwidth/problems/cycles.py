@@ -553,8 +553,11 @@ class FaceSweep:
     When there are no anti pairs, the weight of ``c0 + dT`` is ``const`` plus
     the cut of ``T + {first}`` in the graph with two pinned vertices, so a
     monotone sweep is an ordering with ``first`` pinned first and ``last``
-    pinned last (the nested case).  Anti pairs occur exactly when start and
-    end share an edge with both sides swept (a crossing sweep).
+    pinned last (a *nested* sweep, which includes the annulus and overlapping
+    regions whose boundaries share no edge).  Anti pairs occur exactly when
+    an edge of ``c0`` has free faces on both sides; when the free faces are
+    the swept set, such an edge lies on both start and end (a *crossing*
+    sweep).
 
     Attributes
     ----------

@@ -19,9 +19,14 @@ From the outer boundary of a disk to nothing (the default), ``S`` is the set
 of inner faces and the width is the cutwidth of the dual graph with the outer
 face's dual vertex pinned first.  In general the weight of ``c0 + dT`` for
 ``T`` a subset of ``S`` is a constant plus a pinned cut in a small graph on
-``S`` (:class:`~sweepwidth.problems.cycles.FaceSweep`) *unless* some edge of
-``c0`` has faces of ``S`` on both sides (a *crossing* sweep: such an edge is
-present while both or neither of its faces are toggled, which is no cut).
+``S`` (:class:`~sweepwidth.problems.cycles.FaceSweep`): faces that leave the
+swept region hang on a vertex pinned first, faces that join it on a vertex
+pinned last.  Such sweeps are called *nested* here (``stats['nested']``);
+they include ``A`` inside ``B`` for ``c0 = dA``, ``c1 = dB`` (an annulus) and
+overlapping regions whose boundaries share no edge.  The exception is a
+*crossing* sweep: some edge of ``c0`` has faces of ``S`` on both sides (the
+regions ``A - B`` and ``B - A`` touch along it), and that edge is present
+while both or neither of its faces are toggled, which is no cut.
 
 A *non-monotone* sweep may toggle faces several times (any path of face sets
 from the empty set to ``S``); ``monotone=False`` computes the least width of
