@@ -263,6 +263,7 @@ def test_parallel_edges_are_drawn_apart():
 @given(plane_graphs(1, 9), st.booleans())
 @example(generators.random_tree(8, seed=1).dual(), False)
 @example(generators.cycle_with_chords(9, 4, seed=3), True)
+@example(generators.cycle_with_chords(8, 4, seed=0).dual(), False)  # regression: a bend on a straight edge
 def test_every_plane_graph_gets_a_layout_with_its_rotation(P, forget_positions):
     if forget_positions:
         P.pos = None

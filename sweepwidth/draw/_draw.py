@@ -66,8 +66,21 @@ class Scene:
         lo, hi = allp.min(axis=0), allp.max(axis=0)
         span = float(max(hi[0] - lo[0], hi[1] - lo[1], self.g.scale))
         pad = margin * span + 0.15 * self.g.scale
-        ax.set_xlim(lo[0] - pad, hi[0] + pad)
-        ax.set_ylim(lo[1] - pad, hi[1] + pad)
+        x0, x1, y0, y1 = lo[0] - pad, hi[0] + pad, lo[1] - pad, hi[1] + pad
+        # widen the limits to the axes' own shape, so that equal scaling fills the whole box
+        box = ax.get_position()
+        fw, fh = ax.figure.get_size_inches()
+        if box.width > 0 and box.height > 0:
+            want = (box.height * fh) / (box.width * fw)
+            dx, dy = x1 - x0, y1 - y0
+            if dy / dx < want:
+                grow = 0.5 * (dx * want - dy)
+                y0, y1 = y0 - grow, y1 + grow
+            else:
+                grow = 0.5 * (dy / want - dx)
+                x0, x1 = x0 - grow, x1 + grow
+        ax.set_xlim(x0, x1)
+        ax.set_ylim(y0, y1)
         ax.set_aspect("equal", adjustable="box")
         ax.set_facecolor(PALETTE["outer"])
         ax.set_xticks([])

@@ -79,6 +79,14 @@ def _drawing_agrees(rot: dict[Hashable, list[Hashable]], pos: dict[Hashable, np.
     edges = sorted({(min(index[u], index[w]), max(index[u], index[w])) for u in rot for w in rot[u]})
     if edges and find_crossing(xy, np.asarray(edges, dtype=np.int64)) is not None:
         return 0
+    # two edges leaving a vertex in the same direction overlap (or one runs through the other's end)
+    for v in verts:
+        if len(rot[v]) < 2:
+            continue
+        ang = np.sort([math.atan2(pos[w][1] - pos[v][1], pos[w][0] - pos[v][0]) for w in rot[v]])
+        gaps = np.diff(np.concatenate([ang, ang[:1] + 2 * math.pi]))
+        if gaps.min() < 1e-9:
+            return 0
     orders = _angular_orders(rot, pos)
     if all(_cyclic_equal(rot[v], orders[v]) for v in verts):
         return 1

@@ -146,6 +146,14 @@ def draw_state(
     return sc
 
 
+def _panel_box(geom: Geometry, size: float) -> tuple[float, float]:
+    """Width and height (inches) of one frame: ``size`` along the drawing's longer side."""
+    lo, hi = geom.bounds()
+    w, h = float(hi[0] - lo[0]), float(hi[1] - lo[1])
+    a = min(max(h / w, 0.5), 2.0) if w > 0 else 2.0
+    return size * min(1.0, 1.0 / a), size * min(1.0, a)
+
+
 def _pick_steps(n_states: int, lengths: list[float], max_frames: int) -> list[int]:
     """All states, or ``max_frames`` spread evenly that always include the widest one."""
     if n_states <= max_frames:
@@ -211,7 +219,9 @@ def sweep_frames(
     weights, labels : bool
         Edge weight labels and vertex labels in every frame.
     panel_size, dpi : float
-        Inches per frame and resolution.
+        Inches along the longer side of each frame (the other side follows
+        the drawing's shape, at least half as long), and resolution.  Each
+        row adds 0.45 in for the titles and the sheet 0.35 in for its headline.
 
     Returns
     -------
@@ -231,7 +241,7 @@ def sweep_frames(
     >>> P = generators.grid(2, 3)
     >>> r = Result("homology", "optimal", 6.0, 6.0, 6.0, witness=[f for f in P.faces if f != P.outer_face])
     >>> fig = sweep_frames(P, r)
-    >>> len(fig.axes)
+    >>> len([ax for ax in fig.axes if ax.get_visible()])     # start and two steps
     3
     """
     require_matplotlib()
@@ -247,14 +257,25 @@ def sweep_frames(
         if bad:
             raise SweepwidthError(f"step {bad[0]} is outside 0..{len(states) - 1}")
     k = len(chosen)
-    cols = int(ncols) if ncols else (k if k <= 4 else min(4, int(math.ceil(math.sqrt(k)))))
-    rows = int(math.ceil(k / cols))
-    height = panel_size * rows + 0.8
-    fig = new_figure((panel_size * cols, height), dpi)
-    axes = np.atleast_1d(fig.subplots(rows, cols, squeeze=False)).ravel()
-    fig.subplots_adjust(left=0.01, right=0.99, bottom=0.01, top=1.0 - 0.8 / height, wspace=0.06,
-                        hspace=0.05 + 0.55 / panel_size)
     geom = Geometry(P)
+    pw, ph = _panel_box(geom, panel_size)
+    title_h, head_h = 0.45, 0.35
+    if ncols:
+        cols = max(1, int(ncols))
+    else:  # the column count whose sheet is closest to 4:3 landscape, with few empty cells
+
+        def badness(c: int) -> float:
+            r = math.ceil(k / c)
+            aspect = r * (ph + title_h) / (c * pw)
+            return abs(math.log(aspect / 0.75)) + (r * c - k) / k
+
+        cols = min(range(1, min(k, 6) + 1), key=lambda c: (badness(c), c))
+    rows = int(math.ceil(k / cols))
+    width, height = pw * cols, (ph + title_h) * rows + head_h
+    fig = new_figure((width, height), dpi)
+    axes = np.atleast_1d(fig.subplots(rows, cols, squeeze=False)).ravel()
+    fig.subplots_adjust(left=0.005, right=0.995, bottom=0.005, top=1.0 - (head_h + title_h) / height,
+                        wspace=0.04, hspace=title_h / ph)
     holes = _holes(P, result)
     peak = peak_step(lengths)
     for ax, s in zip(axes, chosen):
