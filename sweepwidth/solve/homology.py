@@ -222,7 +222,7 @@ def _run_engine(G: Any, first: Any, last: Any, kw: dict, deadline: float | None,
     if left <= 0.1:
         info["cutwidth"] = "skipped: no time left"
         return None
-    kw = dict(kw, time_limit=max(0.05, left - 0.05))
+    kw = dict(kw, time_limit=max(0.05, 0.85 * left - 0.05))  # room for stages that overrun a little
     if kw.get("method", "auto") in ("auto", "sat"):
         kw["sat_options"] = {"hard_deadline": True}
     try:
