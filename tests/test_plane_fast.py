@@ -159,9 +159,11 @@ def test_large_triangulation_paths_agree():
     _compare(tree.dual)
 
 
-def test_cycles_helper_against_a_loop():
-    rng = np.random.default_rng(0)
-    for k in (1, 2, 7, 100):
+@pytest.mark.parametrize("steps", [1, 3, 64])
+def test_cycles_helper_against_a_loop(steps, monkeypatch):
+    monkeypatch.setattr(_arrays, "LOCKSTEP_STEPS", steps)  # short walks force the pointer-jumping part
+    rng = np.random.default_rng(steps)
+    for k in (1, 2, 7, 100, 300):
         perm = rng.permutation(k)
         inv = np.empty(k, dtype=np.int64)
         inv[perm] = np.arange(k)

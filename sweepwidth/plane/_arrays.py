@@ -14,10 +14,14 @@ from typing import Hashable, Sequence
 
 import numpy as np
 
-__all__ = ["cycles", "split", "Ragged", "components", "mesh_arrays", "FAST_MIN_DARTS"]
+__all__ = ["cycles", "split", "Ragged", "components", "mesh_arrays", "FAST_MIN_DARTS", "LOCKSTEP_STEPS"]
 
 #: below this many darts the plain Python loops are faster than numpy's overhead
 FAST_MIN_DARTS = 256
+
+
+#: cycles up to this length are ranked by walking them in lockstep; longer ones by pointer jumping
+LOCKSTEP_STEPS = 64
 
 
 def cycles(perm: np.ndarray, inverse: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
@@ -38,29 +42,48 @@ def cycles(perm: np.ndarray, inverse: np.ndarray) -> tuple[np.ndarray, np.ndarra
 
     Notes
     -----
-    Pointer doubling: O(k log L) for the longest cycle length L, with a
-    stop as soon as nothing changes.  The minimum over a window of ``2^j``
-    successors is stable from one round to the next only when it is already
-    the minimum of the whole cycle (a window just missing the minimum would
-    pick it up), so the early stop is exact.
+    Cycles are the connected components of the functional graph (scipy,
+    linear time); each cycle's least element is its head.  Ranks come from
+    walking every cycle from its head in lockstep for up to
+    ``LOCKSTEP_STEPS`` steps (the walkers of finished cycles drop out), and
+    for the few longer cycles from list ranking by pointer jumping, which
+    takes O(s log L) for s elements on cycles of length at most L.  In all
+    O(k + s log L).
     """
+    from scipy.sparse import csr_matrix
+    from scipy.sparse.csgraph import connected_components
+
     k = perm.shape[0]
     ar = np.arange(k, dtype=np.int64)
-    head = ar.copy()
-    p = perm.copy()
-    while True:
-        new = np.minimum(head, head[p])
-        if np.array_equal(new, head):
-            break
-        head = new
-        p = p[p]
-    is_head = head == ar
-    # list ranking backwards towards the head, which points to itself
-    q = np.where(is_head, ar, inverse)
-    rank = (~is_head).astype(np.int64)
+    A = csr_matrix((np.ones(k, dtype=np.int8), (ar, perm)), shape=(k, k))
+    nc, lab = connected_components(A, directed=True, connection="weak")
+    mins = np.full(nc, k, dtype=np.int64)
+    np.minimum.at(mins, lab, ar)
+    head = mins[lab]
+    rank = np.zeros(k, dtype=np.int64)
+    walker_head = mins.copy()  # one walker per cycle, starting at its head
+    at = walker_head.copy()
+    for step in range(1, LOCKSTEP_STEPS + 1):
+        at = perm[at]
+        alive = at != walker_head
+        at, walker_head = at[alive], walker_head[alive]
+        if at.size == 0:
+            return head, rank
+        rank[at] = step
+    # cycles longer than LOCKSTEP_STEPS: list ranking backwards towards the head
+    long_cycle = np.zeros(nc, dtype=bool)
+    long_cycle[lab[walker_head]] = True
+    members = np.flatnonzero(long_cycle[lab])
+    local = np.full(k, -1, dtype=np.int64)
+    local[members] = np.arange(members.shape[0], dtype=np.int64)
+    is_head = head[members] == members
+    lr = np.arange(members.shape[0], dtype=np.int64)
+    q = np.where(is_head, lr, local[inverse[members]])
+    r = (~is_head).astype(np.int64)
     while not is_head[q].all():
-        rank = rank + rank[q]
+        r = r + r[q]
         q = q[q]
+    rank[members] = r
     return head, rank
 
 
