@@ -150,6 +150,33 @@ def _load(path: str) -> Any:
     return load_instance(path)
 
 
+def _curve_arg(text: str, obj: Any, what: str) -> Any:
+    """A curve typed on the command line (JSON), with vertex labels matched against the graph.
+
+    Accepted: a vertex list ``[a, b, c]``, ``{"vertices": [...]}``,
+    ``{"vertex": v, "darts": [...]}`` (a point when ``darts`` is empty),
+    ``{"darts": [...]}`` or, for homology, ``{"edges": [...]}``.
+    """
+    try:
+        spec = json.loads(text)
+    except json.JSONDecodeError as err:
+        raise CliError(f"--{what} takes a curve in JSON (e.g. '[0, 1, 2]' or '{{\"vertex\": 0, \"darts\": []}}'): {err.msg}") from None
+
+    def lab(x: Any) -> Any:
+        return _label(json.dumps(x) if not isinstance(x, str) else x, obj)
+
+    if isinstance(spec, list):
+        return [lab(v) for v in spec]
+    if isinstance(spec, dict):
+        out = dict(spec)
+        if "vertices" in out:
+            out["vertices"] = [lab(v) for v in out["vertices"]]
+        if "vertex" in out:
+            out["vertex"] = lab(out["vertex"])
+        return out
+    raise CliError(f"--{what} takes a JSON list of vertices or a JSON object, got {text!r}")
+
+
 def _solver_options(args: argparse.Namespace, parameter: str, obj: Any) -> dict:
     """Options given on the command line for ``parameter`` (only those that apply)."""
     opts: dict[str, Any] = {}
@@ -166,6 +193,10 @@ def _solver_options(args: argparse.Namespace, parameter: str, obj: Any) -> dict:
         holes = _face_ids(getattr(args, "holes", None))
         if holes is not None:
             opts["holes"] = holes
+        for name in ("start", "end"):
+            text = getattr(args, name, None)
+            if text:
+                opts[name] = _curve_arg(text, obj, name)
     if parameter == "homotopy":
         if getattr(args, "no_spikes", False):
             opts["spikes"] = False
@@ -175,6 +206,15 @@ def _solver_options(args: argparse.Namespace, parameter: str, obj: Any) -> dict:
             opts["monotone"] = True
         if getattr(args, "length", None):
             opts["length"] = args.length
+        if getattr(args, "ends", None):
+            try:
+                pair = json.loads("[" + args.ends + "]")
+                parts = [json.dumps(x) if not isinstance(x, str) else x for x in pair]
+            except json.JSONDecodeError:
+                parts = [x.strip() for x in args.ends.split(",") if x.strip()]
+            if len(parts) != 2:
+                raise CliError(f"--ends takes two vertices S,T, got {args.ends!r}")
+            opts["s"], opts["t"] = (_label(x, obj) for x in parts)
     return opts
 
 
@@ -386,8 +426,11 @@ def cmd_bench(args: argparse.Namespace, out: Callable[[str], None]) -> int:
         raise CliError(f"--jobs must be at least 1, got {args.jobs}")
     if args.time_limit is None:
         raise CliError("bench needs --time-limit (seconds per task)")
-    if args.first or args.last:
-        raise CliError("bench does not take --first/--last (labels differ between instances); give pins per instance in a manifest's 'options'")
+    if args.first or args.last or args.start or args.end or args.ends:
+        raise CliError(
+            "bench does not take --first/--last/--start/--end/--ends (labels differ between instances);"
+            " give them per instance in a manifest's 'options' or in the instance file's curves"
+        )
     opts: dict[str, Any] = {}
     if args.sat_solver:
         opts["solver"] = args.sat_solver
@@ -616,6 +659,9 @@ def _add_solver_options(p: argparse.ArgumentParser) -> None:
     g.add_argument("--unit", action="store_true", help="cutwidth: ignore edge weights (every edge counts 1)")
     g.add_argument("--sat-solver", metavar="NAME", help="cutwidth: python-sat solver for the SAT method (e.g. cadical195, glucose4)")
     g.add_argument("--holes", metavar="F,F", help="homology/homotopy: face ids that may not be swept (default: the outer face)")
+    g.add_argument("--start", metavar="CURVE", help="homology/homotopy: start curve in JSON, e.g. '[0, 1, 2]' (default: the outer boundary)")
+    g.add_argument("--end", metavar="CURVE", help="homology/homotopy: end curve in JSON (default: empty / a point)")
+    g.add_argument("--ends", metavar="S,T", help="homotopy: sweep walks from S to T (the outer boundary one way to the other)")
     g.add_argument("--no-spikes", action="store_true", help="homotopy: forbid spikes and unspikes")
     g.add_argument("--simple", action="store_true", help="homotopy: every intermediate curve must be simple")
     g.add_argument("--monotone", action="store_true", help="homotopy: flip each face at most once")

@@ -246,3 +246,19 @@ def test_internal_errors_are_one_line_too(files, capsys, monkeypatch):
     rc = main(["dual", str(files / "grid.json")])
     line = _one_line_error(rc, capsys.readouterr().err)
     assert "internal error TypeError" in line and "SWEEPWIDTH_TRACEBACK" in line
+
+
+def test_start_curve_and_open_ends(tmp_path, capsys):
+    path = tmp_path / "g33.json"
+    sw.write(gen.grid(3, 3), str(path))
+    # one unit square as the start: sweeping it away never needs more than its 4 sides (and no less)
+    assert main(["solve", str(path), "--param", "homology,homotopy", "--start", "[[0,0],[0,1],[1,1],[1,0]]", "--json"]) == 0
+    got = [json.loads(l) for l in capsys.readouterr().out.splitlines()]
+    assert [g["value"] for g in got] == [4, 4]
+    # from the boundary path (0,0)->(2,2) one way to the other: every staircase between has 4 edges
+    assert main(["solve", str(path), "--param", "homotopy", "--ends", "[0,0],[2,2]", "--json"]) == 0
+    got = json.loads(capsys.readouterr().out)
+    assert got["value"] == 4 and got["checked"] == 4
+    rc = main(["solve", str(path), "--param", "homotopy", "--start", "[[0,0],[2,2]]"])
+    assert rc == 1
+    assert capsys.readouterr().err.startswith("sweepwidth: error: ")
