@@ -365,3 +365,27 @@ def test_face_points_lie_inside_their_faces():
             if f == P.outer_face:
                 continue
             assert Path(g.face_polygon(f)).contains_point(tuple(g.face_point(f))), f
+
+
+def test_open_walk_homotopy_states_and_frames(tmp_path):
+    # a path from s to t along one side of the square, flipped across the face to the other side
+    P = generators.grid(2, 2)
+    W = P.face_darts(P.outer_face)
+    f = _inner(P)[0]
+    q = [W[3] ^ 1, W[2] ^ 1]  # from s = tail(W[0]) round the other way to t = head(W[1])
+    wit = {"start": {"vertex": P.tail(W[0]), "darts": [W[0], W[1]]},
+           "moves": [{"op": "flip", "face": f, "pos": 0, "take": 2, "put": q}]}
+    height = replay_homotopy(P, wit, closed=False, start=wit["start"],
+                             end={"vertex": P.tail(W[0]), "darts": q})
+    r = Result("homotopy", "optimal", height, height, height, witness=wit,
+               stats={"options": {"closed": False, "length": "vertices"}})
+    states = sweep_states(P, r)
+    assert [s.closed for s in states] == [False, False]
+    assert states[-1].walk == q and states[-1].changed == [0, 1]
+    # open walks count darts + 1 vertices (spec)
+    assert [s.length for s in states] == [3.0, 3.0]
+    assert replay_homotopy(P, wit, closed=False, start=wit["start"], end={"vertex": P.tail(W[0]), "darts": q},
+                           length="vertices") == 3.0
+    fig = sweep_frames(P, r, dpi=30)
+    fig.savefig(tmp_path / "open.png")
+    assert (tmp_path / "open.png").stat().st_size > 0
