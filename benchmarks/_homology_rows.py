@@ -86,7 +86,12 @@ def table_goal(quick):
     print(f"\n[homology 2] speed goal: disks with ~200 faces from the boundary, time limit {limit:g} s")
     print("             baseline: sw.cutwidth(P.dual(), first=outer) under the same limit")
     _line("instance", "faces", "method", "status", "lower", "upper", "seconds", "ratio")
-    cases = [("trigrid-10", generators.triangulated_grid(10)), ("delaunay-108", generators.delaunay(108, seed=1))]
+    D = generators.delaunay(108, seed=1)
+    cases = [
+        ("trigrid-10", generators.triangulated_grid(10)),
+        ("delaunay-108", D),
+        ("delaunay-108 weights 1..5", D.with_weights([1 + (e * 7919) % 5 for e in range(D.number_of_edges())])),
+    ]
     if quick:
         cases = cases[:1] + [("delaunay-60", generators.delaunay(60, seed=5))]
     for name, P in cases:
