@@ -128,7 +128,7 @@ def _paths(doc, prefix=()):
             yield from _paths(v, prefix + (i,))
 
 
-@settings(max_examples=120, deadline=None)
+@settings(max_examples=80, deadline=None)
 @given(data=st.data())
 def test_mutated_json_documents(data):
     doc = json.loads(data.draw(st.sampled_from(SAMPLES["json"])))
