@@ -121,7 +121,11 @@ def _m_dp(P, *, lower, upper, upper_order, deadline, seed, max_memory=DEFAULT_MA
     if deadline is not None and secs > 0.5:
         from ._deadline import run_limited
 
-        finished, value, _ = run_limited(_dp_child, (P, max_memory), {}, deadline=deadline)
+        try:
+            finished, value, _ = run_limited(_dp_child, (P, max_memory), {}, deadline=deadline)
+        except SweepwidthError as err:  # the child could not start or died: run here instead
+            finished, value = True, solve_dp(P, max_memory=max_memory)
+            value[2]["child_failed"] = str(err)
         if not finished:
             raise _TooSlow("subset DP did not finish before the time limit")
         w, o, st = value

@@ -213,7 +213,7 @@ def solve_bnb(
         k = lb
         stats["thresholds"].append(k)
         W = (n + 63) // 64
-        cap = 1 << max(10, int(2 * max_states - 1).bit_length())
+        cap = 1 << max(10, min(int(2 * max_states - 1).bit_length(), n + 1))
         while cap > 1024 and cap * (8 * W + 1) > _TABLE_BYTES:
             cap //= 2
         table = np.zeros((cap, W), dtype=np.uint64)

@@ -136,7 +136,7 @@ def spectral_bound(problem: OrderingProblem) -> float:
 
     Notes
     -----
-    Dense ``eigvalsh`` for ``n <= 600``, sparse shift-invert Lanczos above (a
+    Dense ``eigvalsh`` for ``n <= 300``, sparse shift-invert Lanczos above (a
     few seconds at ``n = 10^4``).  The eigenvalue is lowered by a relative
     ``1e-7`` before use, so numerical error never overstates the bound.  A
     disconnected graph gives 0.
@@ -171,7 +171,7 @@ def _lambda2(problem: OrderingProblem) -> float | None:
     w = problem.weights
     A = sp.coo_matrix((np.concatenate([w, w]), (np.concatenate([u, v]), np.concatenate([v, u]))), shape=(n, n)).tocsr()
     L = sp.diags(np.asarray(A.sum(axis=1)).ravel()) - A
-    if n <= 600:
+    if n <= 300:
         ev = np.linalg.eigvalsh(L.toarray())
         return float(ev[1])
     from scipy.sparse.linalg import eigsh

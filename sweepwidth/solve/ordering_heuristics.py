@@ -110,6 +110,32 @@ def _spread_points(problem: OrderingProblem, k: int, rng: np.random.Generator) -
     pts = [int(np.argmax(d))]
     mind = _bfs_dist(indptr, indices, n, pts)[0]
     mind[~np.isfinite(mind)] = -1
+    # the ends of the bisector {x : d(u, x) ~ d(v, x)} of a pseudo-diameter u, v
+    # (on a grid: the two corners that the diameter misses, so that two-source
+    # orderings between neighbouring corners sweep with a straight front)
+    u = pts[0]
+    du = mind.copy()
+    v = int(np.argmax(du))
+    dv = _bfs_dist(indptr, indices, n, [v])[0]
+    dv[~np.isfinite(dv)] = -1
+    if v == u:
+        return pts
+    pts.append(v)
+    bis = np.nonzero((np.abs(du - dv) <= 1) & (du >= 0) & (dv >= 0))[0]
+    if bis.shape[0] > 1:
+        mid = int(bis[np.argmin(np.abs(du[bis] - du[bis].mean()))])
+        dm = _bfs_dist(indptr, indices, n, [mid])[0]
+        w1 = int(bis[np.argmax(np.where(np.isfinite(dm[bis]), dm[bis], -1))])
+        d1 = _bfs_dist(indptr, indices, n, [w1])[0]
+        w2 = int(bis[np.argmax(np.where(np.isfinite(d1[bis]), d1[bis], -1))])
+        for w in (w1, w2):
+            if w not in pts:
+                pts.append(w)
+    mind = np.minimum(mind, dv)
+    for w in pts[2:]:
+        dw = _bfs_dist(indptr, indices, n, [w])[0]
+        dw[~np.isfinite(dw)] = -1
+        mind = np.minimum(mind, dw)
     while len(pts) < min(k, n):
         nxt = int(np.argmax(mind))
         if mind[nxt] <= 0:
@@ -144,7 +170,7 @@ def two_source_ordering(problem: OrderingProblem, p: int, q: int) -> list[int]:
 def spectral_orderings(problem: OrderingProblem, angles: int = 8) -> list[list[int]]:
     """Orderings by the Fiedler vector, and by mixtures with the next eigenvector.
 
-    For ``n <= 2000`` the dense eigensolver is used, above that sparse Lanczos.
+    For ``n <= 300`` the dense eigensolver is used, above that sparse Lanczos.
     Returns an empty list when the eigensolver fails (the orderings are only a
     heuristic).
 
@@ -163,7 +189,7 @@ def spectral_orderings(problem: OrderingProblem, angles: int = 8) -> list[list[i
     A = sp.coo_matrix((np.concatenate([w, w]), (np.concatenate([u, v]), np.concatenate([v, u]))), shape=(n, n)).tocsr()
     L = (sp.diags(np.asarray(A.sum(axis=1)).ravel()) - A).astype(float)
     try:
-        if n <= 2000:
+        if n <= 300:
             vals, vecs = np.linalg.eigh(L.toarray())
             vals, vecs = vals[1:3], vecs[:, 1:3]
         else:
