@@ -51,17 +51,19 @@ def load_result(path: str | os.PathLike) -> Any:
 
 def _solve(obj: Any, param: str, dual: bool) -> Any:
     if param == "cutwidth":
-        from ..solve.cutwidth import cutwidth as solver
+        from ..solve.cutwidth import cutwidth
 
         target = obj.dual() if (dual and isinstance(obj, PlaneGraph)) else obj
-        return solver(target, time_limit=QUICK_LIMIT)
+        return cutwidth(target, time_limit=QUICK_LIMIT)
     if not isinstance(obj, PlaneGraph):
         raise SweepwidthError(f"{param} needs a plane graph; the file holds a graph without an embedding")
     if param == "homology":
-        from ..solve.homology import homology_width as solver
-    else:
-        from ..solve.homotopy import homotopy_height as solver
-    return solver(obj, time_limit=QUICK_LIMIT)
+        from ..solve.homology import homology_width
+
+        return homology_width(obj, time_limit=QUICK_LIMIT)
+    from ..solve.homotopy import homotopy_height
+
+    return homotopy_height(obj, time_limit=QUICK_LIMIT)
 
 
 def render_cli(
@@ -140,11 +142,12 @@ def render_cli(
     if param is None:
         if ext == ".gif":
             raise SweepwidthError("an animation needs a sweep: give --param or --result")
-        P = obj if isinstance(obj, PlaneGraph) else PlaneGraph.from_graph(obj)
+        plain = obj if isinstance(obj, PlaneGraph) else PlaneGraph.from_graph(obj)
         from ._draw import draw
 
-        holes = [f for f in (P.meta.get("holes") or []) if isinstance(f, int) and 0 <= f < P.number_of_faces()]
-        ax = draw(P, dual=dual, labels=P.number_of_vertices() <= 40, holes=holes, title=P.meta.get("name"))
+        holes = [f for f in (plain.meta.get("holes") or []) if isinstance(f, int) and 0 <= f < plain.number_of_faces()]
+        ax = draw(plain, dual=dual, labels=plain.number_of_vertices() <= 40, holes=holes,
+                  title=plain.meta.get("name"))
         ax.figure.savefig(out, dpi=ax.figure.dpi)
         return out
     if res is None:
@@ -154,10 +157,10 @@ def render_cli(
     on = "faces" if (dual and param == "cutwidth") else "auto"
     if param == "cutwidth" and isinstance(obj, nx.Graph):
         try:
-            P = PlaneGraph.from_graph(obj)
+            embedded: PlaneGraph | None = PlaneGraph.from_graph(obj)
         except SweepwidthError:
-            P = None
-        if P is None:
+            embedded = None
+        if embedded is None:
             if ext == ".gif" or n_frames:
                 raise SweepwidthError("frames of a cutwidth ordering need a planar graph; write a .png profile")
             from ._profile import width_profile
@@ -165,6 +168,7 @@ def render_cli(
             ax = width_profile(res, obj)
             ax.figure.savefig(out, dpi=ax.figure.dpi)
             return out
+        P = embedded
     else:
         P = obj
     labels = P.number_of_vertices() <= 30

@@ -106,7 +106,7 @@ class Scene:
             groups["hole" if f in holes else "swept" if f in shade else "plain"].append(poly)
             if f in fresh:
                 groups["fresh"].append(poly)
-        styles = {
+        styles: dict[str, dict[str, Any]] = {
             "plain": dict(facecolors="white", edgecolors="none", zorder=self.Z_FACE),
             "swept": dict(facecolors=PALETTE["swept"], edgecolors="none", zorder=self.Z_SHADE),
             "hole": dict(facecolors=PALETTE["hole"], edgecolors=PALETTE["ink"], hatch="///", linewidths=0,

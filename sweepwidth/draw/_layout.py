@@ -763,14 +763,16 @@ class Geometry:
 
     def ring(self) -> tuple[np.ndarray, float]:
         """Centre and radius of a circle around the whole drawing (dual edges to the outer face run on it)."""
-        if getattr(self, "_ring", None) is not None:
-            return self._ring  # type: ignore[return-value]
+        cached: tuple[np.ndarray, float] | None = getattr(self, "_ring", None)
+        if cached is not None:
+            return cached
         lo, hi = self.bounds()
         c = 0.5 * (lo + hi)
         pts = np.vstack([np.array(list(self.xy.values()))] + [x for x in self._curves if len(x)])
         R = float(np.max(np.hypot(*(pts - c).T))) if len(pts) else 0.0
-        self._ring = (c, R + 0.3 * self.scale)
-        return self._ring
+        ring = (c, R + 0.3 * self.scale)
+        self._ring = ring
+        return ring
 
     def face_point(self, f: int) -> np.ndarray:
         """A point inside face ``f`` (for the outer face: outside the drawing), cached.

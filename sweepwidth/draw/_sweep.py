@@ -360,7 +360,7 @@ def sweep_animation(
     geom = Geometry(P)
     holes = _holes(P, result)
     fig = new_figure(figsize, dpi)
-    writer = PillowWriter(fps=fps)
+    writer = PillowWriter(fps=fps)  # type: ignore[arg-type]  # Pillow takes fractional rates
     keep = _pick_steps(len(states), lengths, max_frames) if max_frames else range(len(states))
     with writer.saving(fig, path, dpi):
         for s in (states[i] for i in keep):
