@@ -389,3 +389,13 @@ def test_open_walk_homotopy_states_and_frames(tmp_path):
     fig = sweep_frames(P, r, dpi=30)
     fig.savefig(tmp_path / "open.png")
     assert (tmp_path / "open.png").stat().st_size > 0
+
+
+def test_render_cli_on_a_graph_without_embedding(tmp_path):
+    # K5 is not planar (Kuratowski): only the width profile of an ordering can be drawn
+    path = tmp_path / "k5.json"
+    sw.write(nx.complete_graph(5), path)
+    out = render_cli(path, param="cutwidth", out=tmp_path / "k5.png")
+    assert (tmp_path / "k5.png").stat().st_size > 0 and out.endswith("k5.png")
+    with pytest.raises(SweepwidthError, match="planar"):
+        render_cli(path, param="cutwidth", out=tmp_path / "k5.gif")
