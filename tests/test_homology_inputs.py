@@ -113,8 +113,21 @@ def test_size_limits_are_refused_before_work():
     P = generators.triangulated_grid(4)  # 32 inner faces
     with pytest.raises(ProblemTooLargeError, match="limit"):
         sw.homology_width(P, method="subset-dp")
+    inner = [f for f in P.faces if f != P.outer_face]
     with pytest.raises(ProblemTooLargeError, match="monotone=True"):
-        sw.homology_width(P, monotone=False)
+        # from an interior cycle the toggle search has no shortcut
+        sw.homology_width(P, start={"faces": inner[:5]}, monotone=False)
+
+
+def test_large_bottom_to_top_non_monotone_uses_the_theorem():
+    # from the disk boundary the lattice path runs bottom to top: Brightwell and Winkler,
+    # "Submodular percolation" (SIAM J. Discrete Math. 2009) make the monotone width the answer
+    P = generators.triangulated_grid(4)
+    r = sw.homology_width(P, monotone=False)
+    assert r.status == "optimal"
+    assert "Brightwell-Winkler" in r.method
+    assert r.value == sw.homology_width(P).value
+    assert r.check(P) == r.value
 
 
 def test_error_classes_are_builtin_subclasses(square):

@@ -57,7 +57,9 @@ Methods
 'subset-dp'    exact monotone subset DP over ``2^|S|`` face sets
                (:func:`~sweepwidth.solve.face_sets.monotone_sweep`).
 'face-sets'    exact non-monotone search over ``2^(faces - holes)`` toggle
-               states (:func:`~sweepwidth.solve.face_sets.toggle_search`).
+               states (:func:`~sweepwidth.solve.face_sets.toggle_search`);
+               above its size limit a bottom-to-top sweep is answered by
+               the monotone methods (equal by Brightwell and Winkler).
 =============  ============================================================
 
 References
@@ -79,7 +81,7 @@ import time
 from typing import Any, Callable
 
 from ..errors import ProblemTooLargeError, SweepwidthError, UnsupportedOptionError
-from ..problems.cycles import FaceSweep, HomologyProblem, cycle_weight
+from ..problems.cycles import FaceSweep, HomologyProblem, bounded_face_sets, cycle_weight
 from ..result import Result
 from .face_sets import (
     MAX_MONOTONE_FACES,
@@ -306,10 +308,25 @@ def _non_monotone(problem: HomologyProblem, deadline: float | None, seed: int | 
     max_faces = options.get("max_faces")
     cap = MAX_TOGGLE_FACES if max_faces is None else int(max_faces)
     if fs.k > cap:
-        raise ProblemTooLargeError(
-            f"the non-monotone search has {fs.k} free faces, more than its limit of {cap} "
-            f"(2^{fs.k} states); use monotone=True"
-        )
+        U = problem.free_faces
+        bottom_to_top = any(S == U for S in problem.swept) and bool(bounded_face_sets(P, problem.start, U)[0])
+        if not bottom_to_top:
+            raise ProblemTooLargeError(
+                f"the non-monotone search has {fs.k} free faces, more than its limit of {cap} "
+                f"(2^{fs.k} states), and the sweep is not bottom-to-top (where the monotone width "
+                "is the answer); use monotone=True"
+            )
+        # Brightwell-Winkler: from the bottom to the top of the lattice of face sets,
+        # toggling twice never helps, so the monotone answer is the non-monotone one
+        out, auto = _solve_swept(problem, U, "auto", deadline, seed, options)
+        how = out.info.get("bounds")
+        return out.lower, out.upper, list(out.order), {
+            "faces": fs.k,
+            "method": f"monotone {out.method} (Brightwell-Winkler)",
+            "bounds": {"theorem": "Brightwell and Winkler, submodular percolation: a bottom-to-top sweep "
+                                  "never gains by toggling a face twice", "monotone": how},
+            "monotone_auto": auto,
+        }
     floor = max(cycle_weight(P, problem.start), cycle_weight(P, problem.end))
     targets = [sorted(S) for S in problem.swept]
     if deadline is not None and estimate_seconds(fs.k, toggles=True) > 0.5:
@@ -396,7 +413,8 @@ def homology_width(
     UnsupportedOptionError
         Unknown method or option.
     ProblemTooLargeError
-        'subset-dp' or 'face-sets' on more faces than their limit.
+        'subset-dp' on more faces than its limit; 'face-sets' on more faces
+        than its limit unless the sweep is bottom-to-top.
     SweepwidthError
         Bad holes, time limit, seed, or conflicting ``method``/``monotone``.
 
@@ -460,7 +478,8 @@ def homology_width(
         S = _final_set(problem, toggles)
         stats["swept"] = sorted(S)
         return Result("homology", status, up if status == "optimal" else None, lo if status == "bounded" else up, up,
-                      witness=list(toggles), method="face-sets", seconds=time.monotonic() - t0, stats=stats)
+                      witness=list(toggles), method=st.get("method", "face-sets"), seconds=time.monotonic() - t0,
+                      stats=stats)
     outcomes = []
     for idx, S in enumerate(problem.swept):
         sub = deadline
