@@ -588,3 +588,21 @@ def test_dp_refusal_switches_method_in_auto():
     assert r.is_optimal
     assert any("dp skipped" in note for note in r.stats["auto"]["notes"])
     r.check(G)
+
+
+@settings(max_examples=30, deadline=None)
+@given(G=multigraphs(max_nodes=9), data=st.data())
+def test_pin_bound_is_networkx_minimum_cut(G, data):
+    # the pinned-ends bound is a minimum first-last cut: compared with networkx's minimum_cut
+    nodes = list(G.nodes())
+    if len(nodes) < 2:
+        return
+    a, b = data.draw(st.lists(st.sampled_from(nodes), min_size=2, max_size=2, unique=True))
+    P = OrderingProblem.from_graph(G, first=a, last=b)
+    H = nx.Graph()
+    H.add_nodes_from(G)
+    for u, v, d in G.edges(data=True):
+        if u != v:
+            c = H[u][v]["capacity"] + d["weight"] if H.has_edge(u, v) else d["weight"]
+            H.add_edge(u, v, capacity=c)
+    assert pin_bound(P) == pytest.approx(nx.minimum_cut_value(H, a, b))

@@ -57,7 +57,7 @@ from ..result import Result
 from .ordering_bnb import solve_bnb
 from .ordering_bounds import lower_bounds
 from .ordering_dp import DEFAULT_MAX_MEMORY, dp_estimate, solve_dp
-from .ordering_heuristics import heuristic_ordering
+from .ordering_heuristics import heuristic_ordering, improve_ordering
 
 __all__ = ["cutwidth", "METHODS", "OPTIONS"]
 
@@ -96,16 +96,11 @@ def _sub_deadline(deadline: float | None, seconds: float) -> float:
     return end if deadline is None else min(deadline, end)
 
 
-def _heuristic(P: OrderingProblem, seed: int | None, deadline: float | None, improve: bool = True, effort: int = 6) -> tuple[float, list[int], dict]:
+def _heuristic(P: OrderingProblem, seed: int | None, deadline: float | None, improve: bool = True, effort: int = 6, target: float | None = None) -> tuple[float, list[int], dict]:
     # the heuristic gets a fraction of the time: exact methods need the rest
     frac = 0.25 if P.n <= _BIG else 0.7  # exact methods are hopeless on big graphs
     share = frac * _left(deadline) if deadline is not None else 5.0 + P.n / 500.0
-    return heuristic_ordering(P, seed=seed, deadline=_sub_deadline(deadline, share), improve=improve, effort=effort)
-
-
-def _bounds(P: OrderingProblem, deadline: float | None) -> tuple[float, dict]:
-    b = lower_bounds(P, deadline=deadline)
-    return max(b.values()) if b else 0.0, b
+    return heuristic_ordering(P, seed=seed, deadline=_sub_deadline(deadline, share), improve=improve, effort=effort, target=target)
 
 
 def _dp_child(P, max_memory, *, progress=None):
@@ -223,15 +218,33 @@ def _solve_part(P: OrderingProblem, method: Any, deadline: float | None, seed: i
             return p
     if method == "tree" and not P.is_forest():
         raise SweepwidthError("method 'tree' needs a forest (a graph without cycles after merging parallel edges)")
-    # bounds and a heuristic ordering for everything else
-    lb, lbs = _bounds(P, deadline)
+    # bounds and a heuristic ordering for everything else, cheapest first:
+    # stop as soon as the two meet
+    name = method if isinstance(method, str) else "callable"
+    lbs = lower_bounds(P, deadline=deadline, which="cheap")
     stats["lower_bounds"] = lbs
-    hw, horder, hst = _heuristic(P, seed, deadline, improve=improve, effort=effort)
+    lb = max(lbs.values(), default=0.0)
+    hw, horder, hst = _heuristic(P, seed, deadline, improve=False, effort=effort, target=lb)
     stats["heuristic"] = hst
     stats["heuristic_width"] = hw
+    met = lb >= hw - 1e-9
+    if not met:
+        more = lower_bounds(P, deadline=deadline, which="costly")
+        lbs.update(more)
+        lb = max(lbs.values(), default=0.0)
+        met = lb >= hw - 1e-9
+    if not met and improve:
+        share = (0.25 if P.n <= _BIG else 0.7) * _left(deadline) if deadline is not None else 5.0 + P.n / 500.0
+        better = improve_ordering(P, horder, deadline=_sub_deadline(deadline, share), seed=seed)
+        wb = P.width(better)
+        if wb < hw:
+            hw, horder = wb, better
+            hst["improved"] = True
+            stats["heuristic_width"] = hw
+        met = lb >= hw - 1e-9
     stats["bounds_seconds"] = time.monotonic() - t0
-    if lb >= hw - 1e-9:
-        return _Part(hw, hw, horder, stats, method if isinstance(method, str) else "callable")
+    if met:
+        return _Part(hw, hw, horder, stats, name)
     if method == "heuristic":
         return _Part(lb, hw, horder, stats, "heuristic")
     if callable(method):

@@ -111,6 +111,8 @@ def pin_bound(problem: OrderingProblem) -> float:
     """
     if not problem.first or not problem.last or problem.m == 0:
         return 0.0
+    if problem.integral:
+        return _pin_bound_scipy(problem)
     import networkx as nx
     from networkx.algorithms.flow import preflow_push
 
@@ -125,6 +127,29 @@ def pin_bound(problem: OrderingProblem) -> float:
         H.add_edge(t, b, capacity=math.inf)
     value = nx.maximum_flow_value(H, s, t, flow_func=preflow_push)
     return _floor_safe(float(value), problem.integral)
+
+
+def _pin_bound_scipy(problem: OrderingProblem) -> float:
+    """Integral case of :func:`pin_bound` with scipy's maximum flow (Edmonds-Karp / Dinic)."""
+    import scipy.sparse as sp
+    from scipy.sparse.csgraph import maximum_flow
+
+    n = problem.n
+    s, t = n, n + 1
+    u = problem.edges[:, 0]
+    v = problem.edges[:, 1]
+    w = np.round(problem.weights).astype(np.int64)
+    big = int(w.sum()) + 1
+    F = sorted(problem.first)
+    L = sorted(problem.last)
+    rows = np.concatenate([u, v, np.full(len(F), s), np.array(L, dtype=np.int64)])
+    cols = np.concatenate([v, u, np.array(F, dtype=np.int64), np.full(len(L), t)])
+    cap = np.concatenate([w, w, np.full(len(F) + len(L), big)])
+    if big >= 2**31:
+        return 0.0  # capacities beyond int32: skip (the bound is optional)
+    A = sp.csr_matrix((cap.astype(np.int32), (rows, cols)), shape=(n + 2, n + 2))
+    A.sum_duplicates()
+    return float(maximum_flow(A, s, t).flow_value)
 
 
 def spectral_bound(problem: OrderingProblem) -> float:
@@ -419,7 +444,7 @@ def tree_bound(problem: OrderingProblem, max_n: int = 5000) -> float | None:
 
 
 def lower_bounds(
-    problem: OrderingProblem, *, deadline: float | None = None, exact_small: int = 16
+    problem: OrderingProblem, *, deadline: float | None = None, exact_small: int = 16, which: str = "all"
 ) -> dict[str, float]:
     """All cheap lower bounds that apply, by name.
 
@@ -430,6 +455,9 @@ def lower_bounds(
         ``time.monotonic()`` value; expensive bounds are skipped near it.
     exact_small : int
         Compute the isoperimetric bound up to this many vertices.
+    which : str
+        'cheap' (degree, pins, tree, small isoperimetric: linear time or
+        tiny inputs), 'costly' (spectral and routing) or 'all'.
 
     Returns
     -------
@@ -447,17 +475,21 @@ def lower_bounds(
     def left() -> float:
         return math.inf if deadline is None else deadline - time.monotonic()
 
-    out: dict[str, float] = {"degree": degree_bound(problem)}
-    if problem.first and problem.last:
-        out["pins"] = pin_bound(problem)
-    if problem.m < problem.n and problem.is_forest():
-        tb = tree_bound(problem)
-        if tb is not None:
-            out["tree"] = tb
-    if problem.n <= exact_small and left() > 0.5:
-        iso = isoperimetric_bound(problem, max_n=exact_small)
-        if iso is not None:
-            out["isoperimetric"] = iso
+    out: dict[str, float] = {}
+    if which in ("all", "cheap"):
+        out["degree"] = degree_bound(problem)
+        if problem.first and problem.last and problem.n <= 20000:
+            out["pins"] = pin_bound(problem)
+        if problem.m < problem.n and problem.is_forest():
+            tb = tree_bound(problem)
+            if tb is not None:
+                out["tree"] = tb
+        if problem.n <= exact_small and left() > 0.5:
+            iso = isoperimetric_bound(problem, max_n=exact_small)
+            if iso is not None:
+                out["isoperimetric"] = iso
+    if which == "cheap":
+        return out
     if problem.n >= 3 and left() > 1.0 and problem.n <= 20000:
         out["spectral"] = spectral_bound(problem)
     if problem.n >= 3 and left() > 1.0:

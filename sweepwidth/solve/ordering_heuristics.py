@@ -325,6 +325,7 @@ def heuristic_ordering(
     deadline: float | None = None,
     improve: bool = True,
     effort: int = 6,
+    target: float | None = None,
 ) -> tuple[float, list[int], dict[str, Any]]:
     """The best ordering found by all constructions, then improved by local search.
 
@@ -340,6 +341,8 @@ def heuristic_ordering(
         Run the local search on the best construction.
     effort : int
         Number of spread vertices used for level and two-source orderings.
+    target : float, optional
+        A proven lower bound: stop as soon as an ordering of this width is found.
 
     Returns
     -------
@@ -359,10 +362,19 @@ def heuristic_ordering(
         return 0.0, list(range(n)), {"construction": "trivial"}
     rng = np.random.default_rng(seed)
 
+    cands: list[tuple[str, list[int]]] = [("identity", _pin(problem, list(range(n))))]
+    reached = [target is not None and problem.width(cands[0][1]) <= target + 1e-9]
+
+    def add(name: str, order: list[int]) -> None:
+        cands.append((name, order))
+        if target is not None and not reached[0] and problem.width(order) <= target + 1e-9:
+            reached[0] = True
+
     def late(margin: float = 0.0) -> bool:
+        if reached[0]:
+            return True
         return deadline is not None and time.monotonic() > deadline - margin
 
-    cands: list[tuple[str, list[int]]] = [("identity", _pin(problem, list(range(n))))]
     pts: list[int] = []
     if problem.first:
         pts.append(next(iter(problem.first)))
@@ -378,15 +390,15 @@ def heuristic_ordering(
     for p, q in pairs[: 3 * effort]:
         if late():
             break
-        cands.append((f"two sources {p},{q}", two_source_ordering(problem, p, q)))
-        cands.append((f"two sources {q},{p}", two_source_ordering(problem, q, p)))
+        add(f"two sources {p},{q}", two_source_ordering(problem, p, q))
+        add(f"two sources {q},{p}", two_source_ordering(problem, q, p))
     for p in pts[: effort + 2]:
         if late():
             break
-        cands.append((f"levels from {p}", level_ordering(problem, p)))
+        add(f"levels from {p}", level_ordering(problem, p))
     if n <= 20000 and not late(margin=1.0 + n / 10000.0):
         for i, o in enumerate(spectral_orderings(problem)):
-            cands.append((f"spectral {i}", o))
+            add(f"spectral {i}", o)
     scored = sorted(((problem.width(o), i, name, o) for i, (name, o) in enumerate(cands)), key=lambda t: (t[0], t[1]))
     best_w, _, best_name, best = scored[0]
     # greedy growth with the best few constructions as tie-breakers
@@ -400,7 +412,7 @@ def heuristic_ordering(
     stats["construction"] = best_name
     stats["constructions_tried"] = len(cands)
     stats["construction_width"] = best_w
-    if improve:
+    if improve and not reached[0]:
         imp = improve_ordering(problem, best, deadline=deadline, seed=int(rng.integers(2**31)))
         wi = problem.width(imp)
         if wi < best_w:
