@@ -606,3 +606,20 @@ def test_pin_bound_is_networkx_minimum_cut(G, data):
             c = H[u][v]["capacity"] + d["weight"] if H.has_edge(u, v) else d["weight"]
             H.add_edge(u, v, capacity=c)
     assert pin_bound(P) == pytest.approx(nx.minimum_cut_value(H, a, b))
+
+
+def test_sat_falls_back_on_weights_it_cannot_scale():
+    # 0.1 is not a binary fraction with a small denominator: 'sat' hands over to the exact search
+    G = nx.cycle_graph(5)
+    for i, (u, v) in enumerate(G.edges()):
+        G[u][v]["weight"] = 0.1 * (i + 1)
+    want = brute_cutwidth(G)
+    r = sw.cutwidth(G, method="sat")
+    assert r.is_optimal and r.value == pytest.approx(want)
+    assert "fallback" in r.stats["bnb"]
+    r.check(G)
+
+
+def test_sat_refuses_huge_graphs():
+    with pytest.raises(ProblemTooLargeError, match="SAT encoding"):
+        sw.cutwidth(nx.random_regular_graph(3, 1600, seed=1), method="sat", improve=False)

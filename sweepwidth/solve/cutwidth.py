@@ -74,6 +74,7 @@ OPTIONS: dict[str, tuple[str, ...]] = {
 _TINY_DP = 20  # 'auto' uses the DP up to this many unpinned vertices
 _SAT_MAX_N = 400  # 'auto' does not build SAT encodings (n^2 variables) above this
 _BIG = 3000  # above this many vertices 'auto' only runs bounds and heuristics
+_SAT_HARD_N = 1500  # method='sat' refuses larger graphs (the encoding alone would not fit)
 
 Outcome = tuple[float, float, list[int], dict]  # lower, upper, order, stats
 
@@ -141,6 +142,11 @@ def _m_bnb(P, *, lower, upper, upper_order, deadline, seed, max_states=4_000_000
 def _m_sat(P, *, lower, upper, upper_order, deadline, seed, solver="cadical195", sat_options=None, **_):
     from .cutwidth_sat import solve_sat
 
+    if P.n > _SAT_HARD_N:
+        raise ProblemTooLargeError(
+            f"the SAT encoding of {P.n} vertices needs about n^2 = {P.n * P.n} prefix variables "
+            f"(limit {_SAT_HARD_N} vertices); use method='heuristic' or 'bnb'"
+        )
     q = P.integer_scale()
     if q is None:
         raise _NeedsOther("weights are not rationals with a common denominator <= 1000")
@@ -257,7 +263,13 @@ def _solve_part(P: OrderingProblem, method: Any, deadline: float | None, seed: i
         stats["callable"] = dict(getattr(out, "stats", {}) or {})
         return _Part(min(lower, w), w, order, stats, getattr(method, "__name__", "callable"))
     fn = METHODS[method]
-    lo, up, order, st = fn(P, lower=lb, upper=hw, upper_order=horder, deadline=deadline, seed=seed, **opts)
+    try:
+        lo, up, order, st = fn(P, lower=lb, upper=hw, upper_order=horder, deadline=deadline, seed=seed, **opts)
+    except _NeedsOther as err:
+        # 'sat' on weights it cannot scale to integers: the prefix-set search is exact on them
+        lo, up, order, st = _m_bnb(P, lower=lb, upper=hw, upper_order=horder, deadline=deadline, seed=seed)
+        st = dict(st, fallback=f"sat: {err}; used the prefix-set search instead")
+        method = "bnb"
     stats[method] = st
     return _Part(max(lb, lo) if up > lo else up, up, order, stats, method)
 
