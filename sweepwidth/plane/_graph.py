@@ -18,6 +18,7 @@ from __future__ import annotations
 
 import itertools
 import math
+from types import MappingProxyType
 from typing import Any, Callable, Hashable, Iterable, Iterator, Mapping, NamedTuple, Sequence
 
 import networkx as nx
@@ -28,6 +29,8 @@ from ..errors import InvalidEmbeddingError, NonPlanarError, SweepwidthError
 from . import _arrays
 
 __all__ = ["PlaneGraph", "Edge"]
+
+_NO_DATA: Mapping[str, Any] = MappingProxyType({})
 
 
 class Edge(NamedTuple):
@@ -123,7 +126,11 @@ class PlaneGraph:
             self._eu = [int(a) for a, _ in ends]
             self._ev = [int(b) for _, b in ends]
         self._w = weights.astype(float).tolist() if isinstance(weights, np.ndarray) else [float(x) for x in weights]
-        self._edata = [dict(d) for d in edge_data] if edge_data is not None else [{} for _ in range(m)]
+        # edges without attributes share one read-only empty mapping (edge_data() hands out copies)
+        if edge_data is None:
+            self._edata = [_NO_DATA] * m
+        else:
+            self._edata = [dict(d) if d else _NO_DATA for d in edge_data]
         if isinstance(next_dart, np.ndarray) and next_dart.ndim == 1 and next_dart.dtype.kind in "iu":
             pre["next"] = next_dart.astype(np.int64, copy=False)
             self._next = pre["next"].tolist()
