@@ -22,14 +22,20 @@ import time
 import pytest
 from hypothesis import example, given, settings
 from hypothesis import strategies as st
-
-import sweepwidth as sw
-from sweepwidth.generators import cycle_with_chords, delaunay, fan, grid, triangulated_grid, wheel
-from sweepwidth.problems.homotopy import HomotopyProblem
-from sweepwidth.solve.homotopy import homotopy_bounds, homotopy_height
-
 from reference_homotopy import legal_moves, reference_height
 from strategies import plane_graphs, triangulated_disks
+
+import sweepwidth as sw
+from sweepwidth.generators import (
+    cycle_with_chords,
+    delaunay,
+    fan,
+    grid,
+    triangulated_grid,
+    wheel,
+)
+from sweepwidth.problems.homotopy import HomotopyProblem
+from sweepwidth.solve.homotopy import homotopy_bounds, homotopy_height
 
 TINY = plane_graphs(min_vertices=2, max_vertices=5)
 
@@ -215,3 +221,19 @@ def test_ten_thousand_faces_within_a_minute():
     assert time.monotonic() - t0 < 61
     assert r.upper is not None and r.lower <= r.upper
     assert r.check(P) == r.upper
+
+
+def test_interior_start_beats_face_orders():
+    # regression: from an interior curve a homotopy that flips two faces twice (height 4,
+    # brute force) beats every face order (monotone homology width 5), so the monotone
+    # homology width is no lower bound there; the non-monotone one is used
+    P = cycle_with_chords(6, 3, seed=5).dual()
+    start = {"vertex": 0, "darts": [0, 17, 13, 7]}
+    end = {"darts": [0, 5, 7]}
+    H = HomotopyProblem.build(P, start=start, end=end)
+    ref, _ = reference_height(H, 6)
+    assert ref == 4
+    assert sw.homology_width(P, start={0, 8, 6, 3}, end={0, 2, 3}).value == 5  # face orders only
+    r = homotopy_height(P, start=start, end=end, method="bounds")
+    assert r.lower <= 4 <= r.upper and r.check(P) == r.upper
+    assert r.stats["homology"]["monotone"] is False

@@ -19,17 +19,31 @@ import networkx as nx
 import pytest
 from hypothesis import example, given, settings
 from hypothesis import strategies as st
-
-import sweepwidth as sw
-from sweepwidth.errors import InvalidCurveError, SweepwidthError, UnsupportedOptionError, WitnessError
-from sweepwidth.generators import cycle_with_chords, fan, grid, random_tree, triangulated_grid, wheel
-from sweepwidth.plane import PlaneGraph
-from sweepwidth.problems.homotopy import Curve, HomotopyProblem, IllegalMoveError, curve_from_json
-from sweepwidth.solve.homotopy import homotopy_classes_equal, homotopy_height
-from sweepwidth.verify.homotopy import replay_homotopy
-
 from reference_homotopy import legal_moves, reference_height
 from strategies import plane_graphs
+
+import sweepwidth as sw
+from sweepwidth.errors import (
+    InvalidCurveError,
+    SweepwidthError,
+    UnsupportedOptionError,
+    WitnessError,
+)
+from sweepwidth.generators import (
+    grid,
+    random_tree,
+    triangulated_grid,
+    wheel,
+)
+from sweepwidth.plane import PlaneGraph
+from sweepwidth.problems.homotopy import (
+    Curve,
+    HomotopyProblem,
+    IllegalMoveError,
+    curve_from_json,
+)
+from sweepwidth.solve.homotopy import homotopy_classes_equal, homotopy_height
+from sweepwidth.verify.homotopy import replay_homotopy
 
 
 # ------------------------------------------------------------------ parsing

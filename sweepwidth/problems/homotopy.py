@@ -66,7 +66,7 @@ darts for a closed walk (a point counts 1), darts + 1 for an open walk.
 from __future__ import annotations
 
 from dataclasses import dataclass, field
-from typing import Any, Hashable, Iterable, Mapping, NamedTuple, Sequence
+from typing import Any, Iterable, Mapping, NamedTuple, Sequence
 
 from ..errors import InvalidCurveError, SweepwidthError, UnsupportedOptionError
 

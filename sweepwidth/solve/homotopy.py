@@ -14,7 +14,12 @@ Methods
     Lower bound: the homology sweep width with the same start, end and holes
     (:func:`sweepwidth.solve.homology.homology_width`; reducing every walk of
     a homotopy mod 2 gives a homology sweep of no greater width, so the bound
-    is proved), and the lengths of the start and end curves.  Upper bound: an
+    is proved), and the lengths of the start and end curves.  The reduction
+    may toggle a face more than once, so the bound is the *non-monotone*
+    homology width, except from the outer boundary to a point with only the
+    outer face as a hole, where face orders are optimal (Brightwell and
+    Winkler) and the faster monotone width is used.  (From an interior curve a
+    homotopy can beat every face order: see ``test_interior_start_beats_face_orders``.)  Upper bound: an
     explicit homotopy, built by sweeping faces one at a time (below) for
     several face orders, keeping the best.
 'search'
@@ -340,7 +345,6 @@ class _Sweeper:
         if L == 0:
             return []
         df = H.dart_face
-        cost = H.cost
         closed = H.closed
         holes = H.holes
         found: list[_Run] = []
@@ -1133,7 +1137,15 @@ def _homology_lower(
         P = P.with_weights([1.0] * P.number_of_edges())
     z0 = _z2(H.start.darts)
     z1 = _z2(H.end.darts) if H.end is not None else set()
-    kw = {"start": z0, "end": z1, "holes": sorted(H.holes), "time_limit": max(budget * HOMOLOGY_ASK, 0.3)}
+    # Face orders (monotone sweeps) are optimal among all Z2 sweeps only when the width is a
+    # cut function of the swept set (Brightwell-Winkler): from the outer boundary to nothing
+    # with the outer face the only hole.  Otherwise a homotopy's reduction may toggle a face
+    # twice and beat every face order, so only the non-monotone width is a lower bound.
+    disk = (not z1) and H.holes == frozenset({H.graph.outer_face}) and z0 == set(
+        H.graph.face_boundary_cycle(H.graph.outer_face))
+    kw = {"start": z0, "end": z1, "holes": sorted(H.holes), "time_limit": max(budget * HOMOLOGY_ASK, 0.3),
+          "monotone": disk}
+    info["homology_monotone"] = disk
     try:
         if hard_deadline is None or len(H.sweepable_faces) <= HOMOLOGY_INPROCESS_FACES:
             r = homology_width(P, **kw)
@@ -1151,7 +1163,7 @@ def _homology_lower(
                         "seconds": round(r.seconds, 3)}
     if r.status == "infeasible" or r.lower is None:
         return None, info, None
-    order = list(r.witness) if isinstance(r.witness, (list, tuple)) else None
+    order = list(r.witness) if (disk and isinstance(r.witness, (list, tuple))) else None
     return float(r.lower), info, order
 
 
@@ -1271,6 +1283,8 @@ def homotopy_bounds(
     if worker is not None:
         worker.join(None if deadline is None else max(0.0, deadline - time.monotonic()))
     hl, info, _ = hom.get("result", (None, {"homology": "still running at the time limit"}, None))
+    if "homology_monotone" in info and isinstance(info.get("homology"), dict):
+        info["homology"]["monotone"] = info["homology_monotone"]
     if hl is not None:
         extra = 1.0 if (H.length == "vertices" and not H.closed) else 0.0
         if hl + extra > lower:

@@ -229,6 +229,13 @@ def replay_homotopy(
     Examples
     --------
     >>> from sweepwidth.generators import wheel
+    >>> from sweepwidth.solve.homotopy import homotopy_height
+    >>> r = homotopy_height(wheel(4), method="bounds")
+    >>> replay_homotopy(wheel(4), r.witness) == r.upper
+    True
+
+    A flip of one face leaves a walk of four darts, not the point asked for:
+
     >>> P = wheel(3)
     >>> start = {"vertex": P.tail(P.face_darts(P.outer_face)[0]), "darts": P.face_darts(P.outer_face)}
     >>> d = start["darts"][0]
