@@ -623,3 +623,14 @@ def test_sat_falls_back_on_weights_it_cannot_scale():
 def test_sat_refuses_huge_graphs():
     with pytest.raises(ProblemTooLargeError, match="SAT encoding"):
         sw.cutwidth(nx.random_regular_graph(3, 1600, seed=1), method="sat", improve=False)
+
+
+def test_directed_graph_counts_every_arc():
+    # arcs 0->1 (2) and 1->0 (3) both cross the cut between 0 and 1
+    D = nx.DiGraph()
+    D.add_edge(0, 1, weight=2)
+    D.add_edge(1, 0, weight=3)
+    D.add_edge(1, 2)
+    r = sw.cutwidth(D)
+    assert r.value == 5
+    assert r.check(D) == 5

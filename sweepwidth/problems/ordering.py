@@ -96,7 +96,11 @@ class OrderingProblem:
         if not isinstance(G, nx.Graph):
             raise SweepwidthError(f"expected a networkx graph or a PlaneGraph, got {type(G).__name__}")
         if G.is_directed():
-            G = G.to_undirected(as_view=False)
+            # every arc is an edge (u -> v and v -> u both cross the cuts between them)
+            M = nx.MultiGraph()
+            M.add_nodes_from(G.nodes(data=True))
+            M.add_edges_from((u, v, d) for u, v, d in G.edges(data=True))
+            G = M
         labels = tuple(G.nodes())
         index = {v: i for i, v in enumerate(labels)}
         wf = weight_function(weight)

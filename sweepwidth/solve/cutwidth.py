@@ -26,8 +26,10 @@ Methods
                 exact, handles real weights exactly.
 'sat'           incremental SAT (:mod:`.cutwidth_sat`), exact, integral weights
                 (rational weights are scaled by their common denominator).
-'tree'          for forests: the prefix-set search, whose free-move rule
-                places every leaf at no cost; exact.
+'tree'          for forests: the recursive three-branch lower bound
+                (exact on complete binary trees), then the prefix-set search
+                from that bound, whose free-move rule places leaves at no
+                cost; exact.
 'heuristic'     constructions plus local search (:mod:`.ordering_heuristics`)
                 and the lower bounds of :mod:`.ordering_bounds`; bounded.
 callable        ``fn(problem, *, lower, upper, upper_order, deadline, seed,
