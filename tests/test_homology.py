@@ -392,9 +392,9 @@ def test_time_limit_returns_bounded_with_a_witness():
 
     P = generators.delaunay(60, seed=5)
     t = time.monotonic()
-    r = sw.homology_width(P, time_limit=1.5, seed=1)
+    r = sw.homology_width(P, time_limit=1.0, seed=1)
     took = time.monotonic() - t
-    assert took < 1.5 + 1.5
+    assert took < 1.0 + 1.5  # "returns within about a second" of the limit
     assert r.status in ("optimal", "bounded")
     assert r.lower <= r.upper
     assert r.check(P) == pytest.approx(r.upper)
