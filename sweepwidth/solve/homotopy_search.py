@@ -88,6 +88,8 @@ __all__ = ["SearchOutcome", "search_homotopy", "WalkSpec"]
 
 #: default limit on stored states (each costs a few hundred bytes)
 MAX_STATES = 3_000_000
+#: wall-clock budget of the greedy dive (it only looks for an early upper bound)
+DIVE_SECONDS = 0.5
 
 
 @dataclass
@@ -530,7 +532,7 @@ def search_homotopy(
     progress: Callable[[SearchOutcome], None] | None = None,
     lower: float | None = None,
     use_homology: bool = True,
-    dive: int = 4000,
+    dive: int = 400,
     max_states: int = MAX_STATES,
 ) -> SearchOutcome:
     """Exact discrete homotopy height by a bottleneck search over walk states.
@@ -665,8 +667,10 @@ def search_homotopy(
             report()
 
     if dive and (deadline is None or time.monotonic() < deadline):
-        # the dive gets at most a third of the time left
-        dl = None if deadline is None else time.monotonic() + (deadline - time.monotonic()) / 3
+        # the dive gets at most a third of the time left and half a second
+        dl = time.monotonic() + DIVE_SECONDS
+        if deadline is not None:
+            dl = min(dl, time.monotonic() + (deadline - time.monotonic()) / 3)
         r = _run(search, lower=lo, upper=state["upper"], deadline=dl, max_states=max_states, greedy=True,
                  on_upper=on_upper_factory("greedy dive"), on_lower=None, expand_limit=dive)
         stats["dive_states"] = r["settled"]
