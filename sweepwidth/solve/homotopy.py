@@ -86,6 +86,7 @@ from __future__ import annotations
 
 import heapq
 import math
+import pickle
 import time
 from collections import deque
 from typing import Any, Callable, Iterable, Sequence
@@ -1141,8 +1142,9 @@ def _homology_lower(
     # cut function of the swept set (Brightwell-Winkler): from the outer boundary to nothing
     # with the outer face the only hole.  Otherwise a homotopy's reduction may toggle a face
     # twice and beat every face order, so only the non-monotone width is a lower bound.
-    disk = (not z1) and H.holes == frozenset({H.graph.outer_face}) and z0 == set(
-        H.graph.face_boundary_cycle(H.graph.outer_face))
+    # (A monotone homotopy flips each face at most once: its reduction is a face order.)
+    disk = H.monotone or ((not z1) and H.holes == frozenset({H.graph.outer_face}) and z0 == set(
+        H.graph.face_boundary_cycle(H.graph.outer_face)))
     kw = {"start": z0, "end": z1, "holes": sorted(H.holes), "time_limit": max(budget * HOMOLOGY_ASK, 0.3),
           "monotone": disk}
     info["homology_monotone"] = disk
@@ -1152,7 +1154,11 @@ def _homology_lower(
         else:
             from ._deadline import run_limited
 
-            done, r, _ = run_limited(_homology_child, (P, kw), deadline=hard_deadline)
+            try:
+                done, r, _ = run_limited(_homology_child, (P, kw), deadline=hard_deadline)
+            except (TypeError, AttributeError, pickle.PicklingError):
+                # the graph does not pickle: run here under the solver's own time limit
+                done, r = True, homology_width(P, **kw)
             if not done:
                 info["homology"] = "stopped at its time budget without a result"
                 return None, info, None
@@ -1327,11 +1333,11 @@ def _run_search(H: HomotopyProblem, deadline: float | None, upper: float | None,
     else:
         try:
             done, value, reports = run_limited(_search_child, (H, kw), deadline=deadline + 0.4)
-        except (RuntimeError, OSError) as err:
+        except (RuntimeError, OSError, TypeError, AttributeError, pickle.PicklingError) as err:
             if isinstance(err, SweepwidthError):
                 raise
-            # no child process possible here (e.g. a script without a __main__ guard):
-            # the search's own cooperative deadline
+            # no child process possible (a script without a __main__ guard, an argument that
+            # does not pickle): the search's own cooperative deadline, in this process
             done, value, reports = run_limited(_search_child, (H, kw), deadline=None)
             return value, f"finished in this process ({type(err).__name__} starting a child)"
     if done:
