@@ -45,7 +45,7 @@ import time
 import traceback
 from typing import Any, Callable, Mapping
 
-__all__ = ["execute_task", "cancel_all", "OUTCOME_STATUSES"]
+__all__ = ["execute_task", "cancel_all", "quick_bounds", "OUTCOME_STATUSES"]
 
 OUTCOME_STATUSES = ("optimal", "bounded", "infeasible", "timeout", "memory", "error")
 
@@ -137,6 +137,102 @@ def _fast_nested_children() -> None:
         pass
 
 
+def quick_bounds(obj: Any, parameter: str, options: Mapping[str, Any]) -> dict | None:
+    """Cheap proven bounds, reported before the real solve starts.
+
+    * cutwidth: lower bound ``max ceil(w(delta(v)) / 2)`` over unpinned vertices
+      (integral weights; ``w(delta(v)) / 2`` otherwise): the cuts just before
+      and just after ``v`` hold its edges to the left and to the right.  Upper
+      bound: the width of a breadth-first ordering (pins first and last),
+      computed by the independent checker; that ordering is the witness.
+    * homology, and homotopy with ``length='weight'``: lower bound the weight
+      of the start cycle (the Z2 boundary of the outer face) when start, end
+      and holes are the defaults: every sweep begins there.
+
+    Returns None when nothing cheap applies.
+
+    Examples
+    --------
+    >>> import networkx as nx
+    >>> quick_bounds(nx.star_graph(5), "cutwidth", {})["lower"]
+    3
+    """
+    import math as _m
+
+    import networkx as nx
+
+    if parameter == "cutwidth":
+        from ..verify.ordering import ordering_width
+
+        G = obj.to_networkx() if is_plane_like(obj) else obj
+        weight = options.get("weight", "weight")
+        first = options.get("first")
+        last = options.get("last")
+
+        def as_set(x: Any) -> set:
+            if x is None:
+                return set()
+            if isinstance(x, (list, set, frozenset)) or (isinstance(x, tuple) and x not in G):
+                return set(x)
+            return {x}
+
+        A, B = as_set(first), as_set(last)
+        if A & B or not all(v in G for v in A | B):
+            return None
+        wf = (lambda d: 1.0) if weight is None else (lambda d: float(d.get(weight, 1)))
+        deg = {v: 0.0 for v in G}
+        integral = True
+        edges = G.edges(data=True) if not G.is_multigraph() else ((u, v, d) for u, v, _k, d in G.edges(keys=True, data=True))
+        for u, v, d in edges:
+            if u == v:
+                continue
+            w = wf(d)
+            integral = integral and float(w).is_integer()
+            deg[u] += w
+            deg[v] += w
+        free = [v for v in G if v not in A and v not in B]
+        if free:
+            lower: float = max((_m.ceil(deg[v] / 2) if integral else deg[v] / 2) for v in free)
+        else:
+            lower = 0
+        middle = [v for v in _bfs_order(G) if v not in A and v not in B]
+        order = sorted(A, key=repr) + middle + sorted(B, key=repr)
+        upper = ordering_width(G, order, weight, first=sorted(A, key=repr) or None, last=sorted(B, key=repr) or None)
+        lower = min(lower, upper)
+        return {
+            "lower": lower,
+            "upper": upper,
+            "witness": order,
+            "how": {"lower": "degree bound", "upper": "breadth-first ordering, width by the independent checker"},
+        }
+    if parameter in ("homology", "homotopy") and is_plane_like(obj):
+        if any(options.get(k) is not None for k in ("start", "end", "holes", "s", "t")):
+            return None
+        if parameter == "homotopy" and options.get("length", "weight") != "weight":
+            return None
+        start = sum(obj.weight(e) for e in obj.face_boundary_cycle(obj.outer_face))
+        return {"lower": start, "upper": None, "witness": None, "how": {"lower": "weight of the start cycle"}}
+    return None
+
+
+def is_plane_like(obj: Any) -> bool:
+    return hasattr(obj, "outer_face") and hasattr(obj, "face_boundary_cycle")
+
+
+def _bfs_order(G: Any) -> list:
+    import networkx as nx
+
+    order: list = []
+    seen: set = set()
+    for comp in sorted(nx.connected_components(G), key=lambda c: -len(c)):
+        root = min(comp, key=lambda v: (G.degree(v), repr(v)))
+        for v in [root] + [b for _a, b in nx.bfs_edges(G, root)]:
+            if v not in seen:
+                seen.add(v)
+                order.append(v)
+    return order
+
+
 def _import_preloaded() -> None:
     """Import the solver stack before the clock starts (instant after a forkserver preload)."""
     import importlib
@@ -181,6 +277,14 @@ def _body(task: Mapping[str, Any], send: Callable[[list], None]) -> None:
                 send(["progress", _bounds_of(p)])
             except Exception:  # a report that cannot be sent is dropped, not fatal
                 pass
+
+        if task.get("quick_bounds", True):
+            try:
+                qb = quick_bounds(obj, task["parameter"], task.get("options") or {})
+            except Exception:  # noqa: BLE001 - bounds are a courtesy; the solve goes on
+                qb = None
+            if qb is not None:
+                send(["progress", qb])
 
         if task.get("solver"):
             fn = _import_solver(str(task["solver"]))
@@ -363,7 +467,9 @@ def execute_task(task: Any, *, isolation: str = "auto") -> dict:
     dict
         ``status`` (one of :data:`OUTCOME_STATUSES`), ``value``, ``lower``,
         ``upper``, ``seconds`` (the solver's own time, else the wall time),
-        ``wall`` (seconds including process start), ``method`` (what the
+        ``wall`` (seconds including process start), ``startup`` (seconds
+        until the child was ready) and ``after_start`` (seconds from then to
+        the end; the hard limit bounds this one), ``method`` (what the
         solver says it ran), ``message``, ``checked`` (the width recomputed by
         the independent checker, or None), ``check_error``, ``result`` (the
         result dict, or the last progress report) and ``exitcode``.
@@ -415,7 +521,7 @@ def execute_task(task: Any, *, isolation: str = "auto") -> dict:
             if msg[0] == "started":
                 started = time.monotonic()
             elif msg[0] == "progress":
-                last = msg[1]
+                last = _merge_bounds(last, msg[1])
             else:
                 final = msg
     finally:
@@ -424,8 +530,31 @@ def execute_task(task: Any, *, isolation: str = "auto") -> dict:
         code = chan.close()
         with _ACTIVE_LOCK:
             _ACTIVE.pop(ident, None)
-    wall = time.monotonic() - t0
-    return _outcome(t, final, last, killed, code, wall)
+    end = time.monotonic()
+    wall = end - t0
+    out = _outcome(t, final, last, killed, code, wall)
+    out["startup"] = (started - t0) if started is not None else None
+    out["after_start"] = (end - started) if started is not None else None
+    return out
+
+
+def _merge_bounds(old: dict | None, new: Mapping[str, Any]) -> dict:
+    """Keep the best proven bounds over all reports: the largest lower, the smallest upper (with its witness)."""
+    if old is None:
+        return dict(new)
+    out = dict(old)
+    lo_new, up_new = new.get("lower"), new.get("upper")
+    if lo_new is not None and (out.get("lower") is None or float(lo_new) > float(out["lower"])):
+        out["lower"] = lo_new
+        out.setdefault("how", {})
+    if up_new is not None and (out.get("upper") is None or float(up_new) < float(out["upper"])):
+        out["upper"] = up_new
+        out["witness"] = new.get("witness")
+    how = dict(old.get("how") or {})
+    how.update({k: v for k, v in (new.get("how") or {}).items() if (k == "lower" and out.get("lower") == lo_new) or (k == "upper" and out.get("upper") == up_new)})
+    if how:
+        out["how"] = how
+    return out
 
 
 def _outcome(t: Mapping[str, Any], final: list | None, last: dict | None, killed: bool, code: int | None, wall: float) -> dict:
@@ -485,9 +614,9 @@ def _outcome(t: Mapping[str, Any], final: list | None, last: dict | None, killed
         if t.get("memory_mb") and sig in (signal.SIGKILL, signal.SIGSEGV, signal.SIGABRT, signal.SIGBUS):
             from_progress("memory", f"child died with {name}, taken as running out of its {t.get('memory_mb')} MiB")
         else:
-            from_progress("error", f"child died with {name}")
+            out["message"] = f"child died with {name}"
     else:
-        from_progress("error", f"child exited with code {code} without reporting")
+        out["message"] = f"child exited with code {code} without reporting"
     return out
 
 

@@ -77,6 +77,10 @@ class Task:
         Address-space limit of the child process.
     grace : float
         Extra seconds before the child is killed.
+    quick_bounds : bool
+        Before solving, the child reports cheap proven bounds (see
+        :func:`sweepwidth.bench.child.quick_bounds`), so that a task killed
+        at its hard limit still records a bracket.
     solver : str or None
         ``"module:function"`` of a solver to run instead of the library's
         entry point for ``parameter``: ``fn(obj, *, method, time_limit, seed,
@@ -97,6 +101,7 @@ class Task:
     memory_mb: int | None = DEFAULT_MEMORY_MB
     grace: float = 5.0
     solver: str | None = None
+    quick_bounds: bool = True
     name: str = ""
     known: Mapping[str, Any] = field(default_factory=dict)
 
@@ -110,6 +115,7 @@ class Task:
             "time_limit": self.time_limit,
             "memory_mb": self.memory_mb,
             **({"solver": self.solver} if self.solver else {}),
+            **({} if self.quick_bounds else {"quick_bounds": False}),
         }
 
     def config_hash(self) -> str:
