@@ -13,7 +13,6 @@ import pytest
 from hypothesis import example, given, settings
 from hypothesis import strategies as st
 
-import sweepwidth as sw
 from sweepwidth import generators
 from sweepwidth.errors import (
     CrossingEdgesError,

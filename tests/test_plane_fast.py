@@ -14,7 +14,6 @@ import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
-import sweepwidth as sw
 from sweepwidth import generators
 from sweepwidth.errors import SweepwidthError
 from sweepwidth.plane import PlaneGraph, _arrays

@@ -1,22 +1,17 @@
 """Reading and writing plane graphs and graphs: our JSON document and common exchange formats.
 
-Formats (``format=`` names, file extensions, and what ``read`` returns):
+Formats (``format=`` name: file extensions -> what ``read`` returns):
 
-=============  =========================  ==============================================
-name           extensions                 read returns
-=============  =========================  ==============================================
-``json``       ``.json``                  PlaneGraph (``sweepwidth-plane`` document) or a
-                                          networkx graph (``sweepwidth-graph`` document)
-``gr``         ``.gr``                    PlaneGraph when connected and planar, else a
-                                          networkx graph (embedding from networkx)
-``planar_code`` ``.plc``, ``.pc``,        PlaneGraph (the first graph; all graphs with
-               ``.planar_code``           :func:`read_all`)
-``off``        ``.off``                   PlaneGraph (``from_faces``)
-``obj``        ``.obj``                   PlaneGraph (``from_faces``)
-``graphml``    ``.graphml``, ``.xml``     PlaneGraph (rotation, x/y drawing, or networkx
-                                          embedding when connected and planar), else a
-                                          networkx graph
-=============  =========================  ==============================================
+* ``json``: ``.json`` -> a PlaneGraph (``sweepwidth-plane`` document) or a
+  networkx graph (``sweepwidth-graph`` document);
+* ``gr``: ``.gr`` -> a PlaneGraph when connected and planar (embedding from
+  networkx), else a networkx graph;
+* ``planar_code``: ``.plc``, ``.pc``, ``.planar_code`` -> a PlaneGraph (the
+  first graph; every graph with :func:`read_all`);
+* ``off``, ``obj``: ``.off``, ``.obj`` -> a PlaneGraph (``from_faces``);
+* ``graphml``: ``.graphml``, ``.xml`` -> a PlaneGraph (our rotation
+  attributes, an x/y drawing, or networkx's embedding when connected and
+  planar), else a networkx graph.
 
 ``kind='plane'`` forces a PlaneGraph (an error when the file's graph is not
 connected and planar); ``kind='graph'`` always returns a networkx graph
@@ -39,7 +34,6 @@ from __future__ import annotations
 import os
 from typing import Any, Callable
 
-import networkx as nx
 
 from ..errors import FileFormatError, SweepwidthError, UnsupportedOptionError
 from ..plane import PlaneGraph

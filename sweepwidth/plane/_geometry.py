@@ -19,7 +19,6 @@ def drawing_rotation(
     Raises CrossingEdgesError when two edges cross, overlap, or an edge runs
     through a vertex; InvalidEmbeddingError when two vertices coincide.
     """
-    n = xy.shape[0]
     m = len(ends)
     if m == 0:
         return [], None

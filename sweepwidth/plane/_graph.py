@@ -19,7 +19,7 @@ from __future__ import annotations
 import itertools
 import math
 from types import MappingProxyType
-from typing import Any, Callable, Hashable, Iterable, Iterator, Mapping, NamedTuple, Sequence
+from typing import Any, Callable, Hashable, Mapping, NamedTuple, Sequence
 
 import networkx as nx
 import numpy as np
