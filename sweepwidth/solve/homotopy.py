@@ -25,9 +25,10 @@ Methods
 'search'
     The exact bottleneck search of :mod:`sweepwidth.solve.homotopy_search`.
 'auto'
-    'bounds' first; when a gap remains and the instance is small enough, the
-    exact search (given the constructed homotopy as its upper bound) in the
-    time left.  ``stats['auto']`` says what ran and why.
+    'bounds' first; when a gap remains, the exact search (given the
+    constructed homotopy as its upper bound) in the time left (without a time
+    limit only up to ``AUTO_SEARCH_FACES`` sweepable faces).
+    ``stats['auto']`` says what ran and why.
 
 Constructing a homotopy
 -----------------------
@@ -105,7 +106,8 @@ __all__ = [
 
 METHODS = ("auto", "bounds", "search")
 
-#: 'auto' runs the exact search after the bounds only up to this many sweepable faces
+#: without a time limit, 'auto' runs the exact search after the bounds only up to
+#: this many sweepable faces (with a limit it always uses the time left)
 AUTO_SEARCH_FACES = 40
 #: share of the time limit given to the homology lower bound in 'bounds' (it runs beside the constructions)
 HOMOLOGY_SHARE = 0.6
@@ -1481,10 +1483,17 @@ def homotopy_height(
         why = None
         if method == "auto":
             nf = len(H.sweepable_faces)
-            if nf > AUTO_SEARCH_FACES:
-                why = f"exact search skipped: {nf} sweepable faces > {AUTO_SEARCH_FACES}"
-            elif deadline is not None and time.monotonic() > deadline - 0.2:
+            if deadline is None and nf > AUTO_SEARCH_FACES:
+                why = f"exact search skipped: {nf} sweepable faces > {AUTO_SEARCH_FACES} and no time limit"
+            elif deadline is not None and time.monotonic() > deadline - 0.3:
                 why = "exact search skipped: no time left"
+        elif upper is None:
+            # a quick constructed homotopy first, so that a stopped search still has an upper bound
+            quick = None if deadline is None else time.monotonic() + 0.15 * (deadline - time.monotonic())
+            got = construct_homotopy(H, _bfs_rank(H), greedy=True, deadline=quick)
+            if got is not None:
+                upper, witness = got
+                bounds["upper"] = "constructed homotopy (greedy by length)"
         if why is None:
             out, note = _run_search(H, deadline, upper, witness, lower)
             if out is None:
