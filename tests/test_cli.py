@@ -19,8 +19,20 @@ VERBS = ["solve", "bench", "check", "dual", "convert", "draw", "export", "demo"]
 
 
 def run(*args, cwd=None, timeout=240):
+    """The command in a fresh interpreter: ``python -m sweepwidth ARGS``."""
     p = subprocess.run([sys.executable, "-m", "sweepwidth", *map(str, args)], capture_output=True, text=True, cwd=cwd, timeout=timeout)
     return p.returncode, p.stdout, p.stderr
+
+
+def run_here(capsys, *args):
+    """The same command through :func:`sweepwidth.cli.main` in this process (no interpreter start)."""
+    capsys.readouterr()
+    try:
+        rc = main([str(a) for a in args])
+    except SystemExit as exc:
+        rc = exc.code
+    cap = capsys.readouterr()
+    return rc, cap.out, cap.err
 
 
 @pytest.fixture(scope="module")
@@ -57,7 +69,7 @@ def test_parser_knows_every_verb():
 
 
 # ------------------------------------------------------------ solve, check
-def test_solve_table_json_and_save_then_check(files, tmp_path):
+def test_solve_table_json_and_save_then_check(files, tmp_path, capsys):
     rc, out, err = run("solve", files / "grid.json", files / "c6.json")
     assert rc == 0, err
     lines = out.splitlines()
@@ -69,7 +81,7 @@ def test_solve_table_json_and_save_then_check(files, tmp_path):
     assert c6[3] == "2"  # cw(C_n) = 2 (common practice)
 
     save = tmp_path / "saved"
-    rc, out, err = run("solve", files / "wheel.json", "--param", "cutwidth,homology", "--json", "--save", save)
+    rc, out, err = run_here(capsys, "solve", files / "wheel.json", "--param", "cutwidth,homology", "--json", "--save", save)
     assert rc == 0, err
     objs = [json.loads(l) for l in out.splitlines()]
     assert [o["parameter"] for o in objs] == ["cutwidth", "homology"]
@@ -80,7 +92,7 @@ def test_solve_table_json_and_save_then_check(files, tmp_path):
     assert objs[1]["value"] == dual_cw.value
     saved = sorted(os.listdir(save))
     assert saved == ["wheel.cutwidth.json", "wheel.homology.json"]
-    rc, out, err = run("check", *(save / f for f in saved))
+    rc, out, err = run_here(capsys, "check", *(save / f for f in saved))
     assert rc == 0, err
     assert out.count(": ok: ") == 2
 
@@ -93,9 +105,9 @@ def _tamper(path, change, redigest):
     path.write_text(json.dumps(doc))
 
 
-def test_check_refuses_tampered_results(files, tmp_path):
+def test_check_refuses_tampered_results(files, tmp_path, capsys):
     good = tmp_path / "r.json"
-    rc, out, err = run("solve", files / "grid.json", "-o", good)
+    rc, out, err = run_here(capsys, "solve", files / "grid.json", "-o", good)
     assert rc == 0, err
     # 1. a lower upper bound with a recomputed digest: the replay finds the real width
     low = tmp_path / "low.json"
@@ -121,7 +133,7 @@ def test_check_refuses_tampered_results(files, tmp_path):
     assert "REFUSED" in verdicts["low.json"] and "width 4" in verdicts["low.json"]
     assert "REFUSED" in verdicts["swapped.json"] and "edited" in verdicts["swapped.json"]
     assert "REFUSED" in verdicts["short.json"]
-    rc, out, err = run("check", good, "--instance", files / "wheel.json")
+    rc, out, err = run_here(capsys, "check", good, "--instance", files / "wheel.json")
     assert rc == 1 and "not the one" in out
 
 
@@ -132,11 +144,11 @@ def test_check_with_recompute(files, tmp_path):
 
 
 # ------------------------------------------------------------ bad input
-def test_bad_file_is_one_line(files):
+def test_bad_file_is_one_line(files, capsys):
     rc, out, err = run("solve", files / "broken.json")
     line = _one_line_error(rc, err)
     assert "broken.json" in line
-    rc, out, err = run("solve", files / "missing.json")
+    rc, out, err = run_here(capsys, "solve", files / "missing.json")
     assert "no such file" in _one_line_error(rc, err)
 
 
@@ -172,7 +184,7 @@ def test_bad_options_are_one_line(argv, needle, code, files, tmp_path, capsys):
 
 
 # ------------------------------------------------------ bench and export
-def test_bench_then_resume_then_export(files, tmp_path):
+def test_bench_then_resume_then_export(files, tmp_path, capsys):
     db = tmp_path / "runs.sqlite"
     folder = tmp_path / "set"
     folder.mkdir()
@@ -182,7 +194,7 @@ def test_bench_then_resume_then_export(files, tmp_path):
     assert rc == 0, err
     assert "4 task(s) run, 0 skipped" in out
     assert "median s" in out
-    rc, out, err = run("bench", folder, "--param", "cutwidth,homology", "--time-limit", "20", "--db", db, "--resume", "--quiet")
+    rc, out, err = run_here(capsys, "bench", folder, "--param", "cutwidth,homology", "--time-limit", "20", "--db", db, "--resume", "--quiet")
     assert rc == 0, err
     assert "0 task(s) run, 4 skipped" in out
     csv_path = tmp_path / "runs.csv"
@@ -192,23 +204,24 @@ def test_bench_then_resume_then_export(files, tmp_path):
 
     rows = list(csv.DictReader(csv_path.open()))
     assert len(rows) == 4 and all(r["status"] == "optimal" for r in rows)
-    rc, out, err = run("export", "--db", db, "--format", "jsonl", "--param", "homology")
+    rc, out, err = run_here(capsys, "export", "--db", db, "--format", "jsonl", "--param", "homology")
     assert rc == 0, err
     got = [json.loads(l) for l in out.splitlines()]
     assert len(got) == 2 and all(g["parameter"] == "homology" and g["result"]["witness"] for g in got)
 
 
 # ------------------------------------------------------ dual, convert, draw
-def test_dual_and_convert(files, tmp_path):
+def test_dual_and_convert(files, tmp_path, capsys):
     rc, out, err = run("dual", files / "grid.json", "-o", tmp_path / "d.json")
     assert rc == 0, err
     D = sw.read(str(tmp_path / "d.json"))
     P = sw.read(str(files / "grid.json"))
     # the dual has one vertex per face and one edge per edge (CHECKS.md, Euler)
     assert D.number_of_vertices() == P.number_of_faces() and D.number_of_edges() == P.number_of_edges()
-    rc, out, err = run("dual", files / "wheel.json")
+    rc, out, err = run_here(capsys, "dual", files / "wheel.json")
     assert rc == 0 and "dual:" in out
-    assert main(["convert", str(files / "grid.json"), str(tmp_path / "g.gr")]) == 0
+    rc, out, err = run("convert", files / "grid.json", tmp_path / "g.gr")
+    assert rc == 0, err
     G = sw.read(str(tmp_path / "g.gr"), kind="graph")
     assert nx.is_isomorphic(nx.Graph(G), nx.grid_2d_graph(3, 4))  # networkx as the reference
 
