@@ -237,3 +237,26 @@ def test_interior_start_beats_face_orders():
     r = homotopy_height(P, start=start, end=end, method="bounds")
     assert r.lower <= 4 <= r.upper and r.check(P) == r.upper
     assert r.stats["homology"]["monotone"] is False
+
+
+def test_degenerate_graphs():
+    import networkx as nx
+
+    from sweepwidth.plane import PlaneGraph
+
+    G = nx.Graph()
+    G.add_node("a")
+    one = PlaneGraph.from_graph(G)
+    # a point is already the end: height 0 with no move, also for simple homotopies (regression)
+    for kw in ({}, {"simple": True}):
+        r = homotopy_height(one, **kw)
+        assert r.status == "optimal" and r.value == 0 and r.check(one) == 0
+    assert homotopy_height(one, length="vertices").value == 1  # a point visits one vertex (spec)
+    edge = PlaneGraph.from_graph(nx.path_graph(2))
+    r = homotopy_height(edge)
+    assert r.value == 2 and r.check(edge) == 2  # the boundary walk u-v-u, then one unspike
+    # without spikes the walk u-v-u cannot shrink: no face has it on its boundary as a flip needs
+    # (the tree's only face is the outer one, a hole); brute force agrees
+    r = homotopy_height(edge, spikes=False)
+    assert r.status != "optimal"
+    assert _ref(edge, 10, spikes=False) is None

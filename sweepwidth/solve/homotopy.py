@@ -244,7 +244,7 @@ def homotopy_classes_equal(problem: HomotopyProblem) -> tuple[bool, str]:
     >>> homotopy_classes_equal(H)[0]     # the outer boundary winds around the hole
     False
     """
-    if problem.simple:
+    if problem.simple and not problem.is_end(problem.start):
         if not problem.is_simple(problem.start):
             return False, "simple homotopy: the start curve is not a simple cycle or path"
         if problem.end is not None and problem.end.darts and not problem.is_simple(problem.end):
