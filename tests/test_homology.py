@@ -391,6 +391,9 @@ def test_time_limit_returns_bounded_with_a_witness():
     import time
 
     P = generators.delaunay(60, seed=5)
+    # warm-up: the first call in a process also imports the engine and loads or compiles
+    # its numba kernels (seconds when another change invalidated the cache)
+    sw.homology_width(P, time_limit=1.0, seed=1)
     t = time.monotonic()
     r = sw.homology_width(P, time_limit=1.0, seed=1)
     took = time.monotonic() - t
