@@ -122,7 +122,7 @@ SMALL_FACES = 2000
 #: (a child process costs about 1.5 s to start on a loaded machine)
 HOMOLOGY_INPROCESS_FACES = 200
 #: homology budget (s) when no time limit is given
-HOMOLOGY_DEFAULT_BUDGET = 20.0
+HOMOLOGY_DEFAULT_BUDGET = 8.0
 
 _EPS = 1e-9
 
@@ -1090,6 +1090,9 @@ def construct_homotopy(
             height = max(height, _replay_height(H, end, red))
     elif W.darts:
         return None
+    if not all(float(x).is_integer() for x in H.cost):
+        # lengths were updated incrementally: recompute them exactly as sums along each walk
+        height = _replay_height(H, H.start, moves)
     witness = {"start": H.to_json(H.start), "moves": moves}
     return height, witness
 
