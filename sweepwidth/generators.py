@@ -84,7 +84,7 @@ def triangulated_grid(k: int, *, diagonal: str = "main") -> PlaneGraph:
     return PlaneGraph.from_faces(faces, pos=pos, meta={"name": f"trigrid-{k}"})
 
 
-def delaunay(n: int, *, seed: int | None = None) -> PlaneGraph:
+def delaunay(n: int, *, seed: int | np.random.Generator | None = None) -> PlaneGraph:
     """The Delaunay triangulation of ``n`` uniform random points in the unit square (scipy).
 
     A triangulated disk whose outer face is the convex hull.

@@ -161,8 +161,8 @@ def _is_num(x: Any) -> bool:
 
 def _parse_dart(s: Any, m: int, where: str, path: Any) -> int:
     try:
-        e, end = str(s).split(":")
-        e, end = int(e), int(end)
+        a, b = str(s).split(":")
+        e, end = int(a), int(b)
     except ValueError:
         fail(f"{where}: expected a dart 'edge:end', got {str(s)[:40]!r}", path=path)
     if not (0 <= e < m and end in (0, 1)):

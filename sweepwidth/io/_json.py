@@ -21,7 +21,7 @@ from __future__ import annotations
 
 import json
 import math
-from typing import Any, Hashable, Mapping
+from typing import Any, Hashable, Mapping, NoReturn
 
 import networkx as nx
 import numpy as np
@@ -249,7 +249,7 @@ class _Reader:
     def __init__(self, path: Any) -> None:
         self.path = path
 
-    def fail(self, where: str, message: str) -> None:
+    def fail(self, where: str, message: str) -> NoReturn:
         fail(f"{where}: {message}", path=self.path)
 
     def get(self, obj: Mapping, key: str, types: type | tuple, where: str, *, required: bool = True) -> Any:
@@ -420,7 +420,7 @@ def _build_plane(R, doc, labels, ends, weights, data) -> PlaneGraph:  # type: ig
     path = R.path
     n, m = len(labels), len(ends)
     meta = _meta_common(R, doc)
-    pos = None
+    pos: dict[Hashable, tuple[float, float]] | None = None
     raw_p = R.get(doc, "positions", list, "", required=False)
     if raw_p is not None:
         if len(raw_p) != n:

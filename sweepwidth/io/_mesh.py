@@ -331,7 +331,7 @@ def write_mesh(P: PlaneGraph, fmt: str, **_: Any) -> bytes:
     head = ["# written by sweepwidth"]
     if P.pos is None:
         head.append("# @no-positions")
-        xy = [(0.0, 0.0)] * n
+        xy: list[tuple[float, ...]] = [(0.0, 0.0)] * n
     else:
         xy = [tuple(P.pos.get(P.label(i), (0.0, 0.0))) for i in range(n)]
     if outer_k is not None:

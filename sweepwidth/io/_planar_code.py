@@ -28,7 +28,7 @@ such) and weights are 1.
 
 from __future__ import annotations
 
-from typing import Any, Sequence
+from typing import Any, Literal, Sequence, cast
 
 from ..errors import InvalidEmbeddingError, SweepwidthError
 from ..plane import PlaneGraph
@@ -98,7 +98,7 @@ def read_planar_code(
             break
     else:
         fail(f"expected the header {HEADER.decode()!r} (optionally with ' le' or ' be')", path=path, offset=0)
-    order = order or endian or "little"
+    order = cast(Literal["little", "big"], order or endian or "little")
     graphs: list[PlaneGraph] = []
     size = len(data)
     while pos < size and (limit is None or len(graphs) < limit):
@@ -210,7 +210,7 @@ def write_planar_code(
         from ..errors import UnsupportedOptionError
 
         raise UnsupportedOptionError("endian", endian, ["little", "big"])
-    order = endian or "little"
+    order = cast(Literal["little", "big"], endian or "little")
     bodies = []
     any_wide = False
     for k, P in enumerate(graphs):

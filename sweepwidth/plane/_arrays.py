@@ -87,7 +87,7 @@ def cycles(perm: np.ndarray, inverse: np.ndarray) -> tuple[np.ndarray, np.ndarra
     return head, rank
 
 
-class Ragged:
+class Ragged(Sequence):  # type: ignore[type-arg]
     """A read-only list of int lists stored flat: ``R[i]`` is a fresh list, slices of one flat list.
 
     Stands in for the list of lists of the plain path (``len``, indexing,
@@ -103,7 +103,7 @@ class Ragged:
     def __len__(self) -> int:
         return len(self._off) - 1
 
-    def __getitem__(self, i: int) -> list[int]:
+    def __getitem__(self, i: int) -> list[int]:  # type: ignore[override]
         if i < 0:
             i += len(self._off) - 1
         if not 0 <= i < len(self._off) - 1:
@@ -117,7 +117,7 @@ class Ragged:
 
     def __eq__(self, other: object) -> bool:
         try:
-            return len(self) == len(other) and all(a == b for a, b in zip(self, other))  # type: ignore[arg-type]
+            return len(self) == len(other) and all(a == b for a, b in zip(self, other))  # type: ignore
         except TypeError:
             return NotImplemented
 

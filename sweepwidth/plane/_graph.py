@@ -84,18 +84,36 @@ class PlaneGraph:
         "_arr",
     )
 
+    _labels: list[Hashable]
+    _index: dict[Hashable, int]
+    _eu: list[int]
+    _ev: list[int]
+    _w: list[float]
+    _edata: list[Mapping[str, Any]]
+    _next: list[int]
+    _prev: list[int]
+    _dface: list[int]
+    _faces: "Sequence[list[int]]"
+    _outer: int
+    _out: "Sequence[list[int]]"
+    pos: dict[Hashable, tuple[float, float]] | None
+    meta: dict[str, Any]
+    _dual_outer_vertex: Hashable | None
+    face_to_primal_vertex: dict[int, Hashable] | None
+    _arr: dict[str, np.ndarray] | None
+
     # ------------------------------------------------------------------ core
     def __init__(
         self,
         labels: Sequence[Hashable],
-        ends: Sequence[tuple[int, int]],
-        weights: Sequence[float],
-        next_dart: Sequence[int],
+        ends: Sequence[tuple[int, int]] | np.ndarray,
+        weights: Sequence[float] | np.ndarray,
+        next_dart: Sequence[int] | np.ndarray,
         *,
         outer: int | None = None,
         outer_dart: int | None = None,
-        pos: Mapping[Hashable, tuple[float, float]] | None = None,
-        edge_data: Sequence[dict] | None = None,
+        pos: Mapping[Any, tuple[float, float]] | None = None,
+        edge_data: Sequence[Mapping[str, Any]] | None = None,
         meta: Mapping[str, Any] | None = None,
     ) -> None:
         """Low-level constructor from vertex indices; prefer the ``from_*`` class methods.
@@ -136,11 +154,11 @@ class PlaneGraph:
             self._next = pre["next"].tolist()
         else:
             self._next = [int(x) for x in next_dart]
-        self._arr: dict[str, np.ndarray] | None = None
+        self._arr = None
         self.pos = dict(pos) if pos is not None else None
         self.meta = dict(meta) if meta else {}
-        self._dual_outer_vertex: Hashable | None = None
-        self.face_to_primal_vertex: dict[int, Hashable] | None = None
+        self._dual_outer_vertex = None
+        self.face_to_primal_vertex = None
         if len(self._w) != m:
             raise InvalidEmbeddingError(f"{m} edges but {len(self._w)} weights")
         if len(self._next) != 2 * m:
@@ -710,12 +728,12 @@ class PlaneGraph:
             cy[self._outer] = float(ys.max()) + 0.25 * span
             return dict(enumerate(zip(cx.tolist(), cy.tolist())))
         pts: dict[int, tuple[float, float]] = {}
-        xs = [p[0] for p in self.pos.values()]
-        ys = [p[1] for p in self.pos.values()]
+        lx = [p[0] for p in self.pos.values()]
+        ly = [p[1] for p in self.pos.values()]
         for f, walk in enumerate(self._faces):
             if f == self._outer:
-                span = max(max(xs) - min(xs), max(ys) - min(ys), 1.0)
-                pts[f] = (max(xs) + 0.25 * span, max(ys) + 0.25 * span)
+                span = max(max(lx) - min(lx), max(ly) - min(ly), 1.0)
+                pts[f] = (max(lx) + 0.25 * span, max(ly) + 0.25 * span)
                 continue
             vs = [self.pos[self.tail(d)] for d in walk]
             pts[f] = (sum(p[0] for p in vs) / len(vs), sum(p[1] for p in vs) / len(vs))
@@ -725,12 +743,12 @@ class PlaneGraph:
     @classmethod
     def from_rotation(
         cls,
-        rotation: Mapping[Hashable, Sequence[Any]],
+        rotation: Mapping[Any, Sequence[Any]],
         *,
         edges: Mapping[int, tuple[Hashable, Hashable]] | Sequence[tuple[Hashable, Hashable]] | None = None,
-        weights: Mapping[int, float] | Sequence[float] | None = None,
+        weights: Mapping[Any, float] | Sequence[float] | None = None,
         outer: Any = None,
-        pos: Mapping[Hashable, tuple[float, float]] | None = None,
+        pos: Mapping[Any, tuple[float, float]] | None = None,
         meta: Mapping[str, Any] | None = None,
     ) -> "PlaneGraph":
         """Build from the counterclockwise order of edges at each vertex.
@@ -915,7 +933,7 @@ class PlaneGraph:
         weights: Any = None,
         weight: str | Callable | None = "weight",
         outer: Any = None,
-        pos: Mapping[Hashable, tuple[float, float]] | None = None,
+        pos: Mapping[Any, tuple[float, float]] | None = None,
         meta: Mapping[str, Any] | None = None,
     ) -> "PlaneGraph":
         """Build from a networkx ``PlanarEmbedding`` (simple graphs only).
@@ -1052,7 +1070,7 @@ class PlaneGraph:
         *,
         outer: int | None = None,
         weights: Mapping[tuple[Hashable, Hashable], float] | None = None,
-        pos: Mapping[Hashable, tuple[float, float]] | None = None,
+        pos: Mapping[Any, tuple[float, float]] | None = None,
         meta: Mapping[str, Any] | None = None,
     ) -> "PlaneGraph":
         """Build from the vertex cycles of a mesh of a disk or a sphere.
@@ -1091,7 +1109,7 @@ class PlaneGraph:
             built = cls._from_faces_fast(faces, outer=outer, weights=weights, pos=pos, meta=meta)
             if built is not None:
                 return built
-        return cls._from_faces_slow(faces, outer=outer, weights=weights, pos=pos, meta=meta)
+        return cls._from_faces_slow(faces, outer=outer, weights=weights, pos=pos, meta=meta)  # type: ignore[arg-type]
 
     @classmethod
     def _from_faces_fast(
@@ -1100,7 +1118,7 @@ class PlaneGraph:
         *,
         outer: int | None = None,
         weights: Mapping[tuple[Hashable, Hashable], float] | None = None,
-        pos: Mapping[Hashable, tuple[float, float]] | None = None,
+        pos: Mapping[Any, tuple[float, float]] | None = None,
         meta: Mapping[str, Any] | None = None,
     ) -> "PlaneGraph | None":
         """``from_faces`` with numpy; None when the mesh is invalid (the plain path then says why)."""
@@ -1183,7 +1201,7 @@ class PlaneGraph:
         *,
         outer: int | None = None,
         weights: Mapping[tuple[Hashable, Hashable], float] | None = None,
-        pos: Mapping[Hashable, tuple[float, float]] | None = None,
+        pos: Mapping[Any, tuple[float, float]] | None = None,
         meta: Mapping[str, Any] | None = None,
     ) -> "PlaneGraph":
         """The plain-loop ``from_faces`` (reference for the vectorised one, and its error messages)."""
@@ -1261,12 +1279,12 @@ class PlaneGraph:
         wts = [1.0] * m
         if weights:
             for (u, v), w in weights.items():
-                d = dart_of.get((index.get(u, -1), index.get(v, -1)))
-                if d is None:
-                    d = dart_of.get((index.get(v, -1), index.get(u, -1)))
-                if d is None:
+                hit = dart_of.get((index.get(u, -1), index.get(v, -1)))
+                if hit is None:
+                    hit = dart_of.get((index.get(v, -1), index.get(u, -1)))
+                if hit is None:
                     raise InvalidEmbeddingError(f"weight given for ({u!r}, {v!r}), which is not an edge of the mesh")
-                wts[d >> 1] = check_weight(w, f"edge ({u!r}, {v!r})")
+                wts[hit >> 1] = check_weight(w, f"edge ({u!r}, {v!r})")
         outer_dart: int | None = None
         if outer is not None:
             if not 0 <= outer < given:
@@ -1283,7 +1301,7 @@ class PlaneGraph:
     def from_positions(
         cls,
         G: nx.Graph,
-        pos: Mapping[Hashable, Sequence[float]] | None = None,
+        pos: Mapping[Any, Sequence[float]] | None = None,
         *,
         weight: str | Callable | None = "weight",
         meta: Mapping[str, Any] | None = None,
@@ -1360,7 +1378,7 @@ class PlaneGraph:
         return cls(labels, ends, wts, nxt, outer_dart=outer_dart, pos=posd, edge_data=edata, meta=meta)
 
     # ----------------------------------------------------- comparisons
-    def same_embedding(self, other: "PlaneGraph", vertex_map: Mapping[Hashable, Hashable] | None = None) -> bool:
+    def same_embedding(self, other: "PlaneGraph", vertex_map: Mapping[Any, Any] | None = None) -> bool:
         """True when ``other`` has the same edge ids, ends (up to ``vertex_map``), rotation and weights.
 
         Dart orientation may differ by reversing whole edges; the cyclic
