@@ -634,3 +634,22 @@ def test_directed_graph_counts_every_arc():
     r = sw.cutwidth(D)
     assert r.value == 5
     assert r.check(D) == 5
+
+
+def test_callable_weight_must_be_passed_to_check():
+    G = nx.path_graph(4)
+    fn = lambda u, v, d: u + v  # noqa: E731 - edges weigh 1, 3, 5
+    r = sw.cutwidth(G, weight=fn)
+    assert r.value == 5  # the heaviest edge crosses some cut, and the path order reaches no more
+    assert r.value == brute_cutwidth_fn(G, fn)
+    with pytest.raises(SweepwidthError, match="weight function"):
+        r.check(G)
+    assert r.check(G, weight=fn) == r.value
+
+
+def brute_cutwidth_fn(G, fn):
+    H = nx.Graph()
+    H.add_nodes_from(G)
+    for u, v, d in G.edges(data=True):
+        H.add_edge(u, v, weight=fn(u, v, d))
+    return brute_cutwidth(H)

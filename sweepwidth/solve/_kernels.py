@@ -413,7 +413,8 @@ def _prefix_search_nb(n, indptr, indices, wts, deg, a, b, k, tol, rep, table, us
     """Depth-first "width <= k?" search over prefix sets (see ordering_bnb).
 
     Returns (status, order, rejected, nodes): status 1 found (order filled),
-    0 refuted, -1 node budget spent, -2 memo table full.  ``table``/``used``
+    0 refuted, -1 node budget spent, -2 memo table full, -3 candidate stack
+    full.  ``table``/``used``
     (failed sets) and ``stored[0]`` (their number) persist between calls.
     """
     W = table.shape[1]
@@ -422,7 +423,9 @@ def _prefix_search_nb(n, indptr, indices, wts, deg, a, b, k, tol, rep, table, us
     inS = np.zeros(n, dtype=np.bool_)
     wS = np.zeros(n)
     key = np.zeros(W, dtype=np.uint64)
-    cand = np.empty(n * (n + 1) + 1, dtype=np.int64)
+    csize = min(n * (n + 1) + 1, 1 << 24)
+    cand = np.empty(csize, dtype=np.int64)
+    work = np.empty(n + indices.shape[0] + 1, dtype=np.int64)
     candc = np.empty(n, dtype=np.float64)
     cand_start = np.zeros(n + 2, dtype=np.int64)
     cand_pos = np.zeros(n + 2, dtype=np.int64)
@@ -455,25 +458,38 @@ def _prefix_search_nb(n, indptr, indices, wts, deg, a, b, k, tol, rep, table, us
             nodes += 1
             if nodes > node_budget:
                 return -1, order, rejected, nodes
-            # free moves
+            # free moves: at the root any vertex may be free; deeper, only the
+            # neighbours of the vertex just chosen (and of those moved for free)
             added_start[d] = n_added
-            changed = True
-            while changed:
-                changed = False
+            wtop = 0
+            if d == 0:
                 for v in range(n):
-                    if inS[v] or v == b:
-                        continue
-                    dl = deg[v] - 2.0 * wS[v]
-                    if dl <= tol:
-                        inS[v] = True
-                        placed += 1
-                        key[v >> 6] ^= np.uint64(1) << np.uint64(v & 63)
-                        for j in range(indptr[v], indptr[v + 1]):
-                            wS[indices[j]] += wts[j]
-                        cut += dl
-                        added[n_added] = v
-                        n_added += 1
-                        changed = True
+                    work[wtop] = v
+                    wtop += 1
+            else:
+                pv = chosen[d - 1]
+                for j in range(indptr[pv], indptr[pv + 1]):
+                    work[wtop] = indices[j]
+                    wtop += 1
+            while wtop > 0:
+                wtop -= 1
+                v = work[wtop]
+                if inS[v] or v == b:
+                    continue
+                dl = deg[v] - 2.0 * wS[v]
+                if dl <= tol:
+                    inS[v] = True
+                    placed += 1
+                    key[v >> 6] ^= np.uint64(1) << np.uint64(v & 63)
+                    for j in range(indptr[v], indptr[v + 1]):
+                        u = indices[j]
+                        wS[u] += wts[j]
+                        if not inS[u]:
+                            work[wtop] = u
+                            wtop += 1
+                    cut += dl
+                    added[n_added] = v
+                    n_added += 1
             added_end[d] = n_added
             cut_base[d] = cut
             dead = False
@@ -504,6 +520,8 @@ def _prefix_search_nb(n, indptr, indices, wts, deg, a, b, k, tol, rep, table, us
             if not dead:
                 # candidates, one per twin class, sorted by next cut then weight into S
                 start = cand_start[d]
+                if start + n > csize:
+                    return -3, order, rejected, nodes
                 cnt = 0
                 for v in range(n):
                     if inS[v] or v == b:

@@ -121,7 +121,8 @@ def _m_dp(P, *, lower, upper, upper_order, deadline, seed, max_memory=DEFAULT_MA
 
         try:
             finished, value, _ = run_limited(_dp_child, (P, max_memory), {}, deadline=deadline)
-        except SweepwidthError as err:  # the child could not start or died: run here instead
+        except (SweepwidthError, AssertionError, OSError, RuntimeError) as err:
+            # the child could not start (e.g. inside a daemonic process) or died: run here instead
             finished, value = True, solve_dp(P, max_memory=max_memory)
             value[2]["child_failed"] = str(err)
         if not finished:
@@ -493,7 +494,7 @@ def cutwidth(
         "options": {
             "first": [P.labels[v] for v in sorted(P.first)] or None,
             "last": [P.labels[v] for v in sorted(P.last)] or None,
-            "weight": weight if (weight is None or isinstance(weight, str)) else None,
+            "weight": weight if (weight is None or isinstance(weight, str)) else "<callable>",
         },
         "n": P.n,
         "m": P.m,

@@ -245,6 +245,9 @@ def solve_bnb(
         if status == -2:
             stats["stopped"] = f"more than {cap // 2} remembered states"
             break
+        if status == -3:
+            stats["stopped"] = "candidate stack of the compiled search full"
+            break
         if status == 1:
             order = [int(x) for x in order_arr]
             w = problem.width(order)

@@ -212,6 +212,8 @@ def check_cutwidth(result: Any, G: Any, **options: Any) -> float:
     tol = float(options.pop("tol", 1e-9))
     if options:
         raise SweepwidthError(f"unknown checker option(s) {sorted(options)}; valid: first, last, weight, tol")
+    if weight == "<callable>":
+        raise SweepwidthError("the result was computed with a weight function; pass it again: result.check(G, weight=fn)")
     if result.witness is None:
         raise WitnessError("result has no witness ordering to check")
     G = _graph(G)
