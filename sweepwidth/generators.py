@@ -115,8 +115,23 @@ def delaunay(n: int, *, seed: int | np.random.Generator | None = None) -> PlaneG
     return PlaneGraph.from_faces(faces, pos=pos, meta={"name": f"delaunay-{n}-s{seed}"})
 
 
-def random_plane_graph(n: int, *, remove: float = 0.3, seed: int | None = None, weights: tuple[int, int] | None = None) -> PlaneGraph:
+def random_plane_graph(
+    n: int,
+    *,
+    remove: float = 0.3,
+    seed: int | np.random.Generator | None = None,
+    weights: tuple[int, int] | None = None,
+) -> PlaneGraph:
     """A Delaunay triangulation with a fraction ``remove`` of its edges deleted, kept connected.
+
+    A random spanning tree (minimum spanning tree for random edge keys) is
+    kept; ``round(remove * E)`` of the other edges, chosen at random, are
+    deleted (all of them when fewer remain).  ``weights=(lo, hi)`` draws
+    integer weights uniformly from lo..hi.
+
+    Notes
+    -----
+    O(E log E) (scipy's spanning tree), so large instances stay cheap.
 
     Examples
     --------
@@ -124,23 +139,31 @@ def random_plane_graph(n: int, *, remove: float = 0.3, seed: int | None = None, 
     >>> P.number_of_vertices()
     15
     """
+    from scipy.sparse import coo_matrix
+    from scipy.sparse.csgraph import minimum_spanning_tree
+
+    if not 0 <= remove <= 1:
+        raise SweepwidthError(f"remove must be a fraction in [0, 1], got {remove!r}")
     rng = _rng(seed)
     T = delaunay(n, seed=rng)
+    labels = T.vertices
+    index = {v: i for i, v in enumerate(labels)}
+    E = np.array([(index[e.u], index[e.v]) for e in T.edges], dtype=np.int64)
+    m = E.shape[0]
+    key = rng.random(m) + 1.0  # positive: zero entries would vanish from the sparse matrix
+    tree = minimum_spanning_tree(coo_matrix((key, (E[:, 0], E[:, 1])), shape=(n, n))).tocoo()
+    in_tree = np.zeros(m, dtype=bool)
+    pair_id = {(int(a), int(b)): k for k, (a, b) in enumerate(E.tolist())}
+    for a, b in zip(tree.row.tolist(), tree.col.tolist()):
+        in_tree[pair_id[(a, b)] if (a, b) in pair_id else pair_id[(b, a)]] = True
+    others = np.flatnonzero(~in_tree)
+    rng.shuffle(others)
+    drop = set(others[: min(len(others), int(round(remove * m)))].tolist())
     G = nx.Graph()
-    G.add_nodes_from(T.vertices)
-    G.add_edges_from((e.u, e.v) for e in T.edges)
-    edges = list(G.edges())
-    rng.shuffle(edges)
-    target = int(remove * len(edges))
-    removed = 0
-    for u, v in edges:
-        if removed >= target:
-            break
-        G.remove_edge(u, v)
-        if nx.has_path(G, u, v):
-            removed += 1
-        else:
-            G.add_edge(u, v)
+    G.add_nodes_from(labels)
+    for k in range(m):
+        if k not in drop:
+            G.add_edge(labels[int(E[k, 0])], labels[int(E[k, 1])])
     if weights is not None:
         for u, v in G.edges():
             G[u][v]["weight"] = int(rng.integers(weights[0], weights[1] + 1))

@@ -61,6 +61,11 @@ def test_random_plane_graph_is_connected_thinned_and_seeded():
     assert nx.is_connected(G) and nx.check_planarity(G)[0]
     assert P.number_of_edges() < T.number_of_edges()
     assert generators.random_plane_graph(40, remove=0.3, seed=5).same_embedding(P)
+    # remove=1 keeps exactly a spanning tree, remove=0 the whole triangulation
+    tree = generators.random_plane_graph(40, remove=1.0, seed=2)
+    assert tree.number_of_edges() == 39 and nx.is_tree(tree.to_simple_graph())
+    full = generators.random_plane_graph(40, remove=0.0, seed=2)
+    assert full.number_of_edges() == generators.delaunay(40, seed=np.random.default_rng(2)).number_of_edges()
     W = generators.random_plane_graph(15, seed=1, weights=(1, 3))
     assert set(W.weights.tolist()) <= {1.0, 2.0, 3.0}
 
@@ -105,6 +110,7 @@ BAD = [
     ("nested-zero", lambda: generators.nested_triangles(0), SweepwidthError, "k >= 1"),
     ("chords-small", lambda: generators.cycle_with_chords(2, 0), SweepwidthError, "n >= 3"),
     ("tree-zero", lambda: generators.random_tree(0), SweepwidthError, "n >= 1"),
+    ("remove-fraction", lambda: generators.random_plane_graph(10, remove=1.5), SweepwidthError, "fraction"),
 ]
 
 
