@@ -23,7 +23,7 @@ from hypothesis import strategies as st
 import sweepwidth as sw
 from sweepwidth import generators
 from sweepwidth.problems.cycles import FaceSweep
-from sweepwidth.solve.face_sets import greedy_sweep, monotone_sweep, toggle_search
+from sweepwidth.solve.face_sets import greedy_sweep, improve_sweep, monotone_sweep, toggle_search
 
 from strategies import plane_graphs, triangulated_disks
 
@@ -493,3 +493,21 @@ def test_face_sweep_model_matches_direct_toggling(P, rnd):
     for f in seq:
         odd ^= {f}
     assert fs.weight_of(odd) == pytest.approx(direct[-1])
+
+
+@settings(max_examples=25, **SETTINGS)
+@given(sweep_instances(max_faces=8), st.randoms(use_true_random=False))
+def test_local_search_keeps_a_valid_order_and_never_worsens(inst, rnd):
+    P, c0, _, holes = inst
+    free = [f for f in P.faces if f not in holes]
+    if len(free) < 2:
+        return
+    fs = FaceSweep.build(P, c0, free)
+    order = list(free)
+    rnd.shuffle(order)
+    before = max(fs.profile(order))
+    w, out = improve_sweep(fs, order, window=3)
+    assert sorted(out) == sorted(free)
+    assert w == pytest.approx(max(fs.profile(out)))
+    assert w <= before + 1e-9
+    assert w >= monotone_sweep(fs)[0] - 1e-9  # exact optimum of the same set (subset DP)
