@@ -22,7 +22,7 @@ import _limited_helpers as H
 from sweepwidth.errors import SweepwidthError, UnsupportedOptionError, WeightError
 from sweepwidth.problems.ordering import OrderingProblem
 from sweepwidth.solve._deadline import ChildProcessError_, run_limited, sat_call
-from sweepwidth.solve.cutwidth_sat import SatOutcome, _orbits, greedy_order, solve_sat
+from sweepwidth.solve.cutwidth_sat import SatOutcome, _LevelProbe, _orbits, greedy_order, solve_sat
 
 # ---------------------------------------------------------------------------
 # independent reference: width straight from the networkx graph
@@ -231,12 +231,15 @@ def test_hypercubes(d):
     assert_valid(G, P, out)
 
 
-def test_complete_binary_tree():
+@pytest.mark.parametrize("h", [2, 3, 4])
+def test_complete_binary_tree(h):
     # height h >= 2: ceil(h/2) + 1, attributed to Lengauer, SIAM J. Algebraic Discrete Methods 1982
-    # (from memory)
-    G = nx.balanced_tree(2, 4)
-    P, out = solve_graph(G)
-    assert out.optimal and out.upper == 3
+    # (from memory); started from a depth-first order so the test stays fast
+    G = nx.balanced_tree(2, h)
+    P = OrderingProblem.from_graph(G)
+    dfs = [P.labels.index(v) for v in nx.dfs_preorder_nodes(G, 0)]
+    out = solve_sat(P, upper_order=dfs)
+    assert out.optimal and out.upper == math.ceil(h / 2) + 1
     assert_valid(G, P, out)
 
 
@@ -281,6 +284,43 @@ def test_disconnected_takes_the_largest_component():
     P, out = solve_graph(G)
     assert out.optimal and out.upper == 4  # K_4: floor(16/4)
     assert_valid(G, P, out)
+
+
+@settings(max_examples=25, deadline=None)
+@given(small_instances())
+# one free vertex: its prefix count must still be enforced
+@example((nx.Graph([(0, 1)]), [], [0], {}))
+def test_level_probe_matches_enumeration(case):
+    # "a counted prefix of size i with cut <= k exists", against enumerating all subsets
+    G, first, last, _ = case
+    P = OrderingProblem.from_graph(G, first=set(first), last=set(last))
+    n = P.n
+    if n < 2:
+        return
+    total = int(sum(P.weights)) if P.m else 0
+    probe = _LevelProbe(P, total + 1, "cadical195")
+    try:
+        free = [v for v in range(n) if v not in P.first and v not in P.last]
+        for i in range(max(1, len(first)), min(n - 1, n - len(last)) + 1):
+            cuts = []
+            for extra in itertools.combinations(free, i - len(first)):
+                S = set(P.first) | set(extra)
+                cuts.append(sum(w for (u, v), w in zip(P.edges.tolist(), P.weights.tolist()) if (u in S) != (v in S)))
+            for k in range(0, total + 1):
+                assert probe.ask(i, k, None, 10**6) == (min(cuts) <= k)
+    finally:
+        probe.close()
+
+
+def test_probe_settles_grids():
+    # on P_6 x P_6 (cutwidth 7) some prefix size admits no cut of weight 6: the
+    # single-level questions prove optimality without the chain formula
+    P = OrderingProblem.from_graph(nx.grid_2d_graph(6, 6))
+    out = solve_sat(P)
+    assert out.optimal and out.upper == 7
+    assert out.stats["probes"][-1][2] is False and "clauses" not in out.stats
+    out = solve_sat(P, probe=False)
+    assert out.optimal and out.upper == 7 and "probes" not in out.stats
 
 
 # ---------------------------------------------------------------------------
@@ -445,7 +485,7 @@ def test_sat_call_budgeted():
     with Solver(name="cadical195", bootstrap_with=PHP(11).clauses) as s:
         t0 = time.monotonic()
         assert sat_call(s, deadline=t0 + 0.5, name="cadical195", stats=stats) is None
-        assert time.monotonic() - t0 < 1.0
+        assert time.monotonic() - t0 < 1.5  # within a second of the deadline, even on a busy machine
         assert stats["slices"] >= 1 and stats["conflicts"] > 0
     with Solver(name="glucose4", bootstrap_with=[[1, 2], [-1]]) as s:
         assert sat_call(s, [-2], deadline=time.monotonic() + 5, name="glucose4") is False

@@ -85,6 +85,7 @@ _OPTIONS = {
     "counter": ("itot", "seq"),
     "counts": ("band", "all", "none"),
     "hard_deadline": (False, True),
+    "probe": (True, False),
 }
 
 #: Measured effect of each idea (filled from benchmarks/cutwidth.py --ablation).
@@ -306,6 +307,42 @@ def _orbits(
 # the encoding
 
 
+def _count_tree(owner: Any, lits: list[int]) -> tuple[list[list[int]], np.ndarray]:
+    """A two-sided totalizer over ``lits`` built with numpy; fresh variables from ``owner.top``.
+
+    Returns the clauses and the root outputs ``root[t-1]`` <-> "at least t of
+    ``lits`` are true" (t = 1..len(lits)); both directions are encoded at
+    every node, so unit propagation counts exactly.  O(len(lits)^2) clauses.
+    """
+    tri: list[np.ndarray] = []
+    duo: list[np.ndarray] = []
+
+    def build(part: np.ndarray) -> np.ndarray:
+        if len(part) == 1:
+            return part
+        mid = len(part) // 2
+        a, b = build(part[:mid]), build(part[mid:])
+        la, lb = len(a), len(b)
+        o = np.arange(owner.top + 1, owner.top + 1 + la + lb, dtype=np.int64)
+        owner.top += la + lb
+        I, J = np.meshgrid(np.arange(la), np.arange(lb), indexing="ij")
+        # upward: (>= i+1 of a) & (>= j+1 of b) -> (>= i+j+2); single sides below
+        tri.append(np.stack([-a[I], -b[J], o[I + J + 1]], axis=-1).reshape(-1, 3))
+        duo.append(np.stack([-a, o[:la]], axis=-1))
+        duo.append(np.stack([-b, o[:lb]], axis=-1))
+        # downward: (< i+1 of a) & (< j+1 of b) -> (< i+j+1)
+        tri.append(np.stack([a[I], b[J], -o[I + J]], axis=-1).reshape(-1, 3))
+        duo.append(np.stack([b, -o[la:la + lb]], axis=-1))
+        duo.append(np.stack([a, -o[lb:la + lb]], axis=-1))
+        return o
+
+    root = build(np.asarray(lits, dtype=np.int64))
+    out: list[list[int]] = []
+    for arr in tri + duo:
+        out.extend(arr.tolist())
+    return out, root
+
+
 class _OutOfTime(Exception):
     """The deadline passed while the formula was being built or loaded."""
 
@@ -447,40 +484,9 @@ class _Formula:
             self.clauses.extend(self._exact_card(lits, need))
 
     def _exact_card(self, lits: list[int], need: int) -> list[list[int]]:
-        """Clauses of a two-sided totalizer with "exactly ``need`` of ``lits``" (numpy-built).
-
-        Every output ``o[t]`` of every node means "at least t of the node's
-        inputs"; both directions are encoded, so unit propagation counts
-        exactly.  Size O(len(lits)^2) clauses.
-        """
-        tri: list[np.ndarray] = []
-        duo: list[np.ndarray] = []
-
-        def build(part: np.ndarray) -> np.ndarray:
-            if len(part) == 1:
-                return part
-            mid = len(part) // 2
-            a, b = build(part[:mid]), build(part[mid:])
-            la, lb = len(a), len(b)
-            o = np.arange(self.top + 1, self.top + 1 + la + lb, dtype=np.int64)
-            self.top += la + lb
-            # upward: a_i & b_j -> o_{i+j}
-            I, J = np.meshgrid(np.arange(la), np.arange(lb), indexing="ij")
-            tri.append(np.stack([-a[I], -b[J], o[I + J + 1]], axis=-1).reshape(-1, 3))
-            duo.append(np.stack([-a, o[:la]], axis=-1))
-            duo.append(np.stack([-b, o[:lb]], axis=-1))
-            # downward: ~a_{i+1} & ~b_{j+1} -> ~o_{i+j+1}
-            tri.append(np.stack([a[I], b[J], -o[I + J]], axis=-1).reshape(-1, 3))
-            # i = la (a full) : b_{j+1} or ~o_{la+j+1};  j = lb: a_{i+1} or ~o_{i+lb+1}
-            duo.append(np.stack([b, -o[la:la + lb]], axis=-1))
-            duo.append(np.stack([a, -o[lb:la + lb]], axis=-1))
-            return o
-
-        root = build(np.asarray(lits, dtype=np.int64))
-        out = [[int(root[need - 1])], [int(-root[need])]]
-        for arr in tri + duo:
-            out.extend(arr.tolist())
-        return out
+        """Clauses of "exactly ``need`` of ``lits``" by a two-sided totalizer (see :func:`_count_tree`)."""
+        out, root = _count_tree(self, lits)
+        return [[int(root[need - 1])], [int(-root[need])]] + out
 
     def _amo(self, lits: list[int]) -> None:
         """Ladder (sequential) at-most-one."""
@@ -661,6 +667,103 @@ class _Formula:
         return [v for _, v in sorted(first_in)]
 
 
+class _LevelProbe:
+    """One level on its own: is there a counted prefix of size i with cut <= k?
+
+    A "no" for some i proves width > k at once (the edge-isoperimetric
+    bound, decided by SAT): on grids the chain question at k = cw - 1 is
+    settled this way in a fraction of the chain's time, because some prefix
+    size near n/2 admits no cut of weight cw - 1.  One small incremental
+    formula serves every (i, k): the prefix size and the bound are assumed.
+    """
+
+    def __init__(self, problem: OrderingProblem, kmax: int, solver: str) -> None:
+        from pysat.card import ITotalizer
+        from pysat.solvers import Solver
+
+        n = problem.n
+        self.problem = problem
+        self.f, self.l = len(problem.first), len(problem.last)
+        self.free = [v for v in range(n) if v not in problem.first and v not in problem.last]
+        x: dict[int, Any] = {v: True for v in problem.first}
+        x.update({v: False for v in problem.last})
+        top = 0
+        for v in self.free:
+            top += 1
+            x[v] = top
+        clauses: list[list[int]] = []
+        w = _int_weights(problem)
+        lits: list[int] = []
+        self.fixed = 0
+        for e, (u, v) in enumerate(problem.edges.tolist()):
+            xu, xv = x[u], x[v]
+            if isinstance(xu, bool) and isinstance(xv, bool):
+                self.fixed += w[e] if xu != xv else 0
+                continue
+            top += 1
+            c = top
+            for a, b in ((xu, xv), (xv, xu)):
+                if a is False or b is True:
+                    continue
+                cl = [c]
+                if a is not True:
+                    cl.append(-a)
+                if b is not False:
+                    cl.append(b)
+                clauses.append(cl)
+            lits.extend([c] * w[e])
+        self.rhs: list[int] = []
+        if lits and kmax + 1 - self.fixed > 0:
+            tot = ITotalizer(lits=lits, ubound=kmax + 1 - self.fixed, top_id=top)
+            clauses.extend(tot.cnf.clauses)
+            top = max(top, tot.top_id)
+            self.rhs = list(tot.rhs)
+            tot.delete()
+        self.count: list[int] = []
+        if self.free:
+            helper = _Formula.__new__(_Formula)
+            helper.top = top
+            cl, root = _count_tree(helper, [x[v] for v in self.free])
+            clauses.extend(cl)
+            top = helper.top
+            self.count = [int(r) for r in root]  # count[t-1]: at least t free vertices in the prefix
+        self.S = Solver(name=solver, bootstrap_with=clauses)
+        self.name = solver
+
+    def close(self) -> None:
+        self.S.delete()
+
+    def levels(self) -> list[int]:
+        """Counted prefix sizes, middle first (only up to n/2 without pins: complements)."""
+        n = self.problem.n
+        lo, hi = max(1, self.f), min(n - 1, n - self.l)
+        if not self.f and not self.l:
+            hi = min(hi, n // 2)
+        mid = (lo + hi + 1) // 2 if (self.f or self.l) else hi
+        out = sorted(range(lo, hi + 1), key=lambda i: (abs(i - mid), -i))
+        return out
+
+    def ask(self, i: int, k: int, deadline: float | None, conflicts: int) -> bool | None:
+        """True: a prefix of size i with cut <= k exists; False: none; None: budget spent."""
+        t = k - self.fixed
+        if t < 0:
+            return False
+        assume = []
+        if self.rhs and t < len(self.rhs):
+            assume.append(-self.rhs[t])
+        need = i - self.f
+        if self.count:
+            if need >= 1:
+                assume.append(self.count[need - 1])
+            if need < len(self.count):
+                assume.append(-self.count[need])
+        self.S.conf_budget(conflicts)
+        if deadline is not None and time.monotonic() >= deadline:
+            return None
+        res = self.S.solve_limited(assumptions=assume)
+        return None if res is None else bool(res)
+
+
 # ---------------------------------------------------------------------------
 # entry point
 
@@ -804,6 +907,18 @@ def solve_sat(
         stats["seconds"] = time.monotonic() - t_start
         return best
 
+    probe: _LevelProbe | None = None
+    if opts["probe"] and opts["direction"] == "down" and solver != "kissat404":
+        # the cheap single-level questions first: they often settle k = upper - 1
+        probe = _LevelProbe(problem, upper - 1, solver if solver in BUDGET_SOLVERS else "cadical195")
+        if _run_probes(probe, upper - 1, deadline, stats):
+            probe.close()
+            best.lower = best.upper
+            best.optimal = True
+            report()
+            stats["seconds"] = time.monotonic() - t_start
+            return best
+
     t0 = time.monotonic()
     try:
         F = _Formula(
@@ -816,6 +931,8 @@ def solve_sat(
             deadline=deadline,
         )
     except _OutOfTime:
+        if probe is not None:
+            probe.close()
         return out_of_time("building the formula")
     stats["build_seconds"] = time.monotonic() - t0
     stats["vars"] = F.top
@@ -840,6 +957,9 @@ def solve_sat(
         while not best.optimal:
             k = best.upper - 1 if opts["direction"] == "down" else best.lower
             lits, possible = F.bound(k)
+            if possible and probe is not None and k < upper - 1 and k >= best.lower:
+                if _run_probes(probe, k, deadline, stats):
+                    possible = False
             if not possible:
                 ans: bool | None = False
             else:
@@ -867,10 +987,54 @@ def solve_sat(
                 best.lower = k + 1
             best.optimal = best.lower >= best.upper
             report()
+        if probe is not None:
+            probe.close()
     if best.optimal:
         best.lower = best.upper
     stats["seconds"] = time.monotonic() - t_start
     return best
+
+
+#: Rounds of single-level probes: (conflicts per level, levels asked at most).
+_PROBE_ROUNDS = ((1000, None), (8000, 8), (32000, 4), (128000, 2))
+_PROBE_CAP = 300_000  # conflicts over all rounds
+
+
+def _run_probes(probe: "_LevelProbe", k: int, deadline: float | None, stats: dict) -> bool:
+    """Ask single levels middle-out whether a prefix of cut <= k exists; True when one cannot.
+
+    Rounds of growing conflict budgets over fewer and fewer levels (the
+    middle ones, see :data:`_PROBE_ROUNDS`); a level answered "yes" is not
+    asked again.  Work is capped at :data:`_PROBE_CAP` conflicts and 30% of
+    the time left before ``deadline``.
+    """
+    t0 = time.monotonic()
+    stop = None if deadline is None else t0 + 0.3 * max(0.0, deadline - t0)
+    spent = 0
+    rec = stats.setdefault("probes", [])
+    open_levels = probe.levels()
+    for budget, many in _PROBE_ROUNDS:
+        still = []
+        for j, i in enumerate(open_levels):
+            if many is not None and j >= many:
+                still.append(i)
+                continue
+            if spent >= _PROBE_CAP or (stop is not None and time.monotonic() >= stop):
+                rec.append((k, None, None, round(time.monotonic() - t0, 4)))
+                return False
+            before = probe.S.accum_stats().get("conflicts", 0)
+            ans = probe.ask(i, k, stop, min(budget, _PROBE_CAP - spent))
+            spent += probe.S.accum_stats().get("conflicts", 0) - before
+            if ans is False:
+                rec.append((k, i, False, round(time.monotonic() - t0, 4)))
+                return True
+            if ans is None:
+                still.append(i)
+        open_levels = still
+        if not open_levels:
+            break
+    rec.append((k, None, None, round(time.monotonic() - t0, 4)))
+    return False
 
 
 def _search_rebuild(F: _Formula, best: SatOutcome, deadline: float | None, opts: dict, report: Callable[[], None]) -> SatOutcome:
