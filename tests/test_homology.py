@@ -511,3 +511,30 @@ def test_local_search_keeps_a_valid_order_and_never_worsens(inst, rnd):
     assert w == pytest.approx(max(fs.profile(out)))
     assert w <= before + 1e-9
     assert w >= monotone_sweep(fs)[0] - 1e-9  # exact optimum of the same set (subset DP)
+
+
+def _two_blocks(cols=4):
+    """Two 3 x cols blocks of squares side by side: start one boundary, end the other (crossing)."""
+    P = generators.grid(4, 2 * cols + 1)
+    sq = {min(P.boundary_walk(f)): f for f in inner_faces(P)}
+    A = [sq[(i, j)] for i in range(3) for j in range(cols)]
+    B = [sq[(i, j)] for i in range(3) for j in range(cols, 2 * cols)]
+    return P, _bnd(P, A), _bnd(P, B)
+
+
+def test_large_crossing_sweep_gets_valid_bounds():
+    P, c0, c1 = _two_blocks(4)  # 24 swept faces: beyond the subset DP, so the relaxation is used
+    r = sw.homology_width(P, start=c0, end=c1, time_limit=20, seed=0)
+    assert not r.stats["nested"]
+    assert len(r.stats["swept"]) == 24
+    assert r.method == "cutwidth"
+    assert max(_w(P, c0), _w(P, c1)) <= r.lower <= r.upper
+    assert r.check(P) == r.upper
+
+
+@pytest.mark.slow
+def test_large_crossing_sweep_against_the_exact_dp():
+    P, c0, c1 = _two_blocks(4)
+    exact = sw.homology_width(P, start=c0, end=c1, method="subset-dp", max_faces=24)
+    r = sw.homology_width(P, start=c0, end=c1, method="cutwidth")
+    assert r.lower <= exact.value <= r.upper

@@ -15,6 +15,8 @@ once (``W(T) = W(T - v) + delta_v(T - v)`` for the lowest face ``v`` of ``T``).
   bottleneck shortest path in the hypercube on all free faces, by a
   Dijkstra-type search whose key is the largest weight on the path.
 * :func:`greedy_sweep` — a quick monotone sweep for upper bounds.
+* :func:`improve_sweep` — local search on a face order (one face moved near
+  the widest step at a time), with the exact weights, crossing or not.
 
 References
 ----------
