@@ -187,3 +187,14 @@ def test_regression_dual_with_partial_positions():
     P.pos = {0: (0.0, 0.0), 1: (1.0, 0.0)}
     D = P.dual()
     assert D.pos is None and D.number_of_vertices() == 2
+
+
+@pytest.mark.slow
+def test_large_triangulation_dual_of_dual():
+    # 10^5 points: the vectorised paths on a size where the plain loops are not run by default
+    P = generators.delaunay(10**5, seed=1)
+    assert P.number_of_vertices() - P.number_of_edges() + P.number_of_faces() == 2  # Euler
+    D = P.dual()
+    DD = D.dual()
+    assert DD.same_embedding(P, D.face_to_primal_vertex)
+    assert DD.face_to_primal_vertex[DD.outer_face] == P.outer_face
