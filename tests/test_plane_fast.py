@@ -198,3 +198,17 @@ def test_large_triangulation_dual_of_dual():
     DD = D.dual()
     assert DD.same_embedding(P, D.face_to_primal_vertex)
     assert DD.face_to_primal_vertex[DD.outer_face] == P.outer_face
+
+
+def test_regression_plane_graphs_pickle():
+    # the shared empty edge-attribute mapping once made every PlaneGraph unpicklable
+    import pickle
+
+    for P in (generators.delaunay(300, seed=2), generators.grid(2, 2), generators.random_tree(200, seed=1)):
+        for G in (P, P.dual()):
+            Q = pickle.loads(pickle.dumps(G))
+            assert _state(Q) == _state(G)
+            assert Q.face_to_primal_vertex == G.face_to_primal_vertex
+            assert Q.edge_data(0) == G.edge_data(0)
+    with pytest.raises(TypeError):
+        generators.grid(2, 2)._edata[0]["x"] = 1

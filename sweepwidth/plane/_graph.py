@@ -18,7 +18,6 @@ from __future__ import annotations
 
 import itertools
 import math
-from types import MappingProxyType
 from typing import Any, Callable, Hashable, Mapping, NamedTuple, Sequence
 
 import networkx as nx
@@ -30,7 +29,25 @@ from . import _arrays
 
 __all__ = ["PlaneGraph", "Edge"]
 
-_NO_DATA: Mapping[str, Any] = MappingProxyType({})
+class _NoEdgeData(dict):
+    """The read-only empty attribute dict shared by edges without attributes (pickles to itself)."""
+
+    __slots__ = ()
+
+    def _refuse(self, *args: Any, **kwargs: Any) -> Any:
+        raise TypeError("edge attributes are read-only; use edge_data(e), which returns a copy")
+
+    __setitem__ = __delitem__ = update = setdefault = pop = popitem = clear = __ior__ = _refuse  # type: ignore[assignment]
+
+    def __reduce__(self) -> tuple:
+        return (_no_edge_data, ())
+
+
+def _no_edge_data() -> "_NoEdgeData":
+    return _NO_DATA
+
+
+_NO_DATA = _NoEdgeData()
 
 
 class Edge(NamedTuple):
