@@ -151,3 +151,12 @@ def test_problem_summary_is_json_ready(square):
     hp = HomologyProblem.build(square, start=None, end=None, holes=None)
     assert json.loads(json.dumps(hp.summary()))["holes"] == [square.outer_face]
     check_even(square, hp.start)
+
+
+def test_memory_cap_holds_even_with_a_raised_face_limit():
+    P = generators.triangulated_grid(4)  # 32 inner faces: 2^32 states would need tens of GiB
+    inner = [f for f in P.faces if f != P.outer_face]
+    with pytest.raises(ProblemTooLargeError, match="GiB"):
+        sw.homology_width(P, method="subset-dp", max_faces=40)
+    with pytest.raises(ProblemTooLargeError, match="GiB"):
+        sw.homology_width(P, start={"faces": inner[:5]}, monotone=False, max_faces=40)

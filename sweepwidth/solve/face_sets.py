@@ -57,6 +57,7 @@ __all__ = [
     "sweep_arrays",
     "MAX_MONOTONE_FACES",
     "MAX_TOGGLE_FACES",
+    "MAX_TABLE_BYTES",
     "estimate_seconds",
 ]
 
@@ -64,6 +65,9 @@ __all__ = [
 MAX_MONOTONE_FACES = 22 if HAVE_NUMBA else 16
 #: Largest free face count for :func:`toggle_search` (tables of 2^k plus a heap).
 MAX_TOGGLE_FACES = 20 if HAVE_NUMBA else 14
+
+#: Tables larger than this are refused whatever ``max_faces`` says (bytes).
+MAX_TABLE_BYTES = 1 << 30
 
 # measured on the development machine (numba): ns per state and face
 _NS_PER_STATE_FACE = 4.0 if HAVE_NUMBA else 800.0
@@ -250,6 +254,11 @@ def monotone_sweep(fs: FaceSweep, *, max_faces: int | None = None) -> tuple[floa
     """
     k = fs.k
     cap = MAX_MONOTONE_FACES if max_faces is None else max_faces
+    if 16 * 2**k > MAX_TABLE_BYTES:
+        raise ProblemTooLargeError(
+            f"monotone subset search on {k} faces needs {16 * 2**k / 2**30:.1f} GiB of tables; "
+            f"the limit is {MAX_TABLE_BYTES / 2**30:.0f} GiB"
+        )
     if k > cap:
         raise ProblemTooLargeError(
             f"monotone subset search on {k} faces needs 2^{k} states ({16 * 2**k / 2**20:.0f} MiB); the limit is {cap} faces"
@@ -310,6 +319,11 @@ def toggle_search(
     """
     k = fs.k
     cap = MAX_TOGGLE_FACES if max_faces is None else max_faces
+    if 40 * 2**k > MAX_TABLE_BYTES:
+        raise ProblemTooLargeError(
+            f"toggle search on {k} free faces needs about {40 * 2**k / 2**30:.1f} GiB; "
+            f"the limit is {MAX_TABLE_BYTES / 2**30:.0f} GiB"
+        )
     if k > cap:
         raise ProblemTooLargeError(
             f"toggle search on {k} free faces needs 2^{k} states (about {25 * 2**k / 2**20:.0f} MiB); the limit is {cap} faces"

@@ -85,6 +85,7 @@ from ..problems.cycles import FaceSweep, HomologyProblem, bounded_face_sets, cyc
 from ..result import Result
 from .face_sets import (
     MAX_MONOTONE_FACES,
+    MAX_TABLE_BYTES,
     MAX_TOGGLE_FACES,
     estimate_seconds,
     greedy_sweep,
@@ -286,7 +287,7 @@ def _solve_swept(
     if method == "auto":
         dp_limit = int(options.get("dp_limit", _DP_LIMIT))
         cap = MAX_MONOTONE_FACES if max_faces is None else int(max_faces)
-        fits = k <= cap and estimate_seconds(k) <= min(_left(deadline), 60.0)
+        fits = k <= cap and 16 * 2**k <= MAX_TABLE_BYTES and estimate_seconds(k) <= min(_left(deadline), 60.0)
         if fs.nested and k <= dp_limit and fits:
             method, auto = "subset-dp", {"choice": "subset-dp", "reason": f"nested sweep of {k} faces (<= {dp_limit})"}
         elif fs.nested:
