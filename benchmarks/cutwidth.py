@@ -206,6 +206,7 @@ def run_table(mode: str, baseline: bool, out_lines: list[str]) -> None:
 
 ABLATION = [
     ("default", {}),
+    ("no probes", {"probe": False}),
     ("no level counts", {"counts": "none"}),
     ("counts all levels", {"counts": "all"}),
     ("no symmetry", {"symmetry": False}),
@@ -218,7 +219,7 @@ ABLATION = [
 ]
 
 
-def run_ablation(out_lines: list[str], limit: float) -> None:
+def run_ablation(out_lines: list[str], limit: float, variants: str | None = None) -> None:
     from sweepwidth.solve.cutwidth_sat import solve_sat
     from sweepwidth.solve.ordering_heuristics import heuristic_ordering
 
@@ -228,7 +229,8 @@ def run_ablation(out_lines: list[str], limit: float) -> None:
     for cname, G in cases:
         P = OrderingProblem.from_graph(G)
         hints[cname] = (P, _hint(P))
-    for vname, opts in ABLATION:
+    chosen = ABLATION if not variants else [a for a in ABLATION if a[0] in variants.split(",")]
+    for vname, opts in chosen:
         cells = []
         for cname, _ in cases:
             P, order = hints[cname]
@@ -278,11 +280,12 @@ def main(argv: list[str] | None = None) -> int:
     g.add_argument("--overhead", action="store_true", help="measure child-process start-up")
     ap.add_argument("--no-baseline", action="store_true", help="skip the CP-SAT runs")
     ap.add_argument("--limit", type=float, default=60.0, help="time limit per ablation cell (s)")
+    ap.add_argument("--variants", help="comma-separated ablation rows to run (default: all)")
     ap.add_argument("--out", help="also write the table to this file")
     a = ap.parse_args(argv)
     lines: list[str] = []
     if a.ablation:
-        run_ablation(lines, a.limit)
+        run_ablation(lines, a.limit, a.variants)
     elif a.overhead:
         run_overhead(lines)
     else:

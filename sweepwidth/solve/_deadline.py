@@ -17,11 +17,15 @@ Two tools, for two kinds of work:
 Process start-up cost
 ---------------------
 Children are started from a reusable *forkserver* that has already imported
-numpy, python-sat and this package, so a child costs a fork plus unpickling
-its arguments rather than a fresh interpreter.  Measured on the development
-machine (2 cores, Python 3.11): the first call pays about 0.3-0.6 s to start
-the server; each later call about 10-25 ms (``spawn`` costs 150-300 ms per
-call).  ``benchmarks/cutwidth.py --overhead`` re-measures it.
+numpy, networkx, python-sat and the SAT engine, so a child costs a fork plus
+unpickling its arguments rather than a fresh interpreter.  Measured on the
+development machine (2 shared cores, Python 3.11): the first call pays about
+0.25 s to start the server, later calls about 12 ms each, against about
+80 ms for an empty ``spawn`` child before any import.  The child imports the
+module of the function it runs, so keep such functions in light modules.
+``benchmarks/cutwidth.py --overhead`` re-measures it.  As with ``spawn``, a
+script that calls :func:`run_limited` at import time needs the
+``if __name__ == "__main__":`` guard.
 
 Solvers and budgets (python-sat 1.9.dev24)
 ------------------------------------------

@@ -107,8 +107,11 @@ class SatOutcome:
     optimal : bool
         ``lower == upper`` was proven.
     stats : dict
-        ``calls`` (list of ``(k, answer, seconds, conflicts)``), ``vars``,
-        ``clauses``, ``build_seconds``, ``solver``, ``options``.
+        ``calls`` (list of ``(k, answer, seconds, conflicts)`` for the chain
+        formula), ``probes`` (list of ``(k, level or None, answer,
+        seconds)``), ``vars``, ``clauses``, ``build_seconds``,
+        ``load_seconds``, ``orbits``, ``solver``, ``options``, ``seconds``,
+        and ``stopped`` / ``killed`` when the deadline cut the search short.
     """
 
     lower: int
@@ -833,7 +836,9 @@ def solve_sat(
         'none': where the redundant level counts go), ``hard_deadline``
         (default False; True runs the search in a child process killed at
         the deadline, for solvers or encodings where a conflict slice could
-        overrun).  ``_extra`` (dict) holds experimental switches for the
+        overrun), ``probe`` (default True: before the chain formula, ask
+        single levels whether a prefix of cut <= k exists at all; one "no"
+        proves width > k).  ``_extra`` (dict) holds experimental switches for the
         benchmarks (``edge_order``: 'index' or 'hint'; ``exact_c``: also
         ``c -> x[u] xor x[v]``).
 
@@ -852,11 +857,15 @@ def solve_sat(
 
     Notes
     -----
-    The formula has O(n^2 + n m kmax) clauses (n levels, a counter of width
-    kmax = upper - 1 over the m crossing indicators of each level) and is
-    built once.  With a deadline each SAT call runs in conflict-budgeted
-    slices (:func:`~sweepwidth.solve._deadline.sat_call`), so the function
-    returns within about a quarter second of the deadline.
+    The chain formula has O(n^2 + n m kmax) clauses for the order and the
+    cut counters (n levels, counters of width kmax = upper - 1 over the m
+    crossing indicators of each level, a weight w counting w times) plus
+    O(n^3) for the level counts of the middle half, and is built once.  The
+    single-level probe formula has O(n^2 + m kmax) clauses.  With a deadline
+    every SAT call runs in conflict-budgeted slices
+    (:func:`~sweepwidth.solve._deadline.sat_call`) and the build checks the
+    clock, so the function returns within about a second of the deadline.
+    Exponential in the worst case (cutwidth is NP-hard).
 
     References
     ----------
