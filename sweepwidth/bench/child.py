@@ -64,6 +64,7 @@ _PRELOAD = [
     "sweepwidth.verify.homology",
     "sweepwidth.verify.homotopy",
     "sweepwidth.bench.child",
+    "sweepwidth.bench._warm",
 ]
 
 #: seconds a child may take to start (interpreter, imports) before its time limit starts counting
@@ -238,6 +239,8 @@ def _import_preloaded() -> None:
     import importlib
 
     for name in _PRELOAD:
+        if name.endswith("._warm"):
+            continue  # only worth it in the long-lived forkserver
         try:
             importlib.import_module(name)
         except ImportError:
