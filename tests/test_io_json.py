@@ -205,3 +205,25 @@ def test_unwritable_label():
     G = nx.Graph([(frozenset({1}), 2)])
     with pytest.raises(SweepwidthError, match="frozenset"):
         dumps(G)
+
+
+def test_documented_example_reads_and_its_known_value_holds():
+    import itertools
+    import pathlib
+
+    text = (pathlib.Path(__file__).parents[1] / "docs" / "formats.md").read_text()
+    block = text.split("```json\n", 1)[1].split("```", 1)[0]
+    P = loads(block, path="docs/formats.md")
+    assert (P.number_of_vertices(), P.number_of_edges(), P.number_of_faces()) == (4, 5, 3)
+    assert P.meta["curves"]["start"]["vertex"] == "desk" and (2, 0) in P.vertices
+    assert P.edge_data(2) == {"kind": "rope"} and P.meta["note"] == "extra keys go under extra"
+    # the stated cutwidth, recomputed here by brute force over all 4! orderings
+    G = P.to_simple_graph()
+
+    def width(order):
+        return max(
+            sum(d["weight"] for u, v, d in G.edges(data=True) if (u in order[:i]) != (v in order[:i]))
+            for i in range(1, len(order))
+        )
+
+    assert min(width(list(o)) for o in itertools.permutations(G.nodes())) == P.meta["known"]["cutwidth"]["value"]
