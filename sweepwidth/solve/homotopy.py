@@ -1114,10 +1114,27 @@ def _z2(darts: Sequence[int]) -> set[int]:
     return out
 
 
-def _homology_child(P: Any, kw: dict, *, progress: Callable) -> Result:
+def _portable(P: Any) -> tuple:
+    """The plane graph as plain data (rebuilt by :func:`_rebuild` in a child process)."""
+    m = P.number_of_edges()
+    labels = P.vertices
+    ends = [(P.index(u), P.index(v)) for _, u, v, _ in P.edges]
+    weights = [P.weight(e) for e in range(m)]
+    nxt = [P.next_dart(d) for d in range(2 * m)]
+    return labels, ends, weights, nxt, P.outer_face
+
+
+def _rebuild(data: tuple) -> Any:
+    from ..plane import PlaneGraph
+
+    labels, ends, weights, nxt, outer = data
+    return PlaneGraph(labels, ends, weights, nxt, outer=outer)
+
+
+def _homology_child(data: tuple, kw: dict, *, progress: Callable) -> Result:
     from .homology import homology_width
 
-    return homology_width(P, **kw)
+    return homology_width(_rebuild(data), **kw)
 
 
 def _homology_lower(
@@ -1159,11 +1176,7 @@ def _homology_lower(
         else:
             from ._deadline import run_limited
 
-            try:
-                done, r, _ = run_limited(_homology_child, (P, kw), deadline=hard_deadline)
-            except (TypeError, AttributeError, pickle.PicklingError):
-                # the graph does not pickle: run here under the solver's own time limit
-                done, r = True, homology_width(P, **kw)
+            done, r, _ = run_limited(_homology_child, (_portable(P), kw), deadline=hard_deadline)
             if not done:
                 info["homology"] = "stopped at its time budget without a result"
                 return None, info, None
@@ -1184,6 +1197,7 @@ def homotopy_bounds(
     deadline: float | None = None,
     seed: int | None = None,
     homology_budget: float | None = None,
+    hard_deadline: float | None = None,
 ) -> dict:
     """Proven lower bound, best constructed homotopy and how each was obtained.
 
@@ -1196,6 +1210,9 @@ def homotopy_bounds(
         Adds a breadth-first order with random tie-breaking.
     homology_budget : float, optional
         Seconds for the homology lower bound (default: a share of the time left).
+    hard_deadline : float, optional
+        Until no homotopy is built, constructions may run until this later
+        deadline (so that a short time limit still ends with a witness).
 
     Returns
     -------
@@ -1246,12 +1263,14 @@ def homotopy_bounds(
     geo = [(f"spectral order of the dual ({'+-'[k]})", rank) for k, rank in enumerate(_spectral_ranks(H))]
     angles = (0, 45, 90, 135) if small else (0, 90)
     geo += [(f"straight sweep of the drawing at {ang:g} degrees", rank) for ang, rank in _direction_ranks(H, angles)]
+    if geo:  # the fastest reliable one first: a witness early under short time limits
+        orders.append((geo[0][0], geo[0][1], False, 0))
     for name, rank in geo:
         orders.append((f"{name}, window {win}", rank, False, win))
     orders.append(("greedy by length", bfs, True, 0))
     orders.append(("homology order", None, False, 0))
     if small:
-        for name, rank in geo:
+        for name, rank in geo[1:]:
             orders.append((name, rank, False, 0))
         orders.append(("homology order, window", None, False, win))
     orders.append(("breadth-first from the holes", bfs, False, 0))
@@ -1280,12 +1299,15 @@ def homotopy_bounds(
             if best is not None and best[0] <= trivial + _EPS:
                 tried[label] = "skipped (the best one meets the lower bound)"
                 continue
-            if deadline is not None and time.monotonic() > deadline:
+            until = deadline
+            if best is None and hard_deadline is not None and deadline is not None:
+                until = max(deadline, hard_deadline)
+            if until is not None and time.monotonic() > until:
                 tried[label] = "skipped (time limit)"
                 continue
-            got = construct_homotopy(H, rank, greedy=greedy, simple=simple, deadline=deadline, window=window)
+            got = construct_homotopy(H, rank, greedy=greedy, simple=simple, deadline=until, window=window)
             if got is None:
-                stopped = deadline is not None and time.monotonic() > deadline
+                stopped = until is not None and time.monotonic() > until
                 tried[label] = "stopped (time limit)" if stopped else "no homotopy from this order"
             else:
                 tried[label] = got[0]
@@ -1317,15 +1339,30 @@ def homotopy_bounds(
 
 
 # ====================================================================== search
-def _search_child(problem: HomotopyProblem, kw: dict, *, progress: Callable) -> Any:
+def _search_child(data: tuple, options: dict, kw: dict, *, progress: Callable) -> Any:
+    from .homotopy_search import search_homotopy
+
+    opts = dict(options)
+    opts.pop("closed", None)
+    problem = HomotopyProblem.build(_rebuild(data), **opts)
+    return search_homotopy(problem, progress=progress, **kw)
+
+
+def _search_here(problem: HomotopyProblem, kw: dict, *, progress: Callable) -> Any:
     from .homotopy_search import search_homotopy
 
     return search_homotopy(problem, progress=progress, **kw)
 
 
 def _run_search(H: HomotopyProblem, deadline: float | None, upper: float | None, witness: dict | None,
-                lower: float | None) -> tuple[Any, str]:
-    """Run the exact search (child process under a deadline); (outcome or None, note)."""
+                lower: float | None, isolate: bool = False) -> tuple[Any, str]:
+    """Run the exact search; (outcome or None, note).
+
+    By default in this process under the search's own cooperative deadline
+    (measured within ~0.1 s; a child process costs about a second to start on
+    a loaded 2-core machine, a large share of short limits).  ``isolate=True``
+    runs it in a child killed at the deadline instead.
+    """
     try:
         from . import homotopy_search  # noqa: F401
     except ImportError as err:
@@ -1333,18 +1370,18 @@ def _run_search(H: HomotopyProblem, deadline: float | None, upper: float | None,
     from ._deadline import run_limited
 
     kw = {"upper": upper, "upper_witness": witness, "lower": lower, "deadline": deadline}
-    if deadline is None:
-        done, value, reports = run_limited(_search_child, (H, kw), deadline=None)
-    else:
-        try:
-            done, value, reports = run_limited(_search_child, (H, kw), deadline=deadline + 0.4)
-        except (RuntimeError, OSError, TypeError, AttributeError, pickle.PicklingError) as err:
-            if isinstance(err, SweepwidthError):
-                raise
-            # no child process possible (a script without a __main__ guard, an argument that
-            # does not pickle): the search's own cooperative deadline, in this process
-            done, value, reports = run_limited(_search_child, (H, kw), deadline=None)
-            return value, f"finished in this process ({type(err).__name__} starting a child)"
+    if deadline is None or not isolate:
+        done, value, reports = run_limited(_search_here, (H, kw), deadline=None)
+        return value, "finished" if deadline is None else "ran in this process under its own deadline"
+    try:
+        args = (_portable(H.graph), H.options(), kw)
+        done, value, reports = run_limited(_search_child, args, deadline=deadline + 0.4)
+    except (RuntimeError, OSError, TypeError, AttributeError, pickle.PicklingError) as err:
+        if isinstance(err, SweepwidthError):
+            raise
+        # no child process possible (e.g. a script without a __main__ guard)
+        done, value, reports = run_limited(_search_here, (H, kw), deadline=None)
+        return value, f"ran in this process ({type(err).__name__} starting a child)"
     if done:
         return value, "finished"
     if reports:
@@ -1476,7 +1513,7 @@ def homotopy_height(
 
     if method in ("auto", "bounds"):
         sub = None if deadline is None else t0 + (float(time_limit) if method == "bounds" else 0.6 * float(time_limit))
-        b = homotopy_bounds(H, deadline=sub, seed=seed)
+        b = homotopy_bounds(H, deadline=sub, seed=seed, hard_deadline=deadline)
         lower, upper, witness = b["lower"], b["upper"], b["witness"]
         bounds = dict(b["bounds"])
         stats["orders"] = b["orders"]
@@ -1486,7 +1523,9 @@ def homotopy_height(
         why = None
         if method == "auto":
             nf = len(H.sweepable_faces)
-            if deadline is None and nf > AUTO_SEARCH_FACES:
+            if upper is None and nf > AUTO_SEARCH_FACES:
+                why = f"exact search skipped: no constructed homotopy to start from on {nf} sweepable faces"
+            elif deadline is None and nf > AUTO_SEARCH_FACES:
                 why = f"exact search skipped: {nf} sweepable faces > {AUTO_SEARCH_FACES} and no time limit"
             elif deadline is not None and time.monotonic() > deadline - 0.3:
                 why = "exact search skipped: no time left"
