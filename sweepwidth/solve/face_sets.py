@@ -71,8 +71,8 @@ MAX_TABLE_BYTES = 1 << 30
 
 # development machine (2 shared cores, load ~10, numba): the subset DP took 5.2 ns per
 # state and face at k = 20 (0.11 s); the toggle search is allowed 6x that (heap work), and
-# often stops early; the pure-Python fallback is ~150x slower
-_NS_PER_STATE_FACE = 5.0 if HAVE_NUMBA else 800.0
+# often stops early; the pure-Python fallback was ~750x slower (k = 14)
+_NS_PER_STATE_FACE = 5.0 if HAVE_NUMBA else 4000.0
 
 
 def _jit(fn: Any) -> Any:
