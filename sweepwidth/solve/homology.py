@@ -211,7 +211,10 @@ def _by_cutwidth(fs: FaceSweep, deadline: float | None, seed: int | None, floor:
             iw, iorder = improve_sweep(fs, order, deadline=time.monotonic() + budget)
             if iw < width - _EPS:
                 width, order, up_how = iw, iorder, up_how + ", then local search on the true weights"
-    low_how = "cutwidth engine lower bound + constant" + ("" if nested else " (relaxation without the crossing edges)")
+    if r.lower is not None and fs.const + float(r.lower) >= floor:
+        low_how = "cutwidth engine lower bound + constant" + ("" if nested else " (relaxation without the crossing edges)")
+    else:
+        low_how = "weights of start and end"
     info["bounds"] = {"lower": low_how, "upper": up_how}
     return _Outcome(lower, width, order, "cutwidth", info)
 
