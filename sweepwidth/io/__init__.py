@@ -72,6 +72,8 @@ def detect_format(data: bytes) -> str | None:
     'planar_code'
     >>> detect_format(b'{"format": "sweepwidth-plane"}')
     'json'
+    >>> detect_format(b"# a mesh\nOFF\n3 1 0\n")
+    'off'
     """
     head = data[:4096]
     if head.startswith(b">>planar_code"):
@@ -90,6 +92,8 @@ def detect_format(data: bytes) -> str | None:
             continue
         if s.startswith(b"p ") or s == b"p":
             return "gr"
+        if s.split()[0] in (b"OFF", b"COFF", b"NOFF", b"CNOFF", b"STOFF"):
+            return "off"
         if s.startswith((b"v ", b"f ", b"vt ", b"vn ", b"o ", b"g ", b"mtllib", b"usemtl")):
             return "obj"
         if s.startswith((b"c ", b"c\t")) or s == b"c":
