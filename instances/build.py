@@ -322,7 +322,11 @@ def external_entries(out: str) -> list[dict]:
                 print(f"build.py: skipping {p}: {err}", file=sys.stderr)
                 continue
             meta = getattr(obj, "meta", None) if hasattr(obj, "outer_face") else getattr(obj, "graph", {})
-            e.setdefault("kind", "plane" if hasattr(obj, "outer_face") else "graph")
+            plane = hasattr(obj, "outer_face")
+            e.setdefault("kind", "plane" if plane else "graph")
+            e["vertices"] = obj.number_of_vertices() if plane else obj.number_of_nodes()
+            e["edges"] = obj.number_of_edges()
+            e["faces"] = obj.number_of_faces() if plane else None
             if "known" not in e and meta and meta.get("known"):
                 e["known"] = dict(meta["known"])
             e.setdefault("known", {})

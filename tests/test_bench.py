@@ -396,3 +396,18 @@ def test_regression_demo_survives_a_missing_drawing_module():
             raise ModuleNotFoundError(f"No module named 'x.{name}'")
 
     assert _optional(Lazy("x"), "width_profile") is None
+
+
+def test_regression_file_curves_reach_homology_as_walks(tmp_path):
+    """Bug: a start curve stored in the file as darts was passed to homology as edge ids."""
+    from sweepwidth.bench.loading import solve_object
+
+    P = gen.grid(3, 3)
+    walk = P.face_darts(P.outer_face)
+    P.meta["curves"] = {"start": {"vertex": P.tail(walk[0]), "darts": list(walk)}}
+    path = tmp_path / "g.json"
+    sw.write(P, str(path))
+    Q = sw.read(str(path))
+    r = solve_object(Q, "homology")
+    # the outer boundary walk is the default start: the same width as without the curve
+    assert r.value == sw.homology_width(Q).value == 8  # 3x3 grid disk: the 8-edge boundary (checked in instances)

@@ -15,6 +15,7 @@ import pytest
 
 import sweepwidth as sw
 from sweepwidth.bench.hashing import instance_hash
+from sweepwidth.bench.loading import check_object, solve_object
 
 ROOT = os.path.join(os.path.dirname(os.path.dirname(os.path.abspath(__file__))), "instances")
 MANIFEST = os.path.join(ROOT, "manifest.json")
@@ -128,16 +129,9 @@ def test_known_value_is_recomputed(e, param, known):
     obj = _load(e)
     # small instances run without a time limit: in this process, no child process to start
     limit = None if _fast(e, param) else 300
-    if param == "cutwidth":
-        G = obj.to_networkx() if e["kind"] == "plane" else obj
-        r = sw.cutwidth(G, time_limit=limit)
-        width = r.check(G)
-    elif param == "homology":
-        r = sw.homology_width(obj, time_limit=limit)
-        width = r.check(obj)
-    else:
-        r = sw.homotopy_height(obj, time_limit=limit)
-        width = r.check(obj)
+    # solve_object takes start/end curves and holes from the file, as the runner does
+    r = solve_object(obj, param, time_limit=limit, options=(e.get("options") or {}).get(param, {}))
+    width = check_object(r, obj)
     assert r.status == "optimal", r
     assert r.value == known["value"], known["source"]
     assert width == r.upper

@@ -103,8 +103,8 @@ def _with_file_curves(parameter: str, P: Any, opts: dict) -> dict:
     """Fill start, end and holes from the instance file's metadata when not given.
 
     A file's curves are ``{"vertex": v, "darts": [...]}`` walks or
-    ``{"edges": [...]}`` edge sets.  Homology takes an edge set or a dart
-    list; homotopy takes the walk form as it is.
+    ``{"edges": [...]}`` edge sets.  Homology takes either (an edge set as a
+    set of edge ids, a walk in its JSON form); homotopy takes walks only.
     """
     meta = getattr(P, "meta", None) or {}
     curves = meta.get("curves") or {}
@@ -114,7 +114,8 @@ def _with_file_curves(parameter: str, P: Any, opts: dict) -> dict:
             continue
         c = curves[name]
         if parameter == "homology":
-            out[name] = list(c["edges"]) if "edges" in c else list(c.get("darts", []))
+            # an edge set as a set of edge ids; a walk in its JSON form (dart ids are not edge ids)
+            out[name] = set(c["edges"]) if "edges" in c else {"vertex": c["vertex"], "darts": list(c["darts"])}
         else:
             if "edges" in c:
                 continue  # an edge set is no walk; the solver's default applies
