@@ -72,7 +72,7 @@ def detect_format(data: bytes) -> str | None:
     'planar_code'
     >>> detect_format(b'{"format": "sweepwidth-plane"}')
     'json'
-    >>> detect_format(b"# a mesh\nOFF\n3 1 0\n")
+    >>> detect_format(b"# a mesh\\nOFF\\n3 1 0\\n")
     'off'
     """
     head = data[:4096]
