@@ -233,7 +233,8 @@ def run_tasks(
                 f.cancel()
             cancel_all()
         finally:
-            cancel_all() if report.interrupted else None
+            if report.interrupted:
+                cancel_all()  # children started after the first sweep of kills
             owned.close()
         database.finish_run(run_id)
         report.seconds = time.monotonic() - t0
