@@ -158,7 +158,8 @@ def _by_cutwidth(fs: FaceSweep, deadline: float | None, seed: int | None, floor:
     """Reduce to the cutwidth engine (exact for nested sweeps, a relaxation otherwise)."""
     nested = fs.nested
     info: dict[str, Any] = {"nested": nested}
-    gw, gorder = greedy_sweep(fs, seed=seed)
+    share = None if deadline is None else time.monotonic() + 0.1 * max(0.0, _left(deadline))
+    gw, gorder = greedy_sweep(fs, seed=seed, deadline=share)
     info["greedy_width"] = gw
     left = _left(deadline)
     if left <= 0.05:
