@@ -104,6 +104,7 @@ __all__ = [
     "METHODS",
 ]
 
+#: method names of :func:`homotopy_height` (the functions are in ``_METHODS``)
 METHODS = ("auto", "bounds", "search")
 
 #: without a time limit, 'auto' runs the exact search after the bounds only up to
@@ -1412,6 +1413,98 @@ def _summary(H: HomotopyProblem) -> dict:
     return {"holes": sorted(H.holes), "start": one(H.start), "end": one(H.end)}
 
 
+class _State:
+    """What the methods of :func:`homotopy_height` know so far (bounds, witness, notes)."""
+
+    def __init__(self, H: HomotopyProblem, t0: float, deadline: float | None, seed: int | None,
+                 stats: dict) -> None:
+        self.H, self.t0, self.deadline, self.seed, self.stats = H, t0, deadline, seed, stats
+        self.lower: float = max(H.length_of(H.start), H.length_of(H.end) if H.end is not None else 0.0)
+        self.upper: float | None = None
+        self.witness: dict | None = None
+        self.bounds = {"lower": "length of the start and end curves", "upper": "none"}
+        self.used = ""
+        self.infeasible_reason: str | None = None
+
+    @property
+    def gap_open(self) -> bool:
+        return self.upper is None or self.upper - self.lower > _EPS
+
+
+def _method_bounds(st: _State, share: float = 1.0) -> None:
+    """Proven lower bound and the best constructed homotopy (see :func:`homotopy_bounds`)."""
+    sub = None if st.deadline is None else st.t0 + share * (st.deadline - st.t0)
+    b = homotopy_bounds(st.H, deadline=sub, seed=st.seed, hard_deadline=st.deadline)
+    st.lower, st.upper, st.witness = b["lower"], b["upper"], b["witness"]
+    st.bounds = dict(b["bounds"])
+    st.stats["orders"] = b["orders"]
+    st.stats["homology"] = b["homology"]
+    st.used = "bounds"
+
+
+def _merge_search(st: _State, out: Any, note: str) -> None:
+    st.stats["search"] = {"note": note, **{k: v for k, v in dict(out.stats).items()
+                                           if isinstance(v, (int, float, str, bool))}}
+    if out.lower is not None and out.lower > st.lower + _EPS:
+        st.lower = float(out.lower)
+        st.bounds["lower"] = "exact search (bottleneck levels settled)"
+    if out.upper is not None and out.witness is not None and (st.upper is None or out.upper < st.upper - _EPS):
+        st.upper, st.witness = float(out.upper), out.witness
+        st.bounds["upper"] = "exact search witness"
+    if out.optimal and out.upper is not None:
+        st.lower = max(st.lower, float(out.upper))
+    if out.upper is None and dict(out.stats).get("infeasible"):
+        st.infeasible_reason = dict(out.stats).get("reason") or "exhaustive search: no homotopy under these rules"
+
+
+def _method_search(st: _State) -> None:
+    """The exact search, started from a quick constructed homotopy."""
+    H, deadline = st.H, st.deadline
+    quick = None if deadline is None else time.monotonic() + 0.15 * (deadline - time.monotonic())
+    got = construct_homotopy(H, _bfs_rank(H), greedy=True, deadline=quick)
+    if got is not None:
+        st.upper, st.witness = got
+        st.bounds["upper"] = "constructed homotopy (greedy by length)"
+    out, note = _run_search(H, deadline, st.upper, st.witness, st.lower)
+    if out is None:
+        raise SweepwidthError(f"method 'search': {note}")
+    st.used = "search"
+    _merge_search(st, out, note)
+
+
+def _method_auto(st: _State) -> None:
+    """'bounds' in 60% of the time; then the exact search in the rest when a gap remains."""
+    _method_bounds(st, share=0.6)
+    if not st.gap_open:
+        st.stats["auto"] = "the bounds met: no search needed"
+        return
+    nf = len(st.H.sweepable_faces)
+    if st.upper is None and nf > AUTO_SEARCH_FACES:
+        st.stats["auto"] = f"exact search skipped: no constructed homotopy to start from on {nf} sweepable faces"
+        return
+    if st.deadline is None and nf > AUTO_SEARCH_FACES:
+        st.stats["auto"] = f"exact search skipped: {nf} sweepable faces > {AUTO_SEARCH_FACES} and no time limit"
+        return
+    if st.deadline is not None and time.monotonic() > st.deadline - 0.3:
+        st.stats["auto"] = "exact search skipped: no time left"
+        return
+    out, note = _run_search(st.H, st.deadline, st.upper, st.witness, st.lower)
+    if out is None:
+        st.stats["auto"] = note
+        return
+    st.used = "bounds+search"
+    _merge_search(st, out, note)
+    st.stats["auto"] = f"exact search: {note}"
+
+
+#: the methods of :func:`homotopy_height`, by name
+_METHODS: dict[str, Callable[[_State], None]] = {
+    "auto": _method_auto,
+    "bounds": _method_bounds,
+    "search": _method_search,
+}
+
+
 def homotopy_height(
     P: Any,
     *,
@@ -1504,70 +1597,18 @@ def homotopy_height(
         return Result("homotopy", "infeasible", None, None, None, None, method=method,
                       seconds=time.monotonic() - t0, stats=stats)
     stats["feasibility"] = reason
-    lower: float = max(H.length_of(H.start), H.length_of(H.end) if H.end is not None else 0.0)
-    upper: float | None = None
-    witness: dict | None = None
-    bounds = {"lower": "length of the start and end curves", "upper": "none"}
-    used = method
-    infeasible_reason = None
-
-    if method in ("auto", "bounds"):
-        sub = None if deadline is None else t0 + (float(time_limit) if method == "bounds" else 0.6 * float(time_limit))
-        b = homotopy_bounds(H, deadline=sub, seed=seed, hard_deadline=deadline)
-        lower, upper, witness = b["lower"], b["upper"], b["witness"]
-        bounds = dict(b["bounds"])
-        stats["orders"] = b["orders"]
-        stats["homology"] = b["homology"]
-        used = "bounds"
-    if method == "search" or (method == "auto" and (upper is None or upper - lower > _EPS)):
-        why = None
-        if method == "auto":
-            nf = len(H.sweepable_faces)
-            if upper is None and nf > AUTO_SEARCH_FACES:
-                why = f"exact search skipped: no constructed homotopy to start from on {nf} sweepable faces"
-            elif deadline is None and nf > AUTO_SEARCH_FACES:
-                why = f"exact search skipped: {nf} sweepable faces > {AUTO_SEARCH_FACES} and no time limit"
-            elif deadline is not None and time.monotonic() > deadline - 0.3:
-                why = "exact search skipped: no time left"
-        elif upper is None:
-            # a quick constructed homotopy first, so that a stopped search still has an upper bound
-            quick = None if deadline is None else time.monotonic() + 0.15 * (deadline - time.monotonic())
-            got = construct_homotopy(H, _bfs_rank(H), greedy=True, deadline=quick)
-            if got is not None:
-                upper, witness = got
-                bounds["upper"] = "constructed homotopy (greedy by length)"
-        if why is None:
-            out, note = _run_search(H, deadline, upper, witness, lower)
-            if out is None:
-                if method == "search":
-                    raise SweepwidthError(f"method 'search': {note}")
-                why = note
-            else:
-                used = "search" if method == "search" else "bounds+search"
-                stats["search"] = {"note": note, **{k: v for k, v in dict(out.stats).items()
-                                                    if isinstance(v, (int, float, str, bool))}}
-                if out.lower is not None and out.lower > lower + _EPS:
-                    lower = float(out.lower)
-                    bounds["lower"] = "exact search (bottleneck levels settled)"
-                if out.upper is not None and out.witness is not None and (upper is None or out.upper < upper - _EPS):
-                    upper, witness = float(out.upper), out.witness
-                    bounds["upper"] = "exact search witness"
-                if out.optimal and out.upper is not None:
-                    lower = max(lower, float(out.upper))
-                if out.upper is None and dict(out.stats).get("infeasible"):
-                    infeasible_reason = dict(out.stats).get("reason") or "exhaustive search: no homotopy under these rules"
-                why = f"exact search: {note}"
-        if method == "auto":
-            stats["auto"] = why or "bounds closed the gap"
-    elif method == "auto":
-        stats["auto"] = "the bounds met: no search needed"
+    st = _State(H, t0, deadline, seed, stats)
+    _METHODS[method](st)
+    lower, upper, witness, bounds, used = st.lower, st.upper, st.witness, st.bounds, st.used
+    infeasible_reason = st.infeasible_reason
     stats["bounds"] = bounds
     seconds = time.monotonic() - t0
     if infeasible_reason is not None and upper is None:
         stats["reason"] = infeasible_reason
         return Result("homotopy", "infeasible", None, None, None, None, method=used, seconds=seconds, stats=stats)
-    if upper is not None and lower > upper:
-        lower = upper  # pragma: no cover - would mean a wrong bound; keep the result valid
+    if upper is not None and lower > upper + _EPS:  # pragma: no cover - would be a bug in a bound
+        stats["warning"] = f"lower bound {lower:g} above the witness height {upper:g}: lowered to it"
+        lower = upper
     if upper is not None and upper - lower <= _EPS:
         return Result("homotopy", "optimal", upper, upper, upper, witness, method=used, seconds=seconds, stats=stats)
     return Result("homotopy", "bounded", None, lower, upper, witness, method=used, seconds=seconds, stats=stats)
