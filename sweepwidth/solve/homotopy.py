@@ -1488,7 +1488,13 @@ def _method_auto(st: _State) -> None:
     if st.deadline is not None and time.monotonic() > st.deadline - 0.3:
         st.stats["auto"] = "exact search skipped: no time left"
         return
-    out, note = _run_search(st.H, st.deadline, st.upper, st.witness, st.lower)
+    try:
+        out, note = _run_search(st.H, st.deadline, st.upper, st.witness, st.lower)
+    except SweepwidthError:
+        raise
+    except Exception as err:  # noqa: BLE001 - 'auto' keeps its proven bounds whatever the search does
+        st.stats["auto"] = f"exact search failed ({type(err).__name__}: {err}); bounds kept"
+        return
     if out is None:
         st.stats["auto"] = note
         return
