@@ -1490,8 +1490,6 @@ def _method_auto(st: _State) -> None:
         return
     try:
         out, note = _run_search(st.H, st.deadline, st.upper, st.witness, st.lower)
-    except SweepwidthError:
-        raise
     except Exception as err:  # noqa: BLE001 - 'auto' keeps its proven bounds whatever the search does
         st.stats["auto"] = f"exact search failed ({type(err).__name__}: {err}); bounds kept"
         return
