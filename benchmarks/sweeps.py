@@ -117,6 +117,14 @@ def main(argv=None):
         rng = random.Random(k)
         P = P.with_weights([rng.randint(1, 3) for _ in range(P.number_of_edges())])
         run_search(f"trigrid-{k} w1..3", HomotopyProblem.build(P), deadline_s=120)
+    # research instances (instances/sweeps): the search exhausts whole levels here
+    import sweepwidth as sw
+
+    for name, opts in (("split-delaunay-171", {}), ("backtrack-delaunay-2454", {}),
+                       ("backtrack-delaunay-2454", {"monotone": True}), ("backtrack-delaunay-2026", {})):
+        P = sw.read(os.path.join(HERE, "..", "instances", "sweeps", name + ".json"))
+        H = HomotopyProblem.build(P, start=P.meta["curves"]["start"], **opts)
+        run_search(name + (" monotone" if opts else ""), H, deadline_s=30)
     # 3. the homology developer's rows
     try:
         import _homology_rows  # type: ignore

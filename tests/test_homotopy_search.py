@@ -417,6 +417,16 @@ def test_backtrack_instance_monotone_is_worse():
     assert mono.lower > out.upper
 
 
+def test_backtrack_instance_needs_exactly_one_repeated_face():
+    # with no repeated face (monotone) the optimum is out of reach (above); one repeated face suffices
+    P = sw.read(os.path.join(ROOT, "instances", "sweeps", "backtrack-delaunay-2454.json"))
+    H = HomotopyProblem.build(P, start=P.meta["curves"]["start"])
+    out = _checked(H, max_repeated_faces=1)
+    assert out.optimal and out.upper == P.meta["known"]["homotopy"]["value"]
+    with pytest.raises(SweepwidthError, match="max_repeated_faces"):
+        search_homotopy(H, max_repeated_faces=-1)
+
+
 # ---------------------------------------------------------------- regressions
 def test_regression_dive_is_time_boxed():
     # bug: the greedy dive ran 35 s on this instance before the exact search (which needs 74 states)

@@ -49,7 +49,7 @@ def split_disk(seed: int):
     return P.with_weights([rng.choice([1, 1, 1, 2, 3, 5, 8]) for _ in range(P.number_of_edges())])
 
 
-def backtrack_instance(seed: int):
+def backtrack_instance(seed: int, max_darts: int = 10):
     """A weighted Delaunay disk and an interior closed walk with winding numbers in {-1, 0, 1}.
 
     The walk starts as one face's boundary and takes 1..6 random flips, keeping
@@ -68,7 +68,7 @@ def backtrack_instance(seed: int):
 
     def ok(w):
         L = len(w)
-        return 0 < L <= 10 and all(w[(i + 1) % L] != w[i] ^ 1 for i in range(L)) and \
+        return 0 < L <= max_darts and all(w[(i + 1) % L] != w[i] ^ 1 for i in range(L)) and \
             max(map(abs, sp.winding(w))) <= 1
 
     for _ in range(rng.randint(1, 6)):
@@ -108,6 +108,28 @@ def scan_backtrack(count: int) -> list:
         b = search_homotopy(Hm, deadline=time.monotonic() + 3, upper=a.upper + 1)
         if b.lower > a.upper:
             hits.append((seed, a.upper, b.lower))
+    return hits
+
+
+def scan_repeated(count: int, need: int = 2, max_darts: int = 12, seconds: float = 3.0) -> list:
+    """Interior curves where every optimal homotopy re-flips at least ``need`` faces.
+
+    Proved by the search with ``max_repeated_faces = need - 1`` exhausting every
+    walk below the general optimum + 1 (so the optimum is not reachable with
+    fewer repeated faces).
+    """
+    hits = []
+    for seed in range(count):
+        P, start = backtrack_instance(seed, max_darts=max_darts)
+        Hg = HomotopyProblem.build(P, start=start)
+        a = search_homotopy(Hg, deadline=time.monotonic() + seconds)
+        if not a.optimal:
+            continue
+        b = search_homotopy(Hg, deadline=time.monotonic() + seconds, upper=a.upper + 1,
+                            max_repeated_faces=need - 1)
+        if b.lower > a.upper:
+            hits.append((seed, a.upper, b.lower))
+            print("hit", seed, a.upper, b.lower, flush=True)
     return hits
 
 
@@ -194,7 +216,12 @@ def main(argv=None) -> int:
     ap = argparse.ArgumentParser(description=__doc__.splitlines()[0])
     ap.add_argument("--scan", type=int, default=0, help="rerun both random scans over this many seeds")
     ap.add_argument("--monotone-seconds", type=float, default=60.0)
+    ap.add_argument("--scan-repeated", type=int, default=0,
+                    help="scan this many seeds for curves needing two re-flipped faces")
     args = ap.parse_args(argv)
+    if args.scan_repeated:
+        print("repeated:", scan_repeated(args.scan_repeated))
+        return 0
     if args.scan:
         print("split:", scan_split(args.scan))
         print("backtrack:", scan_backtrack(args.scan))

@@ -47,10 +47,17 @@ Each ingredient is exact for the definition:
   found on the way) walks of length ``>= U`` are never generated: they cannot
   lie on a strictly better homotopy.  When the key reaches ``U`` the known
   homotopy is optimal.
-* *Variants.*  ``monotone=True`` adds the set of flipped faces to the state
-  (a face already flipped is never flipped again); ``simple=True`` drops
-  every non-simple walk except an end point; ``spikes=False`` drops spike and
-  unspike moves.  Holes are never flipped.
+* *Variants.*  ``monotone=True``: when the outer face is a hole, a flip of
+  face ``f`` changes the winding number ``w(f)`` by one and no other, so a
+  monotone homotopy flips exactly the faces with ``w_start(f) != w_end(f)``,
+  once each, towards ``w_end`` (infeasible when some difference is 2 or
+  more); only those flips are generated and the state stays the walk.
+  Otherwise the set of flipped faces is added to the state.
+  ``simple=True`` drops every non-simple walk except a final point;
+  ``spikes=False`` drops spike and unspike moves.  Holes are never flipped.
+  The research option ``max_repeated_faces=r`` adds the sets of faces
+  flipped once and more than once to the state and allows at most ``r`` of
+  the latter.
 
 No other pruning is applied: in particular spikes are not removed eagerly,
 since a homotopy may need a spike that a later flip uses.
@@ -237,7 +244,14 @@ class _Search:
     # w_end(f).  Conversely, when all differences are <= 1, flips that move
     # towards the end flip each face at most once.  The flipped set is then
     # {f : w(f) != w_start(f)}, a function of the walk: no mask is needed.
+    # With ``max_repeated`` (research option) the state is (walk key, faces flipped
+    # at least once, faces flipped at least twice) and at most ``max_repeated``
+    # faces may be flipped more than once.
+    max_repeated: int | None = None
+
     def walk(self, state: Any) -> tuple:
+        if self.max_repeated is not None:
+            return state[0]
         return state[0] if (self.sp.monotone and not self.sp.hole[self.sp.outer]) else state
 
     def is_goal(self, key: tuple) -> bool:
@@ -331,7 +345,11 @@ def _run(
     outer = sp.outer
     wend = search.wend
     start_walk = search.start_key
-    start = (start_walk, 0) if monotone else start_walk
+    rep = search.max_repeated
+    if rep is not None:
+        monotone = False
+        wind_mono = False
+    start = (start_walk, 0, 0) if rep is not None else ((start_walk, 0) if monotone else start_walk)
     f0 = max(length(start_walk), lower)
     best: dict = {start: f0}
     parent: dict = {start: None}
@@ -387,7 +405,8 @@ def _run(
             if expand_limit is not None and settled > expand_limit:
                 reason = "dive budget"
                 break
-        mask = state[1] if monotone else 0
+        mask = state[1] if (monotone or rep is not None) else 0
+        many = state[2] if rep is not None else 0
         _, wn = search.potential_and_winding(key)
         for new, v, move, face, sign, nl in sp.moves(key, cap):
             generated += 1
@@ -406,7 +425,19 @@ def _run(
             goal = is_goal(nkey)
             if simple and not (goal and not new) and not sp.is_simple(nkey):
                 continue
-            nstate = (nkey, mask | (1 << face) if face >= 0 else mask) if monotone else nkey
+            if rep is not None:
+                if face >= 0:
+                    bit = 1 << face
+                    nmany = many | bit if mask & bit else many
+                    if nmany != many and bin(nmany).count("1") > rep:
+                        continue
+                    nstate = (nkey, mask | bit, nmany)
+                else:
+                    nstate = (nkey, mask, many)
+            elif monotone:
+                nstate = (nkey, mask | (1 << face) if face >= 0 else mask)
+            else:
+                nstate = nkey
             if nstate in done:
                 continue
             old = best.get(nstate)
@@ -534,6 +565,7 @@ def search_homotopy(
     use_homology: bool = True,
     dive: int = 400,
     max_states: int = MAX_STATES,
+    max_repeated_faces: int | None = None,
 ) -> SearchOutcome:
     """Exact discrete homotopy height by a bottleneck search over walk states.
 
@@ -560,6 +592,10 @@ def search_homotopy(
         Settled-state budget of the greedy dive for an early upper bound (0: none).
     max_states : int
         Stop (with bounds) when this many states are stored.
+    max_repeated_faces : int, optional
+        Research option: allow at most this many faces to be flipped more
+        than once (0 is the monotone variant).  The least value that keeps the
+        optimum is the number of faces that every optimal homotopy re-flips.
 
     Returns
     -------
@@ -594,6 +630,10 @@ def search_homotopy(
         monotone=spec.monotone, length=spec.length,
     )
     search = _Search(spec, sp)
+    if max_repeated_faces is not None:
+        if isinstance(max_repeated_faces, bool) or not isinstance(max_repeated_faces, int) or max_repeated_faces < 0:
+            raise SweepwidthError(f"max_repeated_faces must be a non-negative integer, got {max_repeated_faces!r}")
+        search.max_repeated = max_repeated_faces
     stats: dict = {"states": 0, "generated": 0, "stored": 0, "dive_states": 0}
     ok, reason, complete = _invariant_check(search)
     stats["invariant_complete"] = complete
@@ -620,11 +660,6 @@ def search_homotopy(
     lower_from = "lengths of the start and end walks"
     if lower is not None and lower > lo:
         lo, lower_from = lower, "given lower bound"
-    if use_homology and lower is None:
-        hl, how = _homology_lower(spec, deadline)
-        stats["homology"] = how
-        if hl is not None and hl > lo:
-            lo, lower_from = hl, how
     state = {"lower": lo, "upper": upper, "witness": upper_witness, "upper_from": "given" if upper is not None else None}
     stats["lower_from"] = lower_from
 
@@ -677,6 +712,18 @@ def search_homotopy(
         if r["found"] is not None:
             h, st_ = r["found"]
             on_upper_factory("greedy dive")(h, st_, r["parent"])
+        if state["upper"] is not None and state["upper"] <= lo:
+            state["lower"] = state["upper"]
+            return outcome(True)
+    # the homology bound is asked for only when the cheap bounds and the dive leave a gap
+    if use_homology and lower is None:
+        hl, how = _homology_lower(spec, deadline)
+        stats["homology"] = how
+        if hl is not None and hl > lo:
+            lo, lower_from = hl, how
+            stats["lower_from"] = lower_from
+            state["lower"] = max(state["lower"], lo)
+            report()
         if state["upper"] is not None and state["upper"] <= lo:
             state["lower"] = state["upper"]
             return outcome(True)
