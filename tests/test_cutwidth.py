@@ -112,7 +112,7 @@ EXACT = ["dp", "bnb", "sat", "auto"]
 # ------------------------------------------------------------------ exact methods vs brute force
 
 
-@settings(max_examples=60, deadline=None, suppress_health_check=[HealthCheck.too_slow])
+@settings(max_examples=40, deadline=None, suppress_health_check=[HealthCheck.too_slow])
 @given(data=st.data())
 @example(data=None)  # regression: the star with a pinned leaf (wrongly believed to be 4 at first)
 def test_exact_methods_match_brute_force(data):

@@ -24,6 +24,8 @@ from typing import Any, Callable, Hashable, Iterable, Sequence
 
 import networkx as nx
 import numpy as np
+import scipy.sparse  # noqa: F401 - imported up front: its first import costs ~1 s
+import scipy.sparse.csgraph  # noqa: F401
 
 from .._weights import check_weight, weight_function
 from ..errors import SweepwidthError, UnsupportedOptionError

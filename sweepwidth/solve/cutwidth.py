@@ -156,7 +156,20 @@ def _m_sat(P, *, lower, upper, upper_order, deadline, seed, solver="cadical195",
     Q = P if q == 1 else P.scaled(q)
     lo = int(math.ceil(lower * q - 1e-6))
     up = int(round(upper * q)) if upper is not None else None
-    out = solve_sat(Q, lower=lo, upper=up, upper_order=upper_order, deadline=deadline, solver=solver, **(sat_options or {}))
+    opts = dict(sat_options or {})
+    if deadline is not None and sat_options is None:
+        # a child process killed at the deadline keeps the time limit even when
+        # building the encoding or one solver call takes long
+        opts["hard_deadline"] = True
+    try:
+        out = solve_sat(Q, lower=lo, upper=up, upper_order=upper_order, deadline=deadline, solver=solver, **opts)
+    except (AssertionError, OSError, RuntimeError) as err:
+        if not opts.get("hard_deadline"):
+            raise
+        # no child process possible here (e.g. inside a daemonic process): run in-process
+        opts.pop("hard_deadline")
+        out = solve_sat(Q, lower=lo, upper=up, upper_order=upper_order, deadline=deadline, solver=solver, **opts)
+        out.stats["child_failed"] = f"{type(err).__name__}: {err}"
     order = out.order if out.order is not None else upper_order
     width = P.width(order)
     st = dict(out.stats)
@@ -331,7 +344,9 @@ def _auto_part(P: OrderingProblem, deadline: float | None, seed: int | None, opt
         stats["auto"] = {"choice": "bnb", "reason": "time limit reached", "chain": chain, "notes": why}
         return _Part(lb, ub, order, stats, "bnb")
     q = P.integer_scale()
-    if q is not None and n > _SAT_MAX_N:
+    if q is not None and deadline is not None and _left(deadline) < 0.5:
+        why.append("sat skipped: less than 0.5 s left")
+    elif q is not None and n > _SAT_MAX_N:
         why.append(f"sat skipped: {n} vertices make an order encoding of about n^2 = {n * n} variables")
     elif q is not None:
         try:
@@ -446,6 +461,9 @@ def cutwidth(
     t0 = time.monotonic()
     _validate(method, time_limit, seed, options)
     deadline = None if time_limit is None else t0 + float(time_limit) - 0.05
+    from . import _kernels
+
+    _kernels.warm_up()  # first call in a process: load compiled kernels inside the time limit
     P = OrderingProblem.from_graph(G, weight=weight, first=first, last=last)
     C = P.contract_pins()
     Q = C.problem
