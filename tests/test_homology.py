@@ -13,6 +13,7 @@ References used by the checks (see /work/shared/CHECKS.md):
 from __future__ import annotations
 
 import itertools
+import time
 import math
 
 import networkx as nx
@@ -538,3 +539,19 @@ def test_large_crossing_sweep_against_the_exact_dp():
     exact = sw.homology_width(P, start=c0, end=c1, method="subset-dp", max_faces=24)
     r = sw.homology_width(P, start=c0, end=c1, method="cutwidth")
     assert r.lower <= exact.value <= r.upper
+
+
+def _homology_in_child(P, *, progress):
+    return sw.homology_width(P, time_limit=5, seed=0)
+
+
+def test_runs_inside_a_time_limited_child():
+    # the homotopy solver calls homology_width inside a daemonic child process, which may
+    # not start children of its own: the engine's SAT stage must not try to
+    from sweepwidth.solve._deadline import run_limited
+
+    P = generators.delaunay(30, seed=2)
+    done, r, _ = run_limited(_homology_in_child, (P,), deadline=time.monotonic() + 60)
+    assert done
+    assert r.check(P) == r.upper
+    assert "cutwidth_child" not in r.stats["parts"][0]

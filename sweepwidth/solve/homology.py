@@ -247,7 +247,10 @@ def _run_engine(G: Any, first: Any, last: Any, kw: dict, deadline: float | None,
         info["cutwidth"] = "skipped: no time left"
         return None
     kw = dict(kw, time_limit=max(0.05, 0.85 * left - 0.05))  # room for stages that overrun a little
-    if kw.get("method", "auto") in ("auto", "sat"):
+    import multiprocessing
+
+    if kw.get("method", "auto") in ("auto", "sat") and not multiprocessing.current_process().daemon:
+        # (a daemonic process, e.g. another time-limited child, may not start children)
         kw["sat_options"] = {"hard_deadline": True}
     try:
         return cutwidth(G, first=[first], last=[last], **kw)
