@@ -33,7 +33,7 @@ def _edges(P: Any, spec: Any, default: set[int], what: str, closed: bool = True)
         ds = [int(d) for d in spec["darts"]]
         for i, d in enumerate(ds):
             if not 0 <= d < 2 * m:
-                raise WitnessError(f"{what}: dart {d} does not exist")
+                raise WitnessError(f"{what}: dart {d} at position {i} does not exist")
         for i, d in enumerate(ds):
             if not closed and i == len(ds) - 1:
                 break
