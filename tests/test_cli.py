@@ -276,3 +276,26 @@ def test_start_curve_and_open_ends(tmp_path, capsys):
     rc = main(["solve", str(path), "--param", "homotopy", "--start", "[[0,0],[2,2]]"])
     assert rc == 1
     assert capsys.readouterr().err.startswith("sweepwidth: error: ")
+
+
+def test_ctrl_c_stops_a_bench_run_and_its_children(files, tmp_path):
+    import signal
+    import time
+
+    db = tmp_path / "int.sqlite"
+    proc = subprocess.Popen(
+        [sys.executable, "-m", "sweepwidth", "bench", str(files / "grid.json"), str(files / "wheel.json"),
+         "--time-limit", "60", "--jobs", "2", "--db", str(db), "--solver", "sweepwidth.bench.probes:silent"],
+        stdout=subprocess.PIPE, stderr=subprocess.PIPE, text=True,
+    )
+    time.sleep(4.0)  # both tasks are running (they would sleep far beyond the limit)
+    t0 = time.monotonic()
+    proc.send_signal(signal.SIGINT)
+    out, err = proc.communicate(timeout=60)
+    assert time.monotonic() - t0 < 30
+    assert proc.returncode == 1, err
+    assert "interrupted" in out
+    from sweepwidth.bench import ResultsDB
+
+    with ResultsDB(str(db)) as d:  # cut-off tasks are not recorded: a resumed run does them
+        assert d.count() == 0

@@ -45,12 +45,13 @@ import time
 import traceback
 from typing import Any, Callable, Mapping
 
-__all__ = ["execute_task", "cancel_all", "quick_bounds", "OUTCOME_STATUSES"]
+__all__ = ["execute_task", "cancel_all", "reset_cancel", "quick_bounds", "OUTCOME_STATUSES"]
 
 OUTCOME_STATUSES = ("optimal", "bounded", "infeasible", "timeout", "memory", "error")
 
 _ACTIVE: dict[int, Callable[[], None]] = {}
 _ACTIVE_LOCK = threading.Lock()
+_STOPPING = threading.Event()  # set by cancel_all(): no new child may run until reset_cancel()
 _PRELOAD = [
     "numpy",
     "networkx",
@@ -496,10 +497,14 @@ def execute_task(task: Any, *, isolation: str = "auto") -> dict:
         hard = float(t["time_limit"]) + float(t.get("grace", 5.0))
     t0 = time.monotonic()
     started: float | None = None  # when the child said it is up; the hard limit counts from then
+    if _STOPPING.is_set():
+        return _outcome(t, ["error", "cancelled before it started"], None, False, None, 0.0)
     chan = _ForkChannel(t) if mode == "fork" else _SubprocessChannel(t)
     ident = id(chan)
     with _ACTIVE_LOCK:
         _ACTIVE[ident] = chan.kill
+    if _STOPPING.is_set():  # cancelled while this child was starting
+        chan.kill()
     last: dict | None = None
     final: list | None = None
     killed = False
@@ -623,8 +628,19 @@ def _outcome(t: Mapping[str, Any], final: list | None, last: dict | None, killed
     return out
 
 
+def reset_cancel() -> None:
+    """Allow :func:`execute_task` to start children again after :func:`cancel_all`."""
+    _STOPPING.clear()
+
+
 def cancel_all() -> int:
-    """Kill every child process started by :func:`execute_task` in this process; return how many."""
+    """Kill every child process started by :func:`execute_task` in this process; return how many.
+
+    Until :func:`reset_cancel` is called, tasks that have not started their
+    child yet end at once as 'error' ("cancelled") and children that are
+    starting are killed as soon as they exist.
+    """
+    _STOPPING.set()
     with _ACTIVE_LOCK:
         kills = list(_ACTIVE.values())
     for k in kills:

@@ -23,7 +23,7 @@ from dataclasses import dataclass, field
 from typing import Any, Callable, Iterable, Mapping, Sequence
 
 from ..errors import SweepwidthError, UnsupportedOptionError
-from .child import cancel_all, execute_task
+from .child import cancel_all, execute_task, reset_cancel
 from .db import ResultsDB
 from .meta import run_metadata
 from .summary import verdict
@@ -211,6 +211,7 @@ def run_tasks(
             database.finish_run(run_id)
             return report
         owned = make_executor(executor, jobs=jobs)
+        reset_cancel()
         futures: dict[Any, Task] = {}
         try:
             for t in todo:
@@ -231,11 +232,10 @@ def run_tasks(
             report.interrupted = True
             for f in futures:
                 f.cancel()
-            cancel_all()
+            cancel_all()  # also stops children that are still starting
         finally:
-            if report.interrupted:
-                cancel_all()  # children started after the first sweep of kills
             owned.close()
+            reset_cancel()
         database.finish_run(run_id)
         report.seconds = time.monotonic() - t0
         return report
