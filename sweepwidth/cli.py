@@ -426,11 +426,6 @@ def cmd_bench(args: argparse.Namespace, out: Callable[[str], None]) -> int:
         raise CliError(f"--jobs must be at least 1, got {args.jobs}")
     if args.time_limit is None:
         raise CliError("bench needs --time-limit (seconds per task)")
-    if args.first or args.last or args.start or args.end or args.ends:
-        raise CliError(
-            "bench does not take --first/--last/--start/--end/--ends (labels differ between instances);"
-            " give them per instance in a manifest's 'options' or in the instance file's curves"
-        )
     opts: dict[str, Any] = {}
     if args.sat_solver:
         opts["solver"] = args.sat_solver
@@ -652,16 +647,19 @@ def cmd_demo(args: argparse.Namespace, out: Callable[[str], None]) -> int:
 
 
 # ------------------------------------------------------------------- parser
-def _add_solver_options(p: argparse.ArgumentParser) -> None:
+def _add_solver_options(p: argparse.ArgumentParser, *, per_instance: bool = True) -> None:
+    """Parameter options; those naming vertices or curves only where there is one instance at a time."""
     g = p.add_argument_group("parameter options")
-    g.add_argument("--first", action="append", metavar="V", help="cutwidth: vertex (or comma list) placed first")
-    g.add_argument("--last", action="append", metavar="V", help="cutwidth: vertex (or comma list) placed last")
+    if per_instance:
+        g.add_argument("--first", action="append", metavar="V", help="cutwidth: vertex (or comma list) placed first")
+        g.add_argument("--last", action="append", metavar="V", help="cutwidth: vertex (or comma list) placed last")
     g.add_argument("--unit", action="store_true", help="cutwidth: ignore edge weights (every edge counts 1)")
     g.add_argument("--sat-solver", metavar="NAME", help="cutwidth: python-sat solver for the SAT method (e.g. cadical195, glucose4)")
     g.add_argument("--holes", metavar="F,F", help="homology/homotopy: face ids that may not be swept (default: the outer face)")
-    g.add_argument("--start", metavar="CURVE", help="homology/homotopy: start curve in JSON, e.g. '[0, 1, 2]' (default: the outer boundary)")
-    g.add_argument("--end", metavar="CURVE", help="homology/homotopy: end curve in JSON (default: empty / a point)")
-    g.add_argument("--ends", metavar="S,T", help="homotopy: sweep walks from S to T (the outer boundary one way to the other)")
+    if per_instance:
+        g.add_argument("--start", metavar="CURVE", help="homology/homotopy: start curve in JSON, e.g. '[0, 1, 2]' (default: the outer boundary)")
+        g.add_argument("--end", metavar="CURVE", help="homology/homotopy: end curve in JSON (default: empty / a point)")
+        g.add_argument("--ends", metavar="S,T", help="homotopy: sweep walks from S to T (the outer boundary one way to the other)")
     g.add_argument("--no-spikes", action="store_true", help="homotopy: forbid spikes and unspikes")
     g.add_argument("--simple", action="store_true", help="homotopy: every intermediate curve must be simple")
     g.add_argument("--monotone", action="store_true", help="homotopy: flip each face at most once")
@@ -711,7 +709,11 @@ def build_parser() -> argparse.ArgumentParser:
     s.add_argument("--no-check", action="store_true", help="do not replay the witness with the independent checker")
     _add_solver_options(s)
 
-    b = verb("bench", "run instance sets into a results database", "sweepwidth bench instances/ --param homology --jobs 2 --time-limit 30 --db runs.sqlite --resume")
+    b = verb(
+        "bench",
+        "run instance sets into a results database (pins and curves come per instance from a manifest's 'options' or the files)",
+        "sweepwidth bench instances/ --param homology --jobs 2 --time-limit 30 --db runs.sqlite --resume",
+    )
     b.add_argument("paths", nargs="+", metavar="PATH", help="instance files, folders, or manifest.json files")
     b.add_argument("--param", action="append", metavar="P", help="parameters (repeat or comma list; default cutwidth)")
     b.add_argument("--method", action="append", metavar="M", help="methods to compare (repeat or comma list; default auto)")
@@ -726,7 +728,7 @@ def build_parser() -> argparse.ArgumentParser:
     b.add_argument("--sets", action="append", metavar="NAME", help="only these manifest sets (repeat or comma list)")
     b.add_argument("--solver", metavar="MODULE:FUNCTION", help="benchmark your own solver function instead of the library's (see sweepwidth.bench.Task)")
     b.add_argument("--quiet", action="store_true", help="print only the summary")
-    _add_solver_options(b)
+    _add_solver_options(b, per_instance=False)
 
     c = verb("check", "re-verify saved results against their instances", "sweepwidth check results/wheel.homology.json")
     c.add_argument("results", nargs="+", metavar="RESULT.json")

@@ -164,7 +164,7 @@ def test_bad_file_is_one_line(files, capsys):
         (["bench", "{grid}", "--time-limit", "1", "--jobs", "0", "--db", "{tmp}/x.sqlite"], "--jobs", 1),
         (["bench", "{tmp}/nowhere", "--time-limit", "1", "--db", "{tmp}/x.sqlite"], "no such file", 1),
         (["export", "--db", "{tmp}/none.sqlite"], "no such results database", 1),
-        (["bench", "{grid}", "--time-limit", "1", "--first", "0", "--db", "{tmp}/x.sqlite"], "--first", 1),
+        (["bench", "{grid}", "--time-limit", "1", "--first", "0", "--db", "{tmp}/x.sqlite"], "--first", 2),
         (["check", "{grid}"], "not a saved result", 1),
         (["draw", "{grid}"], "-o/--output", 2),
         (["convert", "{grid}", "{tmp}/out.xyz"], "format", 1),
