@@ -290,6 +290,9 @@ def test_disconnected_takes_the_largest_component():
 @given(small_instances())
 # one free vertex: its prefix count must still be enforced
 @example((nx.Graph([(0, 1)]), [], [0], {}))
+# vertex-transitive: the orbit-representative clause must not lose any prefix size
+@example((nx.convert_node_labels_to_integers(nx.hypercube_graph(3)), [], [], {}))
+@example((nx.cycle_graph(6), [], [3], {}))
 def test_level_probe_matches_enumeration(case):
     # "a counted prefix of size i with cut <= k exists", against enumerating all subsets
     G, first, last, _ = case

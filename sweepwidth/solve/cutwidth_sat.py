@@ -680,7 +680,7 @@ class _LevelProbe:
     formula serves every (i, k): the prefix size and the bound are assumed.
     """
 
-    def __init__(self, problem: OrderingProblem, kmax: int, solver: str) -> None:
+    def __init__(self, problem: OrderingProblem, kmax: int, solver: str, symmetry: bool = True) -> None:
         from pysat.card import ITotalizer
         from pysat.solvers import Solver
 
@@ -730,7 +730,19 @@ class _LevelProbe:
             clauses.extend(cl)
             top = helper.top
             self.count = [int(r) for r in root]  # count[t-1]: at least t free vertices in the prefix
+        self.reps_clause: list[int] = []
+        if symmetry and not problem.first and len(self.free) >= 2:
+            # any nonempty prefix can be moved by an automorphism to contain an orbit representative
+            rep = _orbits(problem, 0.3)
+            reps = sorted(set(rep[v] for v in self.free))
+            if len(reps) < len(self.free):
+                self.reps_clause = [x[r] for r in reps]
         self.S = Solver(name=solver, bootstrap_with=clauses)
+        if self.reps_clause:
+            # as an assumption-guarded clause: only prefixes of size >= 1 need it
+            top += 1
+            self.guard = top
+            self.S.add_clause([-self.guard] + self.reps_clause)
         self.name = solver
 
     def close(self) -> None:
@@ -755,6 +767,8 @@ class _LevelProbe:
         if self.rhs and t < len(self.rhs):
             assume.append(-self.rhs[t])
         need = i - self.f
+        if self.reps_clause and need >= 1:
+            assume.append(self.guard)
         if self.count:
             if need >= 1:
                 assume.append(self.count[need - 1])
@@ -919,7 +933,7 @@ def solve_sat(
     probe: _LevelProbe | None = None
     if opts["probe"] and opts["direction"] == "down" and solver != "kissat404":
         # the cheap single-level questions first: they often settle k = upper - 1
-        probe = _LevelProbe(problem, upper - 1, solver if solver in BUDGET_SOLVERS else "cadical195")
+        probe = _LevelProbe(problem, upper - 1, solver if solver in BUDGET_SOLVERS else "cadical195", opts["symmetry"])
         if _run_probes(probe, upper - 1, deadline, stats):
             probe.close()
             best.lower = best.upper
