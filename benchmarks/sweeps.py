@@ -22,10 +22,10 @@ HERE = os.path.dirname(os.path.abspath(__file__))
 sys.path.insert(0, os.path.join(HERE, "..", "tests"))
 sys.path.insert(0, HERE)
 
-from sweepwidth import generators  # noqa: E402
-from sweepwidth.problems.homotopy import HomotopyProblem  # noqa: E402
-from sweepwidth.solve.homotopy_search import search_homotopy  # noqa: E402
-from sweepwidth.verify.homotopy import replay_homotopy  # noqa: E402
+from sweepwidth import generators
+from sweepwidth.problems.homotopy import HomotopyProblem
+from sweepwidth.solve.homotopy_search import search_homotopy
+from sweepwidth.verify.homotopy import replay_homotopy
 
 
 def _fmt(x):

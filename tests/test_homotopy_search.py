@@ -15,6 +15,9 @@ Independent references used here:
 
 from __future__ import annotations
 
+import os
+import random
+import sys
 import time
 from collections import deque
 
@@ -22,21 +25,17 @@ import pytest
 from hypothesis import HealthCheck, example, given, settings
 from hypothesis import strategies as st
 
-import os
-import random
-import sys
-
 import sweepwidth as sw
 from sweepwidth import generators
 from sweepwidth.errors import SweepwidthError
 from sweepwidth.plane import PlaneGraph
 from sweepwidth.problems.homotopy import Curve, HomotopyProblem
 from sweepwidth.solve._walks import WalkSpace, least_rotation
-from sweepwidth.solve.homotopy_search import WalkSpec, search_homotopy
+from sweepwidth.solve.homotopy_search import search_homotopy
 from sweepwidth.verify.homotopy import replay_homotopy
 
 sys.path.insert(0, os.path.dirname(os.path.abspath(__file__)))
-from reference_homotopy import legal_moves, reference_height  # noqa: E402
+from reference_homotopy import legal_moves, reference_height
 
 ROOT = os.path.dirname(os.path.dirname(os.path.abspath(__file__)))
 
@@ -183,7 +182,7 @@ def _brute_height(P, start, *, end=None, closed=True, holes=None, spikes=True, s
             at = vv if L == 0 else (P.head(W[-1]) if i == L else P.tail(W[i]))
             for f, C in bounds:
                 m = len(C)
-                for k in range(0, m + 1):
+                for k in range(m + 1):
                     if k > L or (not closed and i + k > L):
                         continue
                     if k == 0 and P.tail(C[0]) != at:

@@ -27,13 +27,14 @@ HERE = os.path.dirname(os.path.abspath(__file__))
 sys.path.insert(0, os.path.dirname(os.path.dirname(HERE)))
 sys.path.insert(0, os.path.join(os.path.dirname(os.path.dirname(HERE)), "tests"))
 
-import sweepwidth as sw  # noqa: E402
-from sweepwidth import generators  # noqa: E402
-from sweepwidth.problems.homotopy import Curve, HomotopyProblem  # noqa: E402
-from sweepwidth.solve._walks import WalkSpace  # noqa: E402
-from sweepwidth.solve.homotopy_search import search_homotopy  # noqa: E402
-from sweepwidth.verify.homotopy import replay_homotopy  # noqa: E402
-from reference_homotopy import legal_moves  # noqa: E402
+from reference_homotopy import legal_moves
+
+import sweepwidth as sw
+from sweepwidth import generators
+from sweepwidth.problems.homotopy import Curve, HomotopyProblem
+from sweepwidth.solve._walks import WalkSpace
+from sweepwidth.solve.homotopy_search import search_homotopy
+from sweepwidth.verify.homotopy import replay_homotopy
 
 #: seeds found by the scans (see ``scan_split`` and ``scan_backtrack``)
 SPLIT_SEED = 171

@@ -29,12 +29,13 @@ homotopic).
 
 from __future__ import annotations
 
+from collections.abc import Iterator, Sequence
 from dataclasses import dataclass, field
-from typing import Any, Hashable, Iterator, Sequence
+from typing import Any
 
-from ..errors import InvalidCurveError, SweepwidthError, UnsupportedOptionError
+from ..errors import SweepwidthError, UnsupportedOptionError
 
-__all__ = ["WalkSpace", "least_rotation", "find_rotation", "LENGTH_MODES"]
+__all__ = ["LENGTH_MODES", "WalkSpace", "find_rotation", "least_rotation"]
 
 LENGTH_MODES = ("weight", "vertices")
 
@@ -62,8 +63,7 @@ def least_rotation(w: tuple) -> tuple:
     i = w.index(m, i + 1) if w.count(m) > 1 else -1
     while i >= 0:
         r = w[i:] + w[:i]
-        if r < best:
-            best = r
+        best = min(best, r)
         try:
             i = w.index(m, i + 1)
         except ValueError:
@@ -154,7 +154,7 @@ class WalkSpace:
         simple: bool = False,
         monotone: bool = False,
         length: str = "weight",
-    ) -> "WalkSpace":
+    ) -> WalkSpace:
         """Compile ``P`` (a PlaneGraph) with the given options."""
         if length not in LENGTH_MODES:
             raise UnsupportedOptionError("length", length, list(LENGTH_MODES))
@@ -379,7 +379,7 @@ class WalkSpace:
                 m = flen[f]
                 Cf = C[f]
                 RCf = RC[f]
-                kmax = m if m < L else L
+                kmax = min(L, m)
                 k = 1
                 plen = 0
                 tot = fw[f]

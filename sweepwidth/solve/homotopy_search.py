@@ -85,13 +85,14 @@ from __future__ import annotations
 import heapq
 import itertools
 import time
+from collections.abc import Callable
 from dataclasses import dataclass, field
-from typing import Any, Callable, Hashable, Sequence
+from typing import Any
 
 from ..errors import InvalidCurveError, SweepwidthError
 from ._walks import WalkSpace, find_rotation, least_rotation
 
-__all__ = ["SearchOutcome", "search_homotopy", "WalkSpec"]
+__all__ = ["SearchOutcome", "WalkSpec", "search_homotopy"]
 
 #: default limit on stored states (each costs a few hundred bytes)
 MAX_STATES = 3_000_000
@@ -146,10 +147,6 @@ class WalkSpec:
     length: str = "weight"
 
 
-def _label_index(P: Any, v: Any) -> int:
-    return P.index(v)
-
-
 def _walk_from(P: Any, w: Any, what: str) -> tuple[tuple, int | None]:
     """(darts, vertex index or None) from the many shapes a walk may come in."""
     if w is None:
@@ -180,7 +177,7 @@ def spec_from_problem(problem: Any) -> WalkSpec:
             break
     if P is None:
         raise SweepwidthError(f"expected a HomotopyProblem, got {type(problem).__name__}")
-    sd, sv = _walk_from(P, getattr(problem, "start"), "start")
+    sd, sv = _walk_from(P, problem.start, "start")
     end = getattr(problem, "end", None)
     if end is None:
         ed, ev = None, None
@@ -341,7 +338,6 @@ def _run(
     length = sp.length
     closed = sp.closed
     is_goal = search.is_goal
-    hole = sp.hole
     outer = sp.outer
     wend = search.wend
     start_walk = search.start_key
@@ -419,12 +415,13 @@ def _run(
                 nkey = least_rotation(new) if closed else new
             else:
                 nkey = sp.point(v)
-            f2 = f if f >= nl else nl
+            f2 = max(f, nl)
             if cap is not None and f2 >= cap:
                 continue
             goal = is_goal(nkey)
             if simple and not (goal and not new) and not sp.is_simple(nkey):
                 continue
+            nstate: Any
             if rep is not None:
                 if face >= 0:
                     bit = 1 << face
@@ -516,7 +513,7 @@ def _witness(search: _Search, parent: dict, state: Any) -> dict:
 def _homology_lower(spec: WalkSpec, deadline: float | None) -> tuple[float | None, str]:
     """Homology width of the same start, end and holes, when that solver is present."""
     try:
-        from . import homology as _h  # noqa: F401
+        from . import homology as _h
     except ImportError:
         return None, "homology solver not available"
     try:
@@ -681,7 +678,7 @@ def search_homotopy(
             progress(outcome(False))
 
     # the start already satisfies the end condition
-    if search.is_goal(search.start_key) and (not spec.monotone or True):
+    if search.is_goal(search.start_key):
         h = sp.length(search.start_key)
         state.update(lower=h, upper=h, upper_from="start is an end state",
                      witness={"start": _walk_json(sp, spec.start_darts, spec.start_vertex), "moves": []})
