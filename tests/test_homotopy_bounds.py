@@ -260,3 +260,14 @@ def test_degenerate_graphs():
     r = homotopy_height(edge, spikes=False)
     assert r.status != "optimal"
     assert _ref(edge, 10, spikes=False) is None
+
+
+def test_open_path_loop_at_its_end_vertex():
+    # regression: the end path carries a loop at t; the sweep must insert the loop's face
+    # at position L (the end vertex) of the open walk, which it did not try before
+    from strategies import _thinned_delaunay
+
+    P = _thinned_delaunay(5, 4, 0.0, 27).dual()
+    r = homotopy_height(P, s=3, t=1, method="bounds")
+    assert r.upper is not None and r.check(P) == r.upper
+    assert r.lower <= _ref(P, r.upper, s=3, t=1) <= r.upper

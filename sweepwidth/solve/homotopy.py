@@ -753,14 +753,15 @@ class _Sweeper:
             return moves, f, c[f] < 0
         w = W.darts
         L = len(w)
+        last = L if not H.closed else L - 1  # an open walk also has its end vertex at position L
         for f in faces:
             need_right = c[f] < 0
             on_f = {H.tail[d] for d in H.face_walks[f]}
-            for i in range(L):
-                v = H.tail[w[i]]
+            for i in range(last + 1):
+                v = H.tail[w[i]] if i < L else H.head[w[-1]]
                 if v not in on_f:
                     continue
-                if H.closed or i > 0:
+                if H.closed or 0 < i < L:
                     right_faces = self._right_corners(w[i - 1], w[i])
                     if (f in right_faces) != need_right:
                         continue
