@@ -46,7 +46,7 @@ def inst(tmp_path_factory):
 
 
 def _task(path, **kw):
-    base = dict(instance=str(path), instance_hash=instance_hash(path), parameter="cutwidth", time_limit=5.0)
+    base = dict(instance=str(path), instance_hash=instance_hash(path), parameter="cutwidth", time_limit=20.0)
     base.update(kw)
     return Task(**base)
 
@@ -174,7 +174,7 @@ def test_unsuitable_parameter_is_an_error_not_a_crash(inst):
 # ------------------------------------------------------------------- runner
 def test_run_records_every_task_and_resume_skips(inst, tmp_path):
     db = str(tmp_path / "runs.sqlite")
-    tasks = make_tasks(discover([inst]), ["cutwidth"], ["auto", "dp"], time_limit=5)
+    tasks = make_tasks(discover([inst]), ["cutwidth"], ["auto", "dp"], time_limit=20)
     assert len(tasks) == 8
     rep = run_tasks(tasks + tasks[:2], db, jobs=2)  # duplicates run once
     assert rep.total == 8 and rep.finished == 8
@@ -186,7 +186,8 @@ def test_run_records_every_task_and_resume_skips(inst, tmp_path):
         journal = d.conn.execute("PRAGMA journal_mode").fetchone()[0]
     assert journal == "wal"
     # cw(P3xP3) = cw(P3xP4) = 4 (Rolim, Sykora, Vrto), cw(C5) = 2, cw(P6) = 1 (common practice)
-    assert values == {(n, m): v for n, v in [("grid3x3", 4), ("grid3x4", 4), ("c5", 2), ("p6", 1)] for m in ("auto", "dp")}
+    messages = {(r["name"], r["method"]): r["message"] for r in rows if r["status"] != "optimal"}
+    assert values == {(n, m): v for n, v in [("grid3x3", 4), ("grid3x4", 4), ("c5", 2), ("p6", 1)] for m in ("auto", "dp")}, messages
     assert all(r["checked"] == r["value"] for r in rows)
     assert meta["versions"]["python-sat"] and meta["cpu_count"] and "platform" in meta
     again = run_tasks(tasks, db, jobs=2, resume=True)
@@ -200,7 +201,7 @@ def test_one_bad_instance_does_not_stop_the_run(inst, tmp_path):
     bad.write_text('{"format": "sweepwidth-plane", "vertices": [')
     good = inst / "c5.json"
     tasks = [
-        Task(instance=str(bad), instance_hash="bad", parameter="cutwidth", time_limit=5),
+        Task(instance=str(bad), instance_hash="bad", parameter="cutwidth", time_limit=20),
         _task(good),
     ]
     rep = run_tasks(tasks, str(tmp_path / "r.sqlite"), jobs=1)
@@ -313,7 +314,7 @@ def test_dask_local_cluster_runs_the_same_tasks(inst, tmp_path):
     pytest.importorskip("distributed")
     from distributed import LocalCluster
 
-    tasks = make_tasks(discover([inst / "c5.json", inst / "p6.json"]), ["cutwidth"], time_limit=5)
+    tasks = make_tasks(discover([inst / "c5.json", inst / "p6.json"]), ["cutwidth"], time_limit=20)
     with LocalCluster(n_workers=1, threads_per_worker=2, processes=False, protocol="tcp", dashboard_address=None) as cluster:
         address = cluster.scheduler_address  # tcp://HOST:PORT
         assert address.startswith("tcp://")
@@ -335,7 +336,7 @@ def test_dask_limits_hold_inside_the_worker(inst, tmp_path):
 
 def test_export_csv_and_jsonl(inst, tmp_path):
     db = str(tmp_path / "e.sqlite")
-    run_tasks(make_tasks(discover([inst / "c5.json"]), ["cutwidth"], time_limit=5), db)
+    run_tasks(make_tasks(discover([inst / "c5.json"]), ["cutwidth"], time_limit=20), db)
     with ResultsDB(db) as d:
         text = d.export_text("csv")
         lines = d.export_text("jsonl").splitlines()

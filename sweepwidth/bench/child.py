@@ -239,9 +239,9 @@ def _import_preloaded() -> None:
     """Import the solver stack before the clock starts (instant after a forkserver preload)."""
     import importlib
 
+    # when the forkserver was started elsewhere without our preload (it is shared by the
+    # whole process), the warm-up runs here, still before the clock starts
     for name in _PRELOAD:
-        if name.endswith("._warm"):
-            continue  # only worth it in the long-lived forkserver
         try:
             importlib.import_module(name)
         except ImportError:
