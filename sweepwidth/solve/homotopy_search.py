@@ -526,12 +526,7 @@ def _homology_lower(spec: WalkSpec, deadline: float | None) -> tuple[float | Non
                 "darts": list(spec.end_darts),
             }
         else:
-            # an open walk and its end close up into one closed walk: sweeping it to nothing
-            w = list(spec.start_darts) + [d ^ 1 for d in reversed(spec.end_darts or ())]
-            if not w:
-                return None, "trivial"
-            start = {"vertex": P.tail(w[0]), "darts": w}
-            end = None
+            # the homology solver sweeps Z2 cycles; an open walk's chain is not one
             return None, "open walks: homology bound not used"
         if spec.length != "weight":
             return None, "vertex-count length: homology bound not used"
