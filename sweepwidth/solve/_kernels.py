@@ -627,6 +627,28 @@ def warm_up() -> None:
     subset_dp(3, indptr, indices, wts, deg, np.zeros(3), 0.0)
     move_pass(np.arange(3, dtype=np.int64), indptr, indices, wts, 0, 0, np.arange(3, dtype=np.int64))
     table = np.zeros((1024, 1), dtype=np.uint64)
+    used = np.zeros(1024, dtype=np.bool_)
     prefix_search(3, indptr, indices, wts, deg, -1, -1, 1.0, 1e-9, np.arange(3, dtype=np.int64), table,
-                  np.zeros(1024, dtype=np.bool_), np.zeros(1, dtype=np.int64), 100)
+                  used, np.zeros(1, dtype=np.int64), 100)
+    memo_grow(table, used)
     _WARM[0] = True
+
+
+@_jit
+def _memo_grow_nb(table, used, new_table, new_used):  # pragma: no cover - compiled
+    W = table.shape[1]
+    mask = new_table.shape[0] - 1
+    for h in range(table.shape[0]):
+        if used[h]:
+            slot, found = _memo_find(new_table, new_used, table[h], W, mask)
+            new_used[slot] = True
+            for i in range(W):
+                new_table[slot, i] = table[h, i]
+
+
+def memo_grow(table: np.ndarray, used: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+    """The failed-set table rehashed into one of twice the capacity."""
+    new_table = np.zeros((2 * table.shape[0], table.shape[1]), dtype=np.uint64)
+    new_used = np.zeros(2 * table.shape[0], dtype=np.bool_)
+    _memo_grow_nb(table, used, new_table, new_used)
+    return new_table, new_used

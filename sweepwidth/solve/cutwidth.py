@@ -157,12 +157,16 @@ def _m_sat(P, *, lower, upper, upper_order, deadline, seed, solver="cadical195",
     lo = int(math.ceil(lower * q - 1e-6))
     up = int(round(upper * q)) if upper is not None else None
     opts = dict(sat_options or {})
-    if deadline is not None and sat_options is None:
+    if deadline is not None and sat_options is None and _left(deadline) > 1.5:
         # a child process killed at the deadline keeps the time limit even when
-        # building the encoding or one solver call takes long
+        # building the encoding or one solver call takes long (starting one costs
+        # up to a second on a busy machine, so not for the last moments)
         opts["hard_deadline"] = True
+    sat_deadline = deadline
+    if opts.get("hard_deadline") and deadline is not None:
+        sat_deadline = deadline - 0.4  # the child is killed a little after its deadline
     try:
-        out = solve_sat(Q, lower=lo, upper=up, upper_order=upper_order, deadline=deadline, solver=solver, **opts)
+        out = solve_sat(Q, lower=lo, upper=up, upper_order=upper_order, deadline=sat_deadline, solver=solver, **opts)
     except (AssertionError, OSError, RuntimeError) as err:
         if not opts.get("hard_deadline"):
             raise
@@ -344,8 +348,8 @@ def _auto_part(P: OrderingProblem, deadline: float | None, seed: int | None, opt
         stats["auto"] = {"choice": "bnb", "reason": "time limit reached", "chain": chain, "notes": why}
         return _Part(lb, ub, order, stats, "bnb")
     q = P.integer_scale()
-    if q is not None and deadline is not None and _left(deadline) < 0.5:
-        why.append("sat skipped: less than 0.5 s left")
+    if q is not None and deadline is not None and _left(deadline) < 1.5:
+        why.append("sat skipped: less than 1.5 s left")
     elif q is not None and n > _SAT_MAX_N:
         why.append(f"sat skipped: {n} vertices make an order encoding of about n^2 = {n * n} variables")
     elif q is not None:
@@ -365,7 +369,12 @@ def _auto_part(P: OrderingProblem, deadline: float | None, seed: int | None, opt
     chain.append("bnb")
     stats["bnb_full"] = dict(out.stats)
     lb, ub, order = max(lb, out.lower), out.upper, out.order
-    reason = "real weights: the prefix-set search is exact on them" if q is None else "graph too large for the SAT encoding"
+    if q is None:
+        reason = "real weights: the prefix-set search is exact on them"
+    elif n > _SAT_MAX_N:
+        reason = "graph too large for the SAT encoding"
+    else:
+        reason = "too little time left to start the SAT stage"
     stats["auto"] = {"choice": "bnb", "reason": reason, "chain": chain, "notes": why}
     return _Part(ub if out.optimal else lb, ub, order, stats, "bnb")
 
