@@ -124,6 +124,8 @@ def small_instances(draw):
                 "counter": st.sampled_from(["itot", "seq"]),
                 "counts": st.sampled_from(["band", "all", "none"]),
                 "solver": st.sampled_from(["cadical195", "glucose4"]),
+                "probe": st.booleans(),
+                "windows": st.booleans(),
             },
         )
     )
@@ -354,6 +356,20 @@ def test_progress_reports_improvements():
     assert uppers == sorted(uppers, reverse=True)
     for s in seen:
         assert P.width(s.order) == s.upper
+
+
+def test_windows_repair_a_local_defect():
+    # the path 0-1-...-11 in order, with 5 and 6 swapped: width 3 at the swap, 1 elsewhere;
+    # a window around the swap restores width 1 (cw(P_n) = 1, common practice)
+    G = nx.path_graph(12)
+    P = OrderingProblem.from_graph(G)
+    order = list(range(12))
+    order[5], order[6] = order[6], order[5]
+    assert P.width(order) == 3
+    out = solve_sat(P, upper_order=order, probe=False)
+    assert out.optimal and out.upper == 1
+    assert any(w[3] for w in out.stats["windows"])
+    assert_valid(G, P, out)
 
 
 def test_orbits_of_grid_and_cube():

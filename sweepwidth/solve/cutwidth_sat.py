@@ -30,6 +30,16 @@ and level n is everything).  Clauses:
   (downward search, the default) or assumed (upward search).  The formula is
   never rebuilt.
 
+Two cheaper questions come first.  *Level probes*: is there a counted prefix
+of size i with cut <= k at all?  A "no" for one i proves width > k (an
+edge-isoperimetric bound decided by SAT on a formula of one level); it
+settles grids and hypercubes at k = cw - 1 (e.g. no 13 vertices of Q_5 have
+a boundary below 21, no 30 vertices of the 8 x 8 grid one below 9).
+*Windows*: to find an ordering of width <= k, the best ordering known is
+kept outside a window around its too heavy cuts and the solver reorders the
+window (assumptions, small conflict budgets); only when both fail does the
+full chain question run.
+
 Pins fix position windows, so many ``x`` are constants and many crossings
 cannot happen at a level; both are folded away.  Symmetry breaking (option
 ``symmetry``): automorphisms preserving the pins are found with VF2, the
@@ -86,6 +96,7 @@ _OPTIONS = {
     "counts": ("band", "all", "none"),
     "hard_deadline": (False, True),
     "probe": (True, False),
+    "windows": (True, False),
 }
 
 #: Measured effect of each idea (filled from benchmarks/cutwidth.py --ablation).
@@ -346,6 +357,33 @@ def _count_tree(owner: Any, lits: list[int]) -> tuple[list[list[int]], np.ndarra
     return out, root
 
 
+def _automorphism(problem: OrderingProblem, mapping: dict[int, int]) -> dict[int, int] | None:
+    """A pin-preserving automorphism extending ``mapping`` (VF2 with marked vertices), or None."""
+    import networkx as nx
+    from networkx.algorithms.isomorphism import GraphMatcher
+
+    n = problem.n
+    cls = [0] * n
+    for v in problem.first:
+        cls[v] = 1
+    for v in problem.last:
+        cls[v] = 2
+    G1, G2 = nx.Graph(), nx.Graph()
+    for v in range(n):
+        G1.add_node(v, c=cls[v], mark=0)
+        G2.add_node(v, c=cls[v], mark=0)
+    for (u, v), w in zip(problem.edges.tolist(), problem.weights.tolist()):
+        G1.add_edge(u, v, w=w)
+        G2.add_edge(u, v, w=w)
+    for j, (a, b) in enumerate(mapping.items()):
+        G1.nodes[a]["mark"] = j + 1
+        G2.nodes[b]["mark"] = j + 1
+    gm = GraphMatcher(
+        G1, G2, node_match=lambda a, b: a["c"] == b["c"] and a["mark"] == b["mark"], edge_match=lambda a, b: a["w"] == b["w"]
+    )
+    return next(gm.isomorphisms_iter(), None)
+
+
 class _OutOfTime(Exception):
     """The deadline passed while the formula was being built or loaded."""
 
@@ -603,6 +641,7 @@ class _Formula:
         q = len(p.first) + 1
         reps = sorted(set(rep[v] for v in free))
         self.n_orbits = len(set(rep))
+        self.sym = {"rep": rep, "q": q, "rep2": {}, "rank": None}
         if not free:
             return
         for v in free:
@@ -615,6 +654,7 @@ class _Formula:
                 if budget <= 0:
                     break
                 rep2 = _orbits(p, budget, fixed=(r,), cache=cache)
+                self.sym["rep2"][r] = rep2
                 for v in free:
                     if v != r and rep2[v] != v:
                         # r at q and v at q + 1 cannot both hold
@@ -622,12 +662,52 @@ class _Formula:
         if p.first or p.last or n < 2:
             return
         rank = {r: k for k, r in enumerate(sorted(set(rep)))}
+        self.sym["rank"] = rank
         # last in orbit of rank b  ->  first has rank <= b
         for v in range(n):
             b = rank[rep[v]]
             for r in reps:
                 if rank[r] > b:
                     self.add([self.x[v][n - 1], self.neg(self.x[r][1])])
+
+    def canonical(self, order: Sequence[int]) -> list[int]:
+        """An ordering of the same width that satisfies the symmetry-breaking clauses.
+
+        Reverses ``order`` and applies automorphisms as in the soundness
+        argument of :meth:`_symmetry`; used for phase hints, which would
+        otherwise point into clauses that forbid them.  Returns ``order``
+        unchanged when no symmetry clauses exist or an automorphism is not
+        found again.
+        """
+        order = list(order)
+        sym = getattr(self, "sym", None)
+        if not sym:
+            return order
+        p, n = self.problem, self.n
+        rep, q, rank = sym["rep"], sym["q"], sym["rank"]
+        out = list(order)
+        if rank is not None and rank[rep[out[0]]] > rank[rep[out[-1]]]:
+            out.reverse()
+        if q > n - len(p.last):
+            return out
+        v = out[q - 1]
+        r = rep[v]
+        if r != v:
+            sigma = _automorphism(p, {v: r})
+            if sigma is None:
+                return order
+            out = [sigma[u] for u in out]
+        rep2 = sym["rep2"].get(r)
+        if rep2 is not None and q + 1 <= n - len(p.last):
+            u = out[q]
+            if rep2[u] != u:
+                tau = _automorphism(p, {r: r, u: rep2[u]})
+                if tau is None:
+                    return order
+                out = [tau[a] for a in out]
+        if abs(p.width(out) - p.width(order)) > 1e-9:  # pragma: no cover - defensive
+            return order
+        return out
 
     # -- queries
     def bound(self, k: int) -> tuple[list[int], bool]:
@@ -852,7 +932,10 @@ def solve_sat(
         the deadline, for solvers or encodings where a conflict slice could
         overrun), ``probe`` (default True: before the chain formula, ask
         single levels whether a prefix of cut <= k exists at all; one "no"
-        proves width > k).  ``_extra`` (dict) holds experimental switches for the
+        proves width > k), ``windows`` (default True: before each full
+        call, reorder growing windows of the best ordering around its too
+        heavy cuts under small conflict budgets, the rest fixed by
+        assumptions).  ``_extra`` (dict) holds experimental switches for the
         benchmarks (``edge_order``: 'index' or 'hint'; ``exact_c``: also
         ``c -> x[u] xor x[v]``).
 
@@ -976,7 +1059,7 @@ def solve_sat(
         F.clauses = []  # free memory; the solver has them
         stats["load_seconds"] = time.monotonic() - t0 - stats["build_seconds"]
         if opts["phases"]:
-            S.set_phases(F.phases(hint))
+            S.set_phases(F.phases(F.canonical(hint)))
         while not best.optimal:
             k = best.upper - 1 if opts["direction"] == "down" else best.lower
             lits, possible = F.bound(k)
@@ -992,10 +1075,15 @@ def solve_sat(
                     assume: list[int] = []
                 else:
                     assume = lits
-                cs: dict = {}
-                t1 = time.monotonic()
-                ans = sat_call(S, assume, deadline=deadline, name=solver, stats=cs)
-                stats["calls"].append((k, ans, round(time.monotonic() - t1, 4), cs.get("conflicts", 0)))
+                ans = None
+                current = best.order if best.order is not None else hint
+                if opts["windows"] and current is not None:
+                    ans = _window_search(S, F, F.canonical(current), k, assume, deadline, stats)
+                if ans is None:
+                    cs: dict = {}
+                    t1 = time.monotonic()
+                    ans = sat_call(S, assume, deadline=deadline, name=solver, stats=cs)
+                    stats["calls"].append((k, ans, round(time.monotonic() - t1, 4), cs.get("conflicts", 0)))
             if ans is None:
                 break
             if ans:
@@ -1005,7 +1093,7 @@ def solve_sat(
                     raise SweepwidthError(f"internal error: SAT ordering has width {w} > {k}")
                 best.order, best.upper = order, w
                 if opts["phases"]:
-                    S.set_phases(F.phases(order))
+                    S.set_phases(F.phases(F.canonical(order)))
             else:
                 best.lower = k + 1
             best.optimal = best.lower >= best.upper
@@ -1016,6 +1104,52 @@ def solve_sat(
         best.lower = best.upper
     stats["seconds"] = time.monotonic() - t_start
     return best
+
+
+def _window_search(
+    S: Any, F: _Formula, order: list[int], k: int, assume: list[int], deadline: float | None, stats: dict
+) -> bool | None:
+    """Look for an ordering of width <= k near ``order``: free a window, fix the rest.
+
+    The vertices placed before the window stay in the prefix before it, those
+    after it stay out; the solver reorders the window under a small conflict
+    budget.  Windows grow around the levels whose cut exceeds k.  Returns
+    True when the solver's model (read by the caller) has width <= k, None
+    otherwise: a failed window proves nothing.
+    """
+    p, n = F.problem, F.n
+    prof = p.cut_profile(order)
+    bad = [i for i in range(1, n) if prof[i] > k + 1e-9]
+    if not bad:
+        return None
+    lo_bad, hi_bad = min(bad), max(bad)
+    t0 = time.monotonic()
+    rec = stats.setdefault("windows", [])
+    for pad, budget in ((4, 500), (8, 1500), (16, 4000), (32, 10000)):
+        a, b = max(1, lo_bad - pad + 1), min(n, hi_bad + pad)  # free positions a..b (1-based)
+        if a == 1 and b == n:
+            break
+        fix: list[int] = []
+        for j, v in enumerate(order, start=1):
+            if j < a:
+                lit = F.x[v][a - 1]
+            elif j > b:
+                lit = F.neg(F.x[v][b])
+            else:
+                continue
+            if lit is False:
+                fix = []
+                break
+            if lit is not True:
+                fix.append(lit)
+        if deadline is not None and time.monotonic() >= deadline:
+            return None
+        S.conf_budget(budget)
+        res = S.solve_limited(assumptions=assume + fix)
+        rec.append((k, a, b, res, round(time.monotonic() - t0, 4)))
+        if res:
+            return True
+    return None
 
 
 #: Rounds of single-level probes: (conflicts per level, levels asked at most).
