@@ -153,6 +153,9 @@ def test_large_triangulation_paths_agree():
     faces = [T.boundary_walk(f) for f in T.faces if f != T.outer_face]
     _compare(lambda: PlaneGraph.from_faces(faces, pos=T.pos))
     _compare(T.dual)
+    # positions with a key that is not a vertex: the outer face point still looks at every position
+    T.pos = dict(T.pos, extra=(5.0, 7.0))
+    _compare(T.dual)
     tree = generators.random_tree(300, seed=3)  # one face of length 2m: the longest cycles
     _compare(lambda: _rebuild(tree))
     _compare(tree.dual)

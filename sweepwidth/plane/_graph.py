@@ -727,14 +727,17 @@ class PlaneGraph:
         """A point for each face: the centroid of its boundary vertices (outer face: outside the box)."""
         assert self.pos is not None
         if len(self._next) >= _arrays.FAST_MIN_DARTS:
-            xs = np.array([p[0] for p in self.pos.values()], dtype=float)
-            ys = np.array([p[1] for p in self.pos.values()], dtype=float)
             pos = self.pos
             xy = np.fromiter(
                 itertools.chain.from_iterable((pos[v][0], pos[v][1]) for v in self._labels),
                 dtype=float,
                 count=2 * len(self._labels),
             ).reshape(-1, 2)
+            if len(pos) == len(self._labels):  # pos holds exactly the vertices (the caller checked all are in)
+                xs, ys = xy[:, 0], xy[:, 1]
+            else:
+                xs = np.array([p[0] for p in pos.values()], dtype=float)
+                ys = np.array([p[1] for p in pos.values()], dtype=float)
             arr = self._arrays()
             F = len(self._faces)
             cnt = np.bincount(arr["dface"], minlength=F).astype(float)
