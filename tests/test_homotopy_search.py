@@ -411,9 +411,25 @@ def test_backtrack_instance_monotone_is_worse():
     start = P.meta["curves"]["start"]
     out = _checked(HomotopyProblem.build(P, start=start))
     assert out.optimal and out.upper == P.meta["known"]["homotopy"]["value"]
-    # a short monotone search already proves a strictly larger monotone height
-    mono = _checked(HomotopyProblem.build(P, start=start, monotone=True), upper=out.upper + 1)
+    # no monotone homotopy at all: the faces of winding number 0 are never flipped by one, and
+    # without them the curve is not contractible (free-group test of the dispatcher's module)
+    mono = search_homotopy(HomotopyProblem.build(P, start=start, monotone=True))
+    assert mono.stats.get("infeasible") and "never flipped" in mono.stats["reason"]
     assert mono.lower > out.upper
+    # without the obstacle test the search alone proves a strictly larger monotone height
+    # (every walk below general + 1 explored under the winding rule)
+    P2 = sw.read(os.path.join(ROOT, "instances", "sweeps", "backtrack-delaunay-2026.json"))
+    H2 = HomotopyProblem.build(P2, start=P2.meta["curves"]["start"], monotone=True)
+    g2 = P2.meta["known"]["homotopy"]["value"]
+    import sweepwidth.solve.homotopy_search as hs
+
+    saved = hs._obstacle_test
+    hs._obstacle_test = lambda *a: None
+    try:
+        b = search_homotopy(H2, upper=g2 + 1, use_homology=False)
+    finally:
+        hs._obstacle_test = saved
+    assert b.lower > g2 and b.stats.get("reason") == "no homotopy of height below the given upper bound"
 
 
 def test_backtrack_instance_needs_exactly_one_repeated_face():

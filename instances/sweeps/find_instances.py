@@ -96,8 +96,13 @@ def scan_split(count: int) -> list:
     return hits
 
 
-def scan_backtrack(count: int) -> list:
-    """Interior curves whose monotone homotopy height exceeds the general one."""
+def scan_backtrack(count: int, seconds: float = 20.0) -> list:
+    """Interior curves whose monotone homotopy height exceeds the general one.
+
+    Curves with no monotone homotopy at all (found by the search's obstacle
+    test) are skipped: the hits have a finite monotone optimum when the
+    search finds it within ``seconds``.
+    """
     hits = []
     for seed in range(count):
         P, start = backtrack_instance(seed)
@@ -107,8 +112,12 @@ def scan_backtrack(count: int) -> list:
             continue
         Hm = HomotopyProblem.build(P, start=start, monotone=True)
         b = search_homotopy(Hm, deadline=time.monotonic() + 3, upper=a.upper + 1)
-        if b.lower > a.upper:
-            hits.append((seed, a.upper, b.lower))
+        if b.stats.get("infeasible") or b.lower <= a.upper:
+            continue
+        # a strict gap: now look for the monotone optimum itself
+        b = search_homotopy(Hm, deadline=time.monotonic() + seconds)
+        hits.append((seed, a.upper, b.lower, b.upper if b.optimal else None))
+        print("hit", hits[-1], flush=True)
     return hits
 
 
@@ -182,15 +191,18 @@ def write_all(folder: str, monotone_seconds: float = 60.0) -> list:
         t = time.perf_counter()
         b = _solve_checked(Hm, deadline=time.monotonic() + monotone_seconds)
         sec = time.perf_counter() - t
-        assert a.optimal and b.lower > a.upper
+        assert a.optimal and (b.stats.get("infeasible") or b.lower > a.upper)
         name = f"backtrack-delaunay-{seed}"
         P.meta["name"] = name
         P.meta["provenance"] = {"generator": "backtrack_instance", "seed": seed,
                                 "script": "instances/sweeps/find_instances.py"}
         P.meta["curves"] = {"start": start}
-        mono = {"lower": b.lower, "source": f"exact walk-state search with monotone=True: every walk of a "
-                                            f"homotopy of smaller height was explored ({b.stats['states']} states, "
-                                            f"{sec:.0f} s)"}
+        if b.stats.get("infeasible"):
+            mono = {"feasible": False, "source": "search_homotopy(monotone=True): " + b.stats["reason"]}
+        else:
+            mono = {"lower": b.lower, "source": f"exact walk-state search with monotone=True: every walk of a "
+                                                f"homotopy of smaller height was explored ({b.stats['states']} "
+                                                f"states, {sec:.0f} s)"}
         if b.optimal:
             mono["value"] = b.upper
         elif b.upper is not None:
@@ -217,6 +229,7 @@ def main(argv=None) -> int:
     ap = argparse.ArgumentParser(description=__doc__.splitlines()[0])
     ap.add_argument("--scan", type=int, default=0, help="rerun both random scans over this many seeds")
     ap.add_argument("--monotone-seconds", type=float, default=60.0)
+    ap.add_argument("--only-backtrack", action="store_true", help="with --scan: skip the split scan")
     ap.add_argument("--scan-repeated", type=int, default=0,
                     help="scan this many seeds for curves needing two re-flipped faces")
     args = ap.parse_args(argv)
@@ -224,7 +237,8 @@ def main(argv=None) -> int:
         print("repeated:", scan_repeated(args.scan_repeated))
         return 0
     if args.scan:
-        print("split:", scan_split(args.scan))
+        if not args.only_backtrack:
+            print("split:", scan_split(args.scan))
         print("backtrack:", scan_backtrack(args.scan))
         return 0
     for e in write_all(HERE, args.monotone_seconds):

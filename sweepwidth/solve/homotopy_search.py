@@ -546,6 +546,36 @@ def _homology_lower(spec: WalkSpec, deadline: float | None) -> tuple[float | Non
         return None, f"homology bound failed: {type(err).__name__}: {err}"
 
 
+def _obstacle_test(problem: Any, spec: WalkSpec, fixed: list) -> str | None:
+    """Reason why no monotone homotopy exists, or None when the test passes (or is unavailable)."""
+    try:
+        from ..problems.homotopy import HomotopyProblem
+        from .homotopy import homotopy_classes_equal
+    except ImportError:  # pragma: no cover - the other module is part of the package
+        return None
+    P = spec.P
+    holes = set(spec.holes if spec.holes is not None else {P.outer_face}) | set(fixed)
+    kw: dict = {"start": {"vertex": P.label(spec.start_vertex), "darts": list(spec.start_darts)}, "holes": holes}
+    if spec.end_darts is not None:
+        ev = spec.end_vertex if spec.end_vertex is not None else spec.start_vertex
+        kw["end"] = {"vertex": P.label(ev), "darts": list(spec.end_darts)}
+    if not spec.closed:
+        s = getattr(problem, "s", None)
+        t = getattr(problem, "t", None)
+        if s is None or t is None:
+            return None
+        kw["s"], kw["t"] = P.label(s), P.label(t)
+    try:
+        H = HomotopyProblem.build(P, **kw)
+        ok, why = homotopy_classes_equal(H)
+    except SweepwidthError:
+        return None
+    if ok:
+        return None
+    return (f"monotone homotopy: faces {sorted(fixed)} keep their winding numbers, so they are never "
+            f"flipped; without them {why}")
+
+
 def search_homotopy(
     problem: Any,
     *,
@@ -646,6 +676,16 @@ def search_homotopy(
                     f"monotone homotopy: the winding number of face {f} must change by "
                     f"{abs(w0[f] - search.wend[f])}, but each flip changes it by one and a face is flipped at most once"
                 )
+                stats["infeasible"] = True
+                return SearchOutcome(lower=float("inf"), upper=None, witness=None, optimal=False, stats=stats)
+        # faces whose winding number must not change are never flipped by a monotone
+        # homotopy: it is a homotopy of the complex without them, so the start must be
+        # homotopic to the end there (free-group test of sweepwidth.solve.homotopy)
+        fixed = [f for f in search.free if w0[f] == search.wend[f]]
+        if fixed:
+            why = _obstacle_test(problem, spec, fixed)
+            if why is not None:
+                stats["reason"] = why
                 stats["infeasible"] = True
                 return SearchOutcome(lower=float("inf"), upper=None, witness=None, optimal=False, stats=stats)
     lo = max(sp.length(search.start_key), search.end_length())
