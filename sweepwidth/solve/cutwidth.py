@@ -14,12 +14,15 @@ cut and parallel edges add up.
 Methods
 -------
 ==============  ===========================================================
-'auto'          forest -> 'tree'; few vertices -> 'dp'; otherwise heuristic
-                upper bound, lower bounds, a 'bnb' run (40 % of the time
-                left, or 10 s + n / 20 s without a limit), then 'sat'
-                (integral weights, or rationals with a small common
-                denominator) or 'bnb' (other real weights) for the rest of
-                the time.  ``stats['auto']`` says what was chosen and why.
+'auto'          forest -> 'tree'; at most 16 unpinned vertices -> 'dp';
+                otherwise cheap lower bounds and a heuristic ordering (stop
+                if they meet), costly bounds and local search (stop if they
+                meet); above 3000 vertices that is all; else a 'bnb' run
+                (40 % of the time left, or 10 s + n / 20 s without a
+                limit), then 'sat' (integral weights, or rationals with a
+                small common denominator, up to 400 vertices, with at least
+                1.5 s left) or 'bnb' for the rest of the time.
+                ``stats['auto']`` says what was chosen and why.
 'dp'            subset dynamic programming (:mod:`.ordering_dp`), exact,
                 ``O(2^n n)`` time and ``16 * 2^n`` bytes.
 'bnb'           threshold search over prefix sets (:mod:`.ordering_bnb`),
@@ -73,7 +76,7 @@ OPTIONS: dict[str, tuple[str, ...]] = {
     "heuristic": ("improve", "effort"),
 }
 
-_TINY_DP = 20  # 'auto' uses the DP up to this many unpinned vertices
+_TINY_DP = 16  # 'auto' uses the DP up to this many unpinned vertices (the search is faster above)
 _SAT_MAX_N = 400  # 'auto' does not build SAT encodings (n^2 variables) above this
 _BIG = 3000  # above this many vertices 'auto' only runs bounds and heuristics
 _SAT_HARD_N = 1500  # method='sat' refuses larger graphs (the encoding alone would not fit)
@@ -424,7 +427,7 @@ def cutwidth(
         name for 'sat'), ``sat_options`` (dict passed to the SAT engine),
         ``max_states`` (remembered sets of 'bnb'), ``improve`` (local search
         on/off), ``effort`` (heuristic constructions), ``dp_limit`` ('auto'
-        uses the DP up to that many unpinned vertices).
+        uses the DP up to that many unpinned vertices, default 16).
 
     Returns
     -------
