@@ -549,9 +549,11 @@ def test_compiled_and_python_search_agree(G, data):
     P = OrderingProblem.from_graph(G, first=first or None, last=last or None).contract_pins().problem
     a = solve_bnb(P)
     b = solve_bnb(P, force_python=True)
+    c = solve_bnb(P, symmetry=True)
     w, _, _ = solve_dp(P)
-    assert a.optimal and b.optimal
-    assert a.upper == pytest.approx(w) and b.upper == pytest.approx(w)
+    assert a.optimal and b.optimal and c.optimal
+    assert a.upper == pytest.approx(w) and b.upper == pytest.approx(w) and c.upper == pytest.approx(w)
+    assert P.width(c.order) == pytest.approx(w)
     assert P.respects_pins(a.order) and P.width(a.order) == pytest.approx(w)
 
 

@@ -409,12 +409,13 @@ def _memo_find(table, used, key, W, mask):  # pragma: no cover - compiled
 
 
 @_jit
-def _prefix_search_nb(n, indptr, indices, wts, deg, a, b, k, tol, rep, table, used, stored, node_budget):  # pragma: no cover
+def _prefix_search_nb(n, indptr, indices, wts, deg, a, b, k, tol, rep, table, used, stored, node_budget, sx, st):  # pragma: no cover
     """Depth-first "width <= k?" search over prefix sets (see ordering_bnb).
 
     Returns (status, order, rejected, nodes): status 1 found (order filled),
     0 refuted, -1 node budget spent, -2 memo table full, -3 candidate stack
-    full.  ``table``/``used``
+    full.  ``sx >= 0`` breaks the reversal symmetry: vertex ``sx`` joins only
+    prefixes of at least ``st`` vertices and never by a free move.  ``table``/``used``
     (failed sets) and ``stored[0]`` (their number) persist between calls.
     """
     W = table.shape[1]
@@ -474,7 +475,7 @@ def _prefix_search_nb(n, indptr, indices, wts, deg, a, b, k, tol, rep, table, us
             while wtop > 0:
                 wtop -= 1
                 v = work[wtop]
-                if inS[v] or v == b:
+                if inS[v] or v == b or v == sx:
                     continue
                 dl = deg[v] - 2.0 * wS[v]
                 if dl <= tol:
@@ -524,7 +525,7 @@ def _prefix_search_nb(n, indptr, indices, wts, deg, a, b, k, tol, rep, table, us
                     return -3, order, rejected, nodes
                 cnt = 0
                 for v in range(n):
-                    if inS[v] or v == b:
+                    if inS[v] or v == b or (v == sx and placed < st):
                         continue
                     nc = cut + deg[v] - 2.0 * wS[v]
                     if nc > k + tol:
@@ -601,9 +602,9 @@ def _prefix_search_nb(n, indptr, indices, wts, deg, a, b, k, tol, rep, table, us
         cut = cut_base[d]
 
 
-def prefix_search(n, indptr, indices, wts, deg, a, b, k, tol, rep, table, used, stored, node_budget):
+def prefix_search(n, indptr, indices, wts, deg, a, b, k, tol, rep, table, used, stored, node_budget, sx=-1, st=0):
     """Compiled "width <= k?" search; see :func:`_prefix_search_nb` (numba only)."""
-    return _prefix_search_nb(n, indptr, indices, wts, deg, a, b, k, tol, rep, table, used, stored, node_budget)
+    return _prefix_search_nb(n, indptr, indices, wts, deg, a, b, k, tol, rep, table, used, stored, node_budget, sx, st)
 
 
 _WARM = [False]
