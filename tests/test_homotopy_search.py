@@ -432,6 +432,18 @@ def test_backtrack_instance_monotone_is_worse():
     assert b.lower > g2 and b.stats.get("reason") == "no homotopy of height below the given upper bound"
 
 
+def test_small_backtrack_instance_against_the_reference():
+    # general 8 < monotone 9: both values also from the reference BFS (another developer's code)
+    P = sw.read(os.path.join(ROOT, "instances", "sweeps", "backtrack-delaunay-1169.json"))
+    start = P.meta["curves"]["start"]
+    for mono, value in ((False, 8), (True, 9)):
+        H = HomotopyProblem.build(P, start=start, monotone=mono)
+        out = _checked(H)
+        assert out.optimal and out.upper == value
+        assert reference_height(H, value)[0] == value
+        assert reference_height(H, value - 1)[0] is None
+
+
 def test_backtrack_instance_needs_exactly_one_repeated_face():
     # with no repeated face (monotone) the optimum is out of reach (above); one repeated face suffices
     P = sw.read(os.path.join(ROOT, "instances", "sweeps", "backtrack-delaunay-2454.json"))

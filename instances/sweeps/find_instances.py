@@ -38,7 +38,9 @@ from sweepwidth.verify.homotopy import replay_homotopy
 
 #: seeds found by the scans (see ``scan_split`` and ``scan_backtrack``)
 SPLIT_SEED = 171
-BACKTRACK_SEEDS = (2454, 2026)
+BACKTRACK_SEEDS = (1169, 3091, 2454, 2026)
+#: instances small enough for the reference BFS of tests/reference_homotopy.py (seconds)
+REFERENCE_CHECKED = (1169, 3091)
 
 
 # ------------------------------------------------------------------ instance makers
@@ -204,12 +206,22 @@ def write_all(folder: str, monotone_seconds: float = 60.0) -> list:
                                                 f"homotopy of smaller height was explored ({b.stats['states']} "
                                                 f"states, {sec:.0f} s)"}
         if b.optimal:
-            mono["value"] = b.upper
+            mono = {"value": b.upper, "source": "exact walk-state search with monotone=True, witness replayed "
+                                                "by sweepwidth.verify.homotopy"}
         elif b.upper is not None:
             mono["upper"] = b.upper
-        P.meta["known"] = {
-            "homotopy": {"value": a.upper, "source": "exact walk-state search, witness replayed by sweepwidth.verify.homotopy"},
-        }
+        gsrc = "exact walk-state search, witness replayed by sweepwidth.verify.homotopy"
+        if seed in REFERENCE_CHECKED:
+            from reference_homotopy import reference_height
+
+            rg, _ = reference_height(Hg, a.upper)
+            assert rg == a.upper
+            gsrc += "; the same value from the reference BFS of tests/reference_homotopy.py"
+            if b.optimal:
+                rm, _ = reference_height(Hm, b.upper)
+                assert rm == b.upper
+                mono["source"] += "; the same value from the reference BFS of tests/reference_homotopy.py"
+        P.meta["known"] = {"homotopy": {"value": a.upper, "source": gsrc}}
         if "value" in mono:
             P.meta["known"]["homotopy_monotone"] = mono
         else:
@@ -218,7 +230,9 @@ def write_all(folder: str, monotone_seconds: float = 60.0) -> list:
         sw.write(P, os.path.join(folder, name + ".json"))
         entries.append({"path": name + ".json", "name": name, "known": P.meta["known"],
                         "bounds": P.meta.get("bounds", {}),
-                        "description": "interior curve: every optimal homotopy flips some face twice"})
+                        "description": "interior curve: every optimal homotopy flips some face twice"
+                                       + ("" if b.optimal else " (no monotone homotopy exists)"
+                                          if b.stats.get("infeasible") else "")})
     with open(os.path.join(folder, "manifest.json"), "w", encoding="utf-8") as fh:
         json.dump({"format": "sweepwidth-manifest", "version": 1, "instances": entries}, fh, indent=1)
         fh.write("\n")
