@@ -123,7 +123,7 @@ def scan_backtrack(count: int, seconds: float = 20.0) -> list:
     return hits
 
 
-def scan_repeated(count: int, need: int = 2, max_darts: int = 12, seconds: float = 3.0) -> list:
+def scan_repeated(count: int, need: int = 2, max_darts: int = 12, seconds: float = 3.0, first: int = 0) -> list:
     """Interior curves where every optimal homotopy re-flips at least ``need`` faces.
 
     Proved by the search with ``max_repeated_faces = need - 1`` exhausting every
@@ -131,7 +131,7 @@ def scan_repeated(count: int, need: int = 2, max_darts: int = 12, seconds: float
     fewer repeated faces).
     """
     hits = []
-    for seed in range(count):
+    for seed in range(first, first + count):
         P, start = backtrack_instance(seed, max_darts=max_darts)
         Hg = HomotopyProblem.build(P, start=start)
         a = search_homotopy(Hg, deadline=time.monotonic() + seconds)
@@ -244,11 +244,13 @@ def main(argv=None) -> int:
     ap.add_argument("--scan", type=int, default=0, help="rerun both random scans over this many seeds")
     ap.add_argument("--monotone-seconds", type=float, default=60.0)
     ap.add_argument("--only-backtrack", action="store_true", help="with --scan: skip the split scan")
+    ap.add_argument("--first", type=int, default=0, help="first seed of --scan-repeated")
+    ap.add_argument("--max-darts", type=int, default=12, help="longest start walk of --scan-repeated")
     ap.add_argument("--scan-repeated", type=int, default=0,
                     help="scan this many seeds for curves needing two re-flipped faces")
     args = ap.parse_args(argv)
     if args.scan_repeated:
-        print("repeated:", scan_repeated(args.scan_repeated))
+        print("repeated:", scan_repeated(args.scan_repeated, first=args.first, max_darts=args.max_darts))
         return 0
     if args.scan:
         if not args.only_backtrack:

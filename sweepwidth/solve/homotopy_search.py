@@ -52,6 +52,10 @@ Each ingredient is exact for the definition:
   monotone homotopy flips exactly the faces with ``w_start(f) != w_end(f)``,
   once each, towards ``w_end`` (infeasible when some difference is 2 or
   more); only those flips are generated and the state stays the walk.
+  The faces that keep their winding number are never flipped, so a
+  monotone homotopy is a homotopy of the complex without them: when the
+  free-group test of :mod:`sweepwidth.solve.homotopy` says the start and end
+  are not homotopic there, no monotone homotopy exists.
   Otherwise the set of flipped faces is added to the state.
   ``simple=True`` drops every non-simple walk except a final point;
   ``spikes=False`` drops spike and unspike moves.  Holes are never flipped.
