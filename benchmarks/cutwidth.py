@@ -98,8 +98,8 @@ def instances(mode: str) -> list[tuple[str, nx.Graph, int | None, float]]:
             out.append((f"delaunay 30 s{s}", delaunay(30, s), None, 20.0))
         out.append(("wgrid 5x5 s0", weighted_grid(5, 0), None, 20.0))
     else:
-        for k in (8, 10, 12):
-            out.append((f"grid {k}x{k}", grid(k, k), k + 1, {8: 30.0, 10: 60.0, 12: 300.0}[k]))
+        for k in (8, 10, 12, 14):
+            out.append((f"grid {k}x{k}", grid(k, k), k + 1, {8: 30.0, 10: 60.0, 12: 300.0, 14: 600.0}[k]))
         out.append(("Q_5", hypercube(5), 21, 30.0))
         out.append(("Q_6", hypercube(6), 42, 600.0))
         for s in range(5):

@@ -1158,6 +1158,7 @@ def _window_search(
         if a == 1 and b == n:
             break
         fix: list[int] = []
+        feasible = True
         for j, v in enumerate(order, start=1):
             if j < a:
                 lit = F.x[v][a - 1]
@@ -1165,11 +1166,13 @@ def _window_search(
                 lit = F.neg(F.x[v][b])
             else:
                 continue
-            if lit is False:
-                fix = []
+            if lit is False:  # the pins forbid this split (not for orderings that respect them)
+                feasible = False
                 break
             if lit is not True:
                 fix.append(lit)
+        if not feasible:
+            continue
         if deadline is not None and time.monotonic() >= deadline:
             return None
         S.conf_budget(budget)
