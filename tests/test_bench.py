@@ -412,3 +412,32 @@ def test_regression_file_curves_reach_homology_as_walks(tmp_path):
     r = solve_object(Q, "homology")
     # the outer boundary walk is the default start: the same width as without the curve
     assert r.value == sw.homology_width(Q).value == 8  # 3x3 grid disk: the 8-edge boundary (checked in instances)
+
+
+def test_hash_of_other_formats_is_content_based(tmp_path):
+    a, b = tmp_path / "a.gr", tmp_path / "b.gr"
+    sw.write(nx.cycle_graph(5), str(a))
+    sw.write(nx.cycle_graph(5), str(b))
+    c = tmp_path / "c.gr"
+    sw.write(nx.path_graph(5), str(c))
+    assert instance_hash(a) == instance_hash(b) != instance_hash(c)
+
+
+def test_discover_reads_manifests_and_filters_sets(tmp_path):
+    sw.write(gen.wheel(4), str(tmp_path / "w.json"))
+    sw.write(nx.complete_graph(4), str(tmp_path / "k4.json"))
+    (tmp_path / "manifest.json").write_text(json.dumps({"instances": [
+        {"path": "w.json", "set": "wheels", "kind": "plane", "known": {"homology": {"value": 5, "source": "test"}}},
+        {"path": "k4.json", "set": "complete", "kind": "graph"},
+    ]}))
+    entries = discover([tmp_path])
+    assert [e.name for e in entries] == ["w", "k4"]
+    assert [e.name for e in discover([tmp_path], sets=["complete"])] == ["k4"]
+    tasks = make_tasks(entries, ["cutwidth", "homology"])
+    # the graph without an embedding gets no homology task; known values travel with the task
+    assert sorted((t.name, t.parameter) for t in tasks) == [("k4", "cutwidth"), ("w", "cutwidth"), ("w", "homology")]
+    assert [t.known for t in tasks if t.parameter == "homology"] == [{"value": 5, "source": "test"}]
+    with pytest.raises(sw.UnsupportedOptionError):
+        make_tasks(entries, ["girth"])
+    with pytest.raises(sw.FileFormatError):
+        discover([tmp_path / "missing"])
