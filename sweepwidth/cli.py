@@ -559,9 +559,16 @@ def cmd_dual(args: argparse.Namespace, out: Callable[[str], None]) -> int:
             f"dual: {D.number_of_vertices()} vertices, {D.number_of_edges()} edges, {D.number_of_faces()} faces;"
             f" dual vertex of the outer face: {obj.outer_face}"
         )
-        for f in range(D.number_of_vertices()):
-            nbrs = sorted({D.edge_ends(e)[1] if D.edge_ends(e)[0] == f else D.edge_ends(e)[0] for e in range(D.number_of_edges()) if f in D.edge_ends(e)})
-            out(f"  face {f}: boundary length {_num(obj.face_length(f))}, next to faces {nbrs}")
+        nbrs: dict[int, set] = {f: set() for f in range(D.number_of_vertices())}
+        for e in range(D.number_of_edges()):
+            a, b = D.edge_ends(e)
+            nbrs[a].add(b)
+            nbrs[b].add(a)
+        shown = min(len(nbrs), 40)
+        for f in range(shown):
+            out(f"  face {f}: boundary length {_num(obj.face_length(f))}, next to faces {sorted(nbrs[f])}")
+        if shown < len(nbrs):
+            out(f"  ... {len(nbrs) - shown} more faces (write the dual with -o to see all)")
     return 0
 
 
