@@ -271,3 +271,14 @@ def test_open_path_loop_at_its_end_vertex():
     r = homotopy_height(P, s=3, t=1, method="bounds")
     assert r.upper is not None and r.check(P) == r.upper
     assert r.lower <= _ref(P, r.upper, s=3, t=1) <= r.upper
+
+
+def test_open_path_far_from_the_face_to_sweep():
+    # regression: the start path 4-1 touches no face to sweep (the triangle hangs off a pendant
+    # edge); the sweep now spikes out to the triangle and inserts its loop (brute force: 6)
+    from strategies import _thinned_delaunay
+
+    P = _thinned_delaunay(5, 2, 0.0, 0)
+    r = homotopy_height(P, s=4, t=1, method="bounds")
+    assert r.upper == 6 and r.check(P) == 6
+    assert _ref(P, 8, s=4, t=1) == 6

@@ -768,7 +768,87 @@ class _Sweeper:
                 q = loop_at(f, v)
                 if q is not None:
                     return [{"op": "flip", "face": f, "pos": i, "take": 0, "put": q}], f, need_right
-        return None
+        if not H.spikes:
+            return None
+        return self._reach_by_spikes(W, c, faces, loop_at)
+
+    def _reach_by_spikes(self, W: Curve, c: list[int], faces: list[int], loop_at: Callable) -> tuple | None:
+        """No face with ``c_f != 0`` touches the walk: spike a shortest path from the walk to one,
+        leaving the walk on the side that face needs, and insert the face's loop at the tip."""
+        H = self.H
+        P = H.graph
+        w = W.darts
+        L = len(w)
+        last = L if not H.closed else L - 1
+        best = None
+        for need_right in (True, False):
+            target: dict[int, int] = {}
+            for f in faces:
+                if (c[f] < 0) == need_right:
+                    for d in H.face_walks[f]:
+                        target.setdefault(H.tail[d], f)
+            if not target:
+                continue
+            dist: dict[int, float] = {}
+            via: dict[int, tuple] = {}  # vertex -> (previous vertex or None, dart, source position)
+            heap: list = []
+            for i in range(last + 1):
+                v = H.tail[w[i]] if i < L else H.head[w[-1]]
+                if H.closed or 0 < i < L:
+                    first = self._side_darts(w[i - 1], w[i], need_right)
+                else:
+                    first = P.darts_at(P.label(v))
+                for d in first:
+                    nd, h = H.cost[d], H.head[d]
+                    if nd < dist.get(h, math.inf):
+                        dist[h] = nd
+                        via[h] = (None, d, i)
+                        heapq.heappush(heap, (nd, h))
+            while heap:
+                dd, x = heapq.heappop(heap)
+                if dd > dist.get(x, math.inf):
+                    continue
+                if x in target:
+                    if best is None or dd < best[0]:
+                        best = (dd, x, target[x], via, need_right)
+                    break
+                for d in P.darts_at(P.label(x)):
+                    h = H.head[d]
+                    nd = dd + H.cost[d]
+                    if nd < dist.get(h, math.inf):
+                        dist[h] = nd
+                        via[h] = (x, d, None)
+                        heapq.heappush(heap, (nd, h))
+        if best is None:
+            return None
+        _, x, f, via, need_right = best
+        path: list[int] = []
+        while True:
+            prev, d, src = via[x]
+            path.append(d)
+            if prev is None:
+                break
+            x = prev
+        path.reverse()
+        q = loop_at(f, H.head[path[-1]])
+        if q is None:
+            return None
+        moves = [{"op": "spike", "pos": src + k, "dart": d} for k, d in enumerate(path)]
+        moves.append({"op": "flip", "face": f, "pos": src + len(path), "take": 0, "put": q})
+        return moves, f, need_right
+
+    def _side_darts(self, a: int, b: int, right: bool) -> list[int]:
+        """Darts leaving ``head(a)`` on one side of the walk ``a, b`` (both walk darts included)."""
+        P = self.H.graph
+        start, stop = (b, a ^ 1) if right else (a ^ 1, b)
+        out = [start]
+        y = start
+        for _ in range(len(self.H.tail)):
+            if y == stop:
+                break
+            y = P.prev_dart(y)
+            out.append(y)
+        return out
 
     def _right_corners(self, a: int, b: int) -> set[int]:
         """Faces in the corners on the right of the walk ``a, b`` at ``head(a) = tail(b)``."""
