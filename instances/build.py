@@ -18,7 +18,8 @@ A known value is recorded only when it is
 When a formula and a solver disagree, or two methods disagree, the build
 stops with an error instead of writing a doubtful value.  The sweep
 instances of ``instances/sweeps/`` (made by their own script) are listed in
-the manifest too when that folder has its own ``manifest.json``.
+the manifest by reference (its 'include' list) when that folder has its own
+``manifest.json``.
 """
 
 from __future__ import annotations
@@ -277,13 +278,14 @@ def build(sets: list[str] | None, out: str = HERE, log: Callable[[str], None] = 
         }
         entries.append(entry)
         log(f"{item['name']:22s} {time.monotonic() - t0:6.1f} s  " + ", ".join(f"{p}={v['value']:g}" for p, v in known.items()))
-    entries += external_entries(out)
     manifest = {
         "format": "sweepwidth-manifest",
         "version": 1,
         "description": "Curated instance sets with known values and where each value comes from. "
-        "Regenerate with instances/build.py; tests/test_instances.py recomputes them.",
+        "Regenerate with instances/build.py; tests/test_instances.py recomputes them. "
+        "Sets made elsewhere keep their own manifest, listed under 'include'.",
         "instances": entries,
+        "include": included_manifests(out),
     }
     with open(man_path, "w", encoding="utf-8") as fh:
         json.dump(manifest, fh, indent=1)
@@ -291,11 +293,12 @@ def build(sets: list[str] | None, out: str = HERE, log: Callable[[str], None] = 
     return manifest
 
 
-def external_entries(out: str) -> list[dict]:
-    """Entries of sets made elsewhere (``instances/sweeps/``): their own manifest, else each JSON file.
+def included_manifests(out: str) -> list[str]:
+    """Manifests of sets made elsewhere (``instances/sweeps/manifest.json``), relative to ``out``.
 
-    Known values come from that manifest or from the file's own ``known``
-    field, with the sources their authors gave.
+    They are included by reference, not copied, so their authors can change
+    them without this manifest going stale; the runner and the tests read
+    them through the 'include' list.
     """
     mine = {item["set"] for item in instance_list()}
     res = []
@@ -303,36 +306,8 @@ def external_entries(out: str) -> list[dict]:
         folder = os.path.join(out, sub)
         if sub in mine or not os.path.isdir(folder) or sub.startswith((".", "_")):
             continue
-        man = os.path.join(folder, "manifest.json")
-        if os.path.exists(man):
-            with open(man, encoding="utf-8") as fh:
-                listed = [dict(e) for e in json.load(fh).get("instances", [])]
-        else:
-            listed = [{"path": f} for f in sorted(os.listdir(folder)) if f.endswith(".json")]
-        for e in listed:
-            e["path"] = os.path.join(sub, e["path"])
-            p = os.path.join(out, e["path"])
-            if not os.path.exists(p):
-                continue
-            e.setdefault("set", sub)
-            e.setdefault("name", os.path.splitext(os.path.basename(p))[0])
-            try:
-                obj = sw.read(p)
-            except sw.SweepwidthError as err:
-                print(f"build.py: skipping {p}: {err}", file=sys.stderr)
-                continue
-            meta = getattr(obj, "meta", None) if hasattr(obj, "outer_face") else getattr(obj, "graph", {})
-            plane = hasattr(obj, "outer_face")
-            e.setdefault("kind", "plane" if plane else "graph")
-            e["vertices"] = obj.number_of_vertices() if plane else obj.number_of_nodes()
-            e["edges"] = obj.number_of_edges()
-            e["faces"] = obj.number_of_faces() if plane else None
-            if "known" not in e and meta and meta.get("known"):
-                e["known"] = dict(meta["known"])
-            e.setdefault("known", {})
-            e["external"] = True
-            e["hash"] = instance_hash(p)
-            res.append(e)
+        if os.path.exists(os.path.join(folder, "manifest.json")):
+            res.append(f"{sub}/manifest.json")
     return res
 
 

@@ -18,7 +18,16 @@ from ..errors import FileFormatError, SweepwidthError, UnsupportedOptionError
 from .hashing import config_hash, instance_hash
 from .loading import OPTIONS, PARAMETERS
 
-__all__ = ["Task", "InstanceEntry", "discover", "make_tasks", "INSTANCE_SUFFIXES", "DEFAULT_MEMORY_MB"]
+__all__ = [
+    "Task",
+    "InstanceEntry",
+    "discover",
+    "make_tasks",
+    "known_key",
+    "parse_known_key",
+    "INSTANCE_SUFFIXES",
+    "DEFAULT_MEMORY_MB",
+]
 
 #: File suffixes that :func:`discover` treats as instances inside a directory.
 INSTANCE_SUFFIXES = (".json", ".gr", ".pc", ".planar_code", ".off", ".obj", ".graphml")
@@ -142,7 +151,45 @@ class Task:
         return cls(**{k: d[k] for k in cls.__dataclass_fields__ if k in d})
 
 
-def _read_manifest(path: str) -> list[InstanceEntry]:
+#: option values that give a variant its own key among an instance's known values
+_VARIANT_FLAGS = (("monotone", True, "monotone"), ("simple", True, "simple"), ("spikes", False, "nospikes"))
+
+
+def known_key(parameter: str, options: Mapping[str, Any] | None = None) -> str:
+    """The key of a parameter variant among known values: 'homotopy', 'homotopy_monotone', ...
+
+    Examples
+    --------
+    >>> known_key("homotopy", {"monotone": True, "spikes": False})
+    'homotopy_monotone_nospikes'
+    """
+    opts = options or {}
+    flags = [name for opt, value, name in _VARIANT_FLAGS if opts.get(opt, None) is value]
+    return "_".join([parameter] + flags)
+
+
+def parse_known_key(key: str) -> tuple[str, dict] | None:
+    """Inverse of :func:`known_key`: ``(parameter, options)``, or None for a key we do not read.
+
+    Examples
+    --------
+    >>> parse_known_key("homotopy_monotone")
+    ('homotopy', {'monotone': True})
+    """
+    parts = key.split("_")
+    if parts[0] not in PARAMETERS:
+        return None
+    by_name = {name: (opt, value) for opt, value, name in _VARIANT_FLAGS}
+    opts: dict = {}
+    for part in parts[1:]:
+        if part not in by_name:
+            return None
+        opt, value = by_name[part]
+        opts[opt] = value
+    return parts[0], opts
+
+
+def _read_manifest(path: str, _seen: frozenset = frozenset()) -> list[InstanceEntry]:
     try:
         with open(path, "r", encoding="utf-8") as fh:
             data = json.load(fh)
@@ -154,6 +201,15 @@ def _read_manifest(path: str) -> list[InstanceEntry]:
         raise FileFormatError("a manifest is a JSON object with a list 'instances'", path=path)
     base = os.path.dirname(os.path.abspath(path))
     out = []
+    here = _seen | {os.path.abspath(path)}
+    for inc in data.get("include") or []:
+        sub = os.path.normpath(os.path.join(base, str(inc)))
+        if sub in here:
+            raise FileFormatError(f"manifest includes itself through {inc!r}", path=path)
+        if not os.path.exists(sub):
+            raise FileFormatError(f"included manifest {inc!r} does not exist", path=path)
+        folder = os.path.basename(os.path.dirname(sub))
+        out += [e if e.set else InstanceEntry(**{**e.__dict__, "set": folder}) for e in _read_manifest(sub, here)]
     for i, item in enumerate(data["instances"]):
         if not isinstance(item, dict) or "path" not in item:
             raise FileFormatError(f"manifest entry {i} has no 'path'", path=path)
@@ -176,7 +232,8 @@ def discover(paths: Iterable[str | os.PathLike], *, sets: Sequence[str] | None =
     """Instance entries for files, directories and manifests.
 
     A directory with a ``manifest.json`` contributes the manifest's
-    instances; any other directory every file below it with one of
+    instances (and those of the manifests it lists under ``include``, paths
+    relative to it); any other directory every file below it with one of
     :data:`INSTANCE_SUFFIXES` (manifests excluded).  A file named
     ``manifest.json`` is read as a manifest; any other file is one instance.
     Duplicate paths are kept once.
@@ -285,7 +342,7 @@ def make_tasks(
                             grace=grace,
                             solver=solver,
                             name=e.name,
-                            known=dict((e.known or {}).get(p, {})),
+                            known=dict((e.known or {}).get(known_key(p, merged), {})),
                         )
                     )
     return tasks
