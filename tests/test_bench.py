@@ -437,6 +437,19 @@ def test_discover_reads_manifests_and_filters_sets(tmp_path):
     # the graph without an embedding gets no homology task; known values travel with the task
     assert sorted((t.name, t.parameter) for t in tasks) == [("k4", "cutwidth"), ("w", "cutwidth"), ("w", "homology")]
     assert [t.known for t in tasks if t.parameter == "homology"] == [{"value": 5, "source": "test"}]
+    # an included manifest (by reference, paths relative to it)
+    sub = tmp_path / "more"
+    sub.mkdir()
+    sw.write(gen.fan(3), str(sub / "f.json"))
+    (sub / "manifest.json").write_text(json.dumps({"instances": [{"path": "f.json", "known": {"homotopy_monotone": {"value": 1, "source": "t"}}}]}))
+    top = tmp_path / "top"
+    top.mkdir()
+    (top / "manifest.json").write_text(json.dumps({"instances": [], "include": ["../more/manifest.json"]}))
+    got = discover([top])
+    assert [(e.name, e.set) for e in got] == [("f", "more")]
+    monotone = make_tasks(got, ["homotopy"], options={"monotone": True})
+    assert monotone[0].known == {"value": 1, "source": "t"}  # the variant's known value
+    assert make_tasks(got, ["homotopy"])[0].known == {}
     with pytest.raises(sw.UnsupportedOptionError):
         make_tasks(entries, ["girth"])
     with pytest.raises(sw.FileFormatError):
