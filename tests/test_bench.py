@@ -234,7 +234,8 @@ def test_sigkill_then_resume_loses_and_repeats_nothing(tmp_path):
     pids.mkdir()
     # every task sleeps a little, records its process id, then solves for real
     cmd = [PY, "-c", _SLOW_RUN, str(folder), db, str(pids)]
-    proc = subprocess.Popen(cmd, stdout=subprocess.DEVNULL, stderr=subprocess.PIPE)
+    repo = os.path.dirname(os.path.dirname(os.path.abspath(__file__)))
+    proc = subprocess.Popen(cmd, stdout=subprocess.DEVNULL, stderr=subprocess.PIPE, cwd=repo)
     deadline = time.monotonic() + 90
     done = 0
     while time.monotonic() < deadline:
