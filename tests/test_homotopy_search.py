@@ -240,6 +240,21 @@ def _ccw_boundary(P):
 
 
 
+def _ladder(k, w):
+    """k squares in a row (diagonal b_i - t_{i+1}) with a detour triangle outside every top and bottom edge."""
+    faces, W = [], {}
+    for i in range(k):
+        b0, b1, t0, t1 = ("b", i), ("b", i + 1), ("t", i), ("t", i + 1)
+        faces += [[b0, b1, t1], [b0, t1, t0], [t1, ("a", i), t0], [b0, ("c", i), b1]]
+        W[(t0, t1)], W[(b0, b1)], W[(b0, t1)] = w["t"], w["b"], w["d"]
+        W[(t0, ("a", i))], W[(("a", i), t1)] = w["ta"], w["tb"]
+        W[(b0, ("c", i))], W[(("c", i), b1)] = w["ba"], w["bb"]
+    for i in range(k + 1):
+        W[(("b", i), ("t", i))] = w["r0"] if i == 0 else (w["r1"] if i == k else w["ri"])
+    P = PlaneGraph.from_faces(faces, weights=W)
+    return P, [("b", i) for i in range(k + 1)] + [("t", i) for i in range(k, -1, -1)]
+
+
 def _opts(H):
     o = H.options()
     return {k: o[k] for k in ("start", "end", "closed", "holes", "spikes", "simple", "monotone", "length")}
@@ -455,6 +470,20 @@ def test_backtrack_instance_needs_exactly_one_repeated_face():
 
 
 # ---------------------------------------------------------------- regressions
+def test_regression_homology_bound_is_the_non_monotone_width():
+    # bug: the search clamped at the MONOTONE homology width (14) of this interior curve, above
+    # its true homotopy height 13 (a homotopy that toggles a face twice mod 2); the non-monotone
+    # width (13) is the valid bound.  A ladder of two squares with outside detour triangles.
+    w = {"t": 1, "b": 3, "d": 6, "ta": 5, "tb": 5, "ba": 1, "bb": 1, "r0": 3, "r1": 1, "ri": 4}
+    P, s = _ladder(2, w)
+    H = HomotopyProblem.build(P, start=s)
+    out = _checked(H)
+    assert out.optimal and out.upper == 13
+    assert sw.homology_width(P, start=H.to_json(H.start), monotone=False).value == 13
+    assert reference_height(H, 12)[0] is None
+
+
+
 def test_regression_dive_is_time_boxed():
     # bug: the greedy dive ran 35 s on this instance before the exact search (which needs 74 states)
     P = sw.read(os.path.join(ROOT, "instances", "sweeps", "backtrack-delaunay-2454.json"))
@@ -510,7 +539,8 @@ def test_between_homology_and_constructed_homotopy(seed, interior):
     H = HomotopyProblem.build(P, start=start)
     out = _checked(H, deadline=time.monotonic() + 20)
     assert out.optimal
-    hw = sw.homology_width(P, start=H.to_json(H.start))
+    # the mod-2 image of a homotopy may toggle faces twice: compare with the non-monotone width
+    hw = sw.homology_width(P, start=H.to_json(H.start), monotone=False)
     assert hw.lower <= out.upper
     b = sw.homotopy_height(P, start=H.to_json(H.start), method="bounds")
     assert b.lower <= out.upper <= b.upper

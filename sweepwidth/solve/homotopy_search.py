@@ -93,7 +93,7 @@ from collections.abc import Callable
 from dataclasses import dataclass, field
 from typing import Any
 
-from ..errors import InvalidCurveError, SweepwidthError
+from ..errors import InvalidCurveError, ProblemTooLargeError, SweepwidthError
 from ._walks import WalkSpace, find_rotation, least_rotation
 
 __all__ = ["SearchOutcome", "WalkSpec", "search_homotopy"]
@@ -537,15 +537,21 @@ def _homology_lower(spec: WalkSpec, deadline: float | None) -> tuple[float | Non
         limit = None
         if deadline is not None:
             limit = max(0.2, 0.25 * (deadline - time.monotonic()))
-        kw: dict = {"start": start, "end": end}
+        # the mod-2 image of a homotopy may toggle a face several times: the valid bound is
+        # the NON-monotone homology width (equal to the monotone one only for bottom-to-top
+        # sweeps, by Brightwell and Winkler; between interior curves it can be smaller)
+        kw: dict = {"start": start, "end": end, "monotone": False}
         if spec.holes is not None:
             kw["holes"] = set(spec.holes)
         if limit is not None:
             kw["time_limit"] = limit
-        r = fn(P, **kw)
+        try:
+            r = fn(P, **kw)
+        except ProblemTooLargeError as err:
+            return None, f"homology bound not available: {err}"
         if r.status == "infeasible":
             return None, "homology: infeasible"
-        return (float(r.lower) if r.lower is not None else None), f"homology width ({r.status}, {r.method})"
+        return (float(r.lower) if r.lower is not None else None), f"non-monotone homology width ({r.status}, {r.method})"
     except Exception as err:  # the bound is optional: never let it break the exact search
         return None, f"homology bound failed: {type(err).__name__}: {err}"
 
@@ -755,6 +761,10 @@ def search_homotopy(
     if use_homology and lower is None:
         hl, how = _homology_lower(spec, deadline)
         stats["homology"] = how
+        if hl is not None and state["upper"] is not None and hl > state["upper"]:
+            # impossible for a valid bound (the known homotopy projects to a homology sweep)
+            stats["homology"] = how + f"; ignored: {hl:g} exceeds the height {state['upper']:g} of a known homotopy"
+            hl = None
         if hl is not None and hl > lo:
             lo, lower_from = hl, how
             stats["lower_from"] = lower_from
