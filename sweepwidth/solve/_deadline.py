@@ -19,9 +19,10 @@ Process start-up cost
 Children are started from a reusable *forkserver* that has already imported
 numpy, networkx, python-sat and the SAT engine, so a child costs a fork plus
 unpickling its arguments rather than a fresh interpreter.  Measured on the
-development machine (2 shared cores, Python 3.11): the first call pays about
-0.25 s to start the server, later calls about 12 ms each, against about
-80 ms for an empty ``spawn`` child before any import.  The child imports the
+development machine (2 shared cores, Python 3.11): the first call pays
+0.3-1 s to start the server and import those modules once, later calls
+12-30 ms each, against about 80 ms for an empty ``spawn`` child before any
+import.  The child imports the
 module of the function it runs, so keep such functions in light modules.
 ``benchmarks/cutwidth.py --overhead`` re-measures it.  As with ``spawn``, a
 script that calls :func:`run_limited` at import time needs the
