@@ -85,6 +85,59 @@ def backtrack_instance(seed: int, max_darts: int = 10):
     return P, H0.to_json(c)
 
 
+#: weights of the ladder family (edge kinds: top, bottom, diagonal, detour halves, rungs)
+LADDER_WEIGHTS = {"t": 1, "b": 3, "d": 6, "ta": 5, "tb": 5, "ba": 1, "bb": 1, "r0": 3, "r1": 1, "ri": 4}
+
+
+def ladder(k: int, w: dict | None = None):
+    """k squares in a row, each cut by the diagonal b_i - t_(i+1), with a detour triangle
+    outside every top and bottom edge; the start curve is the ladder's boundary.
+
+    The weights were found by a random scan over one square (every weight in 1..6)
+    for a square whose optimal homotopies must re-flip a detour face.
+    """
+    from sweepwidth.plane import PlaneGraph
+
+    w = LADDER_WEIGHTS if w is None else w
+    faces, W = [], {}
+    for i in range(k):
+        b0, b1, t0, t1 = ("b", i), ("b", i + 1), ("t", i), ("t", i + 1)
+        faces += [[b0, b1, t1], [b0, t1, t0], [t1, ("a", i), t0], [b0, ("c", i), b1]]
+        W[(t0, t1)], W[(b0, b1)], W[(b0, t1)] = w["t"], w["b"], w["d"]
+        W[(t0, ("a", i))], W[(("a", i), t1)] = w["ta"], w["tb"]
+        W[(b0, ("c", i))], W[(("c", i), b1)] = w["ba"], w["bb"]
+    for i in range(k + 1):
+        W[(("b", i), ("t", i))] = w["r0"] if i == 0 else (w["r1"] if i == k else w["ri"])
+    pos = {}
+    for i in range(k + 1):
+        pos[("b", i)], pos[("t", i)] = (float(i), 0.0), (float(i), 1.0)
+    for i in range(k):
+        pos[("a", i)], pos[("c", i)] = (i + 0.5, 1.6), (i + 0.5, -0.6)
+    P = PlaneGraph.from_faces(faces, weights=W, pos=pos)
+    start = [("b", i) for i in range(k + 1)] + [("t", i) for i in range(k, -1, -1)]
+    return P, start
+
+
+def min_repeated_faces(H, general: float, seconds: float) -> tuple:
+    """(least r, proof notes): the least number of faces re-flipped by an optimal homotopy.
+
+    For r below the answer the search with ``max_repeated_faces=r`` explored every
+    walk of a homotopy of height <= ``general`` without reaching the end.  Returns
+    ``(None, notes)`` when some search ran out of time.
+    """
+    notes = []
+    for r in range(0, 6):
+        b = search_homotopy(H, max_repeated_faces=r, upper=general + 1, deadline=time.monotonic() + seconds)
+        if b.optimal and b.upper == general:
+            return r, notes
+        if b.lower > general:
+            notes.append(f"r={r}: no homotopy of height <= {general:g} ({b.stats['states']} states)")
+            continue
+        notes.append(f"r={r}: undecided within {seconds:g} s")
+        return None, notes
+    return None, notes
+
+
 # ------------------------------------------------------------------ scans
 def scan_split(count: int) -> list:
     """Disks where the homotopy height from the boundary exceeds the homology width."""
@@ -233,6 +286,32 @@ def write_all(folder: str, monotone_seconds: float = 60.0) -> list:
                         "description": "interior curve: every optimal homotopy flips some face twice"
                                        + ("" if b.optimal else " (no monotone homotopy exists)"
                                           if b.stats.get("infeasible") else "")})
+    # 3. the ladder family: the least number of re-flipped faces grows (1, 1, 2 for k = 1, 2, 3)
+    for k in (1, 2, 3):
+        P, start = ladder(k)
+        H = HomotopyProblem.build(P, start=start)
+        a = _solve_checked(H)
+        assert a.optimal
+        r, notes = min_repeated_faces(H, a.upper, 60.0)
+        gsrc = "exact walk-state search, witness replayed by sweepwidth.verify.homotopy"
+        if k == 1:
+            from reference_homotopy import reference_height
+
+            assert reference_height(H, a.upper)[0] == a.upper
+            gsrc += "; the same value from the reference BFS of tests/reference_homotopy.py"
+        name = f"ladder-{k}"
+        P.meta["name"] = name
+        P.meta["provenance"] = {"generator": "ladder", "k": k, "weights": LADDER_WEIGHTS,
+                                "script": "instances/sweeps/find_instances.py"}
+        P.meta["curves"] = {"start": H.to_json(H.start)}
+        P.meta["known"] = {"homotopy": {"value": a.upper, "source": gsrc}}
+        P.meta["bounds"] = {"min_repeated_faces": {
+            "value": r, "source": "search_homotopy(max_repeated_faces=r): " + "; ".join(notes)
+            + (f"; r={r} reaches the optimum" if r is not None else "")}}
+        sw.write(P, os.path.join(folder, name + ".json"))
+        entries.append({"path": name + ".json", "name": name, "known": P.meta["known"], "bounds": P.meta["bounds"],
+                        "description": f"ladder of {k} squares with detour triangles: optimal homotopies must "
+                                       f"re-flip {r} faces"})
     with open(os.path.join(folder, "manifest.json"), "w", encoding="utf-8") as fh:
         json.dump({"format": "sweepwidth-manifest", "version": 1, "instances": entries}, fh, indent=1)
         fh.write("\n")
