@@ -469,6 +469,21 @@ def test_backtrack_instance_needs_exactly_one_repeated_face():
         search_homotopy(H, max_repeated_faces=-1)
 
 
+def test_ladder_needs_one_repeated_face():
+    # ladder-2: monotone 14 > general 13; one re-flipped face is enough (values in the instance file)
+    P = sw.read(os.path.join(ROOT, "instances", "sweeps", "ladder-2.json"))
+    start = P.meta["curves"]["start"]
+    H = HomotopyProblem.build(P, start=start)
+    g = P.meta["known"]["homotopy"]["value"]
+    assert _checked(H).upper == g
+    assert _checked(HomotopyProblem.build(P, start=start, monotone=True)).upper == \
+        P.meta["known"]["homotopy_monotone"]["value"] > g
+    none = search_homotopy(H, max_repeated_faces=0, upper=g + 1, use_homology=False)
+    assert none.lower > g
+    one = _checked(H, max_repeated_faces=1)
+    assert one.optimal and one.upper == g
+
+
 # ---------------------------------------------------------------- regressions
 def test_regression_homology_bound_is_the_non_monotone_width():
     # bug: the search clamped at the MONOTONE homology width (14) of this interior curve, above

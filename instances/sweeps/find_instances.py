@@ -304,7 +304,14 @@ def write_all(folder: str, monotone_seconds: float = 60.0) -> list:
         P.meta["provenance"] = {"generator": "ladder", "k": k, "weights": LADDER_WEIGHTS,
                                 "script": "instances/sweeps/find_instances.py"}
         P.meta["curves"] = {"start": H.to_json(H.start)}
+        m = _solve_checked(HomotopyProblem.build(P, start=start, monotone=True), deadline=time.monotonic() + 60)
         P.meta["known"] = {"homotopy": {"value": a.upper, "source": gsrc}}
+        if m.optimal:
+            msrc = "exact walk-state search with monotone=True, witness replayed by sweepwidth.verify.homotopy"
+            if k == 1:
+                assert reference_height(HomotopyProblem.build(P, start=start, monotone=True), m.upper)[0] == m.upper
+                msrc += "; the same value from the reference BFS"
+            P.meta["known"]["homotopy_monotone"] = {"value": m.upper, "source": msrc}
         P.meta["bounds"] = {"min_repeated_faces": {
             "value": r, "source": "search_homotopy(max_repeated_faces=r): " + "; ".join(notes)
             + (f"; r={r} reaches the optimum" if r is not None else "")}}
