@@ -18,8 +18,7 @@ _PUBLIC = {
     "PlaneGraph": "sweepwidth.plane",
     "read": "sweepwidth.io",
     "write": "sweepwidth.io",
-    # the defining module itself: once imported, ``sweepwidth.solve.cutwidth`` is that module
-    "cutwidth": "sweepwidth.solve.cutwidth",
+    "cutwidth": "sweepwidth.solve",
     "homology_width": "sweepwidth.solve",
     "homotopy_height": "sweepwidth.solve",
     "draw": "sweepwidth.draw",

@@ -412,9 +412,14 @@ def test_regression_sw_cutwidth_stays_a_function_after_homology():
     import types
 
     sw.homology_width(generators.delaunay(9, seed=1), method="cutwidth")
-    importlib.import_module("sweepwidth.solve.cutwidth")
+    importlib.import_module("sweepwidth.solve.cutwidth_dispatch")
     vars(sw).pop("cutwidth", None)  # forget the cached attribute: resolve afresh
     assert not isinstance(sw.cutwidth, types.ModuleType)
+    # the solve facade too: its function name is no longer also a submodule name
+    import sweepwidth.solve as solve
+
+    vars(solve).pop("cutwidth", None)
+    assert not isinstance(solve.cutwidth, types.ModuleType)
     assert sw.cutwidth(nx.path_graph(3)).value == 1  # P_n has cutwidth 1 (common practice)
 
 

@@ -238,7 +238,7 @@ def _run_engine(G: Any, first: Any, last: Any, kw: dict, deadline: float | None,
     process that may not start children (for instance inside another
     time-limited child) the engine runs without that option.
     """
-    from .cutwidth import cutwidth
+    from .cutwidth_dispatch import cutwidth
 
     if deadline is None:
         return cutwidth(G, first=[first], last=[last], **kw)
