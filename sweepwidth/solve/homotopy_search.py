@@ -533,14 +533,23 @@ def _homology_lower(spec: WalkSpec, deadline: float | None) -> tuple[float | Non
             # the homology solver sweeps Z2 cycles; an open walk's chain is not one
             return None, "open walks: homology bound not used"
         if spec.length != "weight":
-            return None, "vertex-count length: homology bound not used"
+            # a closed walk of L darts has vertex count L (a point 1 >= 0): unit weights bound it
+            P = P.with_weights([1.0] * P.number_of_edges())
         limit = None
         if deadline is not None:
             limit = max(0.2, 0.25 * (deadline - time.monotonic()))
-        # the mod-2 image of a homotopy may toggle a face several times: the valid bound is
-        # the NON-monotone homology width (equal to the monotone one only for bottom-to-top
-        # sweeps, by Brightwell and Winkler; between interior curves it can be smaller)
-        kw: dict = {"start": start, "end": end, "monotone": False}
+        # The mod-2 image of a homotopy may toggle a face several times, so in general the
+        # valid bound is the NON-monotone homology width.  Face orders (the monotone width)
+        # suffice when the homotopy is monotone (its image is a face order) or for a sweep of
+        # the disk from its outer boundary to a point (Brightwell and Winkler).
+        outer = P.outer_face
+        holes = set(spec.holes) if spec.holes is not None else {outer}
+        z0: set = set()
+        for d in spec.start_darts:
+            z0 ^= {d >> 1}
+        disk = spec.end_darts is None and holes == {outer} and z0 == set(P.face_boundary_cycle(outer))
+        mono = bool(spec.monotone or disk)
+        kw: dict = {"start": start, "end": end, "monotone": mono}
         if spec.holes is not None:
             kw["holes"] = set(spec.holes)
         if limit is not None:
@@ -551,7 +560,8 @@ def _homology_lower(spec: WalkSpec, deadline: float | None) -> tuple[float | Non
             return None, f"homology bound not available: {err}"
         if r.status == "infeasible":
             return None, "homology: infeasible"
-        return (float(r.lower) if r.lower is not None else None), f"non-monotone homology width ({r.status}, {r.method})"
+        kind = "monotone" if mono else "non-monotone"
+        return (float(r.lower) if r.lower is not None else None), f"{kind} homology width ({r.status}, {r.method})"
     except Exception as err:  # the bound is optional: never let it break the exact search
         return None, f"homology bound failed: {type(err).__name__}: {err}"
 
