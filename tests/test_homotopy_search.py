@@ -368,6 +368,22 @@ def test_annulus_not_homotopic_is_infeasible():
     assert out.stats.get("infeasible") and "winding" in out.stats["reason"]
 
 
+@pytest.mark.parametrize("seed", [3, 8, 21])
+def test_annulus_boundary_to_hole_matches_the_reference(seed):
+    # holes {outer, f}: the outer boundary (counterclockwise) is homotopic to the boundary of f
+    # (both wind once around f); compare with the reference BFS
+    P = _tiny(seed, True, n=5)
+    inner = [g for g in P.faces if g != P.outer_face]
+    f = inner[seed % len(inner)]
+    start = _ccw_boundary(P)
+    e = P.face_darts(f)
+    H = HomotopyProblem.build(P, start={"vertex": P.tail(start[0]), "darts": list(start)},
+                              end={"vertex": P.tail(e[0]), "darts": e}, holes=[P.outer_face, f])
+    out = _checked(H)
+    assert out.optimal
+    assert reference_height(H, out.upper)[0] == out.upper
+
+
 def test_monotone_needs_windings_at_most_one():
     # a face boundary traversed twice has winding number 2: no monotone homotopy (each flip
     # changes one winding number by one), while the general one exists
