@@ -486,8 +486,8 @@ def test_backtrack_instance_needs_exactly_one_repeated_face():
 
 
 def test_ladder_needs_one_repeated_face():
-    # ladder-2: monotone 14 > general 13; one re-flipped face is enough (values in the instance file)
-    P = sw.read(os.path.join(ROOT, "instances", "sweeps", "ladder-2.json"))
+    # detour-ladder-2: monotone 14 > general 13; one re-flipped face is enough (values in the instance file)
+    P = sw.read(os.path.join(ROOT, "instances", "sweeps", "detour-ladder-2.json"))
     start = P.meta["curves"]["start"]
     H = HomotopyProblem.build(P, start=start)
     g = P.meta["known"]["homotopy"]["value"]

@@ -299,7 +299,7 @@ def write_all(folder: str, monotone_seconds: float = 60.0) -> list:
 
             assert reference_height(H, a.upper)[0] == a.upper
             gsrc += "; the same value from the reference BFS of tests/reference_homotopy.py"
-        name = f"ladder-{k}"
+        name = f"detour-ladder-{k}"
         P.meta["name"] = name
         P.meta["provenance"] = {"generator": "ladder", "k": k, "weights": LADDER_WEIGHTS,
                                 "script": "instances/sweeps/find_instances.py"}
