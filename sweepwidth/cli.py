@@ -702,7 +702,7 @@ def build_parser() -> argparse.ArgumentParser:
     def verb(name: str, help: str, example: str) -> argparse.ArgumentParser:
         return sub.add_parser(name, help=help, description=help, formatter_class=_formatter, epilog="example:\n  " + example)
 
-    common_limit = {"type": float, "metavar": "SECONDS"}
+    common_limit: dict[str, Any] = {"type": float, "metavar": "SECONDS"}
 
     s = verb("solve", "solve one or more instance files", "sweepwidth solve wheel.json --param homology,homotopy --time-limit 20 --save results/")
     s.add_argument("files", nargs="+", metavar="FILE")

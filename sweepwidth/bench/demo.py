@@ -282,7 +282,7 @@ def first_split(P: Any, order: Any) -> tuple[int, int, list[list[int]]] | None:
         if len(comps) > 1:
             groups = []
             for comp in comps:
-                faces = set()
+                faces: set[int] = set()
                 for e in cycle:
                     if P.edge_ends(e)[0] in comp:
                         faces.update(x for x in P.edge_faces(e) if x not in swept and x != P.outer_face)
@@ -329,8 +329,8 @@ def _pavilion_files(P: Any, results: dict, out_dir: str, pictures: bool) -> Iter
     except (AttributeError, ImportError) as err:  # noqa: BLE001
         yield {"kind": "note", "text": f"  pictures skipped: the drawing module is not available ({err})"}
         return
-    made = []
-    errs = []
+    made: list[str] = []
+    errs: list[str] = []
     e = _save_picture(lambda: draw_fn(P, dual=False, face_labels=True, title="Larkspur Pavilion (metres)"), os.path.join(out_dir, "pavilion.png"))
     (errs if e else made).append(e or "pavilion.png")
     for key in ("homology", "homotopy"):

@@ -20,7 +20,7 @@ from __future__ import annotations
 import concurrent.futures as cf
 import time
 from dataclasses import dataclass, field
-from typing import Any, Callable, Iterable, Mapping, Sequence
+from typing import Any, Callable, Iterable, Mapping, Sequence, cast
 
 from ..errors import SweepwidthError, UnsupportedOptionError
 from .child import cancel_all, execute_task, reset_cancel
@@ -183,7 +183,7 @@ def run_tasks(
     finished stays recorded, and the report says ``interrupted``.
     """
     own_db = not isinstance(db, ResultsDB)
-    database = ResultsDB(db) if own_db else db
+    database: ResultsDB = ResultsDB(cast(str, db)) if own_db else cast(ResultsDB, db)  # own_db is isinstance(db, ResultsDB)
     t0 = time.monotonic()
     try:
         unique: dict[tuple[str, str], Task] = {}

@@ -66,7 +66,7 @@ darts for a closed walk (a point counts 1), darts + 1 for an open walk.
 from __future__ import annotations
 
 from dataclasses import dataclass, field
-from typing import Any, Iterable, Mapping, NamedTuple, Sequence
+from typing import Any, Iterable, Mapping, NamedTuple, Sequence, cast
 
 from ..errors import InvalidCurveError, SweepwidthError, UnsupportedOptionError
 
@@ -415,8 +415,8 @@ class HomotopyProblem:
             default_start = Curve(tuple(side_a), si)
             default_end = Curve(tuple(d ^ 1 for d in reversed(side_b)), si)
             st = default_start if start is None else curve_from_json(P, start, closed=False, what="start")
-            en = default_end if end is None else curve_from_json(P, end, closed=False, what="end")
-            for name, c in (("start", st), ("end", en)):
+            en: Curve | None = default_end if end is None else curve_from_json(P, end, closed=False, what="end")
+            for name, c in (("start", st), ("end", cast(Curve, en))):  # open form: en is always a Curve
                 a = c.vertex
                 b = head[c.darts[-1]] if c.darts else c.vertex
                 if a != si or b != ti:
@@ -617,7 +617,7 @@ def apply_move(problem: HomotopyProblem, curve: Curve, move: Mapping[str, Any], 
             p = W[pos:] + W[:(pos + k) % L]
         if check:
             seq = tuple(p) + tuple(d ^ 1 for d in reversed(q))
-            if not problem.flip_fits(f, seq):
+            if not problem.flip_fits(cast(int, f), seq):  # f was checked to be a face id above
                 raise IllegalMoveError(
                     f"piece {list(p)} followed by the reverse of {list(q)} is not the boundary of face {f}"
                 )

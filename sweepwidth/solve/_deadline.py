@@ -98,7 +98,7 @@ def _context() -> Any:
     with _CTX_LOCK:
         if _CTX is None:
             if "forkserver" in mp.get_all_start_methods():
-                ctx = mp.get_context("forkserver")
+                ctx: Any = mp.get_context("forkserver")  # forkserver or spawn context
                 try:
                     ctx.set_forkserver_preload(list(_PRELOAD))
                 except Exception:  # pragma: no cover - exotic platforms

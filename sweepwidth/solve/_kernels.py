@@ -15,7 +15,7 @@ try:  # pragma: no cover - depends on the installation
 
     HAVE_NUMBA = True
 except Exception:  # pragma: no cover
-    numba = None
+    numba = None  # type: ignore[assignment]  # optional dependency: no module when numba is missing
     HAVE_NUMBA = False
 
 __all__ = ["HAVE_NUMBA", "csr_with_ids", "edge_betweenness", "subset_dp", "move_pass", "prefix_search"]

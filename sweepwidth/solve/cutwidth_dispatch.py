@@ -203,7 +203,7 @@ def _validate(method: Any, time_limit: Any, seed: Any, options: dict) -> None:
     if not callable(method) and method not in valid:
         raise UnsupportedOptionError("cutwidth method", method, valid)
     if time_limit is not None:
-        if isinstance(time_limit, bool) or not isinstance(time_limit, numbers.Real) or not time_limit > 0 or math.isnan(time_limit):
+        if isinstance(time_limit, bool) or not isinstance(time_limit, numbers.Real) or not time_limit > 0 or math.isnan(time_limit):  # type: ignore[operator]  # typeshed numbers.Real declares no comparison with int
             raise SweepwidthError(f"time_limit must be a positive number of seconds or None, got {time_limit!r}")
     if seed is not None and (isinstance(seed, bool) or not isinstance(seed, numbers.Integral)):
         raise SweepwidthError(f"seed must be an integer or None, got {seed!r}")

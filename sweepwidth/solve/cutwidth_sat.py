@@ -74,7 +74,7 @@ from __future__ import annotations
 
 import time
 from dataclasses import dataclass, field, replace
-from typing import Any, Callable, Sequence
+from typing import Any, Callable, Sequence, cast
 
 import numpy as np
 
@@ -510,7 +510,7 @@ class _Formula:
         for i in range(1, n + 1):
             if i % 16 == 0:
                 self.tick()
-            ps = []
+            ps: list[int] = []  # literals, or True for a vertex forced to enter
             for v in range(n):
                 a, b = self.x[v][i], self.x[v][i - 1]
                 if a is False or b is True:
@@ -564,10 +564,10 @@ class _Formula:
                 for b in range(a + 1, len(lits)):
                     self.add([-lits[a], -lits[b]])
             return
-        prev = None
+        prev: int | None = None
         for j, a in enumerate(lits):
             if j == len(lits) - 1:
-                self.add([-a, -prev])
+                self.add([-a, -cast(int, prev)])  # len(lits) > 4: prev was set
                 break
             s = self._new()
             self.add([-a, s])
@@ -669,7 +669,7 @@ class _Formula:
         q = len(p.first) + 1
         reps = sorted(set(rep[v] for v in free))
         self.n_orbits = len(set(rep))
-        self.sym = {"rep": rep, "q": q, "rep2": {}, "rank": None}
+        self.sym: dict[str, Any] = {"rep": rep, "q": q, "rep2": {}, "rank": None}
         if not free:
             return
         for v in free:
@@ -816,7 +816,7 @@ class _LevelProbe:
             for a, b in ((xu, xv), (xv, xu)):
                 if a is False or b is True:
                     continue
-                cl = [c]
+                cl: list[Any] = [c]
                 if a is not True:
                     cl.append(-a)
                 if b is not False:
@@ -1245,7 +1245,7 @@ def _search_rebuild(F: _Formula, best: SatOutcome, deadline: float | None, opts:
             if ans is None:
                 break
             if ans:
-                order = F.decode(model)
+                order = F.decode(cast("Sequence[int]", model))  # ans is True: the model exists
                 best.order, best.upper = order, int(round(F.problem.width(order)))
         if not ans:
             best.lower = k + 1

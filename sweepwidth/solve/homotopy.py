@@ -1249,7 +1249,7 @@ def _homology_lower(
     # (A monotone homotopy flips each face at most once: its reduction is a face order.)
     disk = H.monotone or ((not z1) and H.holes == frozenset({H.graph.outer_face}) and z0 == set(
         H.graph.face_boundary_cycle(H.graph.outer_face)))
-    kw = {"start": z0, "end": z1, "holes": sorted(H.holes), "time_limit": max(budget * HOMOLOGY_ASK, 0.3),
+    kw: dict[str, Any] = {"start": z0, "end": z1, "holes": sorted(H.holes), "time_limit": max(budget * HOMOLOGY_ASK, 0.3),
           "monotone": disk}
     info["homology_monotone"] = disk
     try:

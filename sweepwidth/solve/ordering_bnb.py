@@ -246,7 +246,7 @@ def solve_bnb(
         table = np.zeros((cap, W), dtype=np.uint64)
         used = np.zeros(cap, dtype=np.bool_)
         stored = np.zeros(1, dtype=np.int64)
-        rejected = np.inf
+        rejected: Any = np.inf  # a float here, a one-item list[float] in the threshold loop below
         status = -1
         # a node costs O(n): size the slices so that one lasts well under a second
         budget = max(200, int(2e6 // (n + 10)))
