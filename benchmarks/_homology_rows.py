@@ -185,7 +185,7 @@ def table_crossing_large(quick):
     import numpy as np
 
     from sweepwidth.problems.cycles import FaceSweep
-    from sweepwidth.solve.face_sets import greedy_sweep
+    from sweepwidth.solve.homology.face_sets import greedy_sweep
 
     for n in ((80,) if quick else (80, 120)):
         P = generators.delaunay(n, seed=1)

@@ -12,7 +12,7 @@ Usage::
 ``--method``: 'auto' (the default: what users get; the dispatcher picks the
 prefix-set search, the SAT engine or the tree search and says which in the
 method column) or 'sat' (bounds and a heuristic upper bound from the
-dispatcher, then the SAT engine of :mod:`sweepwidth.solve.cutwidth_sat`;
+dispatcher, then the SAT engine of :mod:`sweepwidth.solve.ordering.sat`;
 forests still use 'auto', which picks the tree search).  "s" is the wall time of that call, "sat s" the SAT
 engine's share.  The baseline is a CP-SAT model built
 here: one integer position per vertex, AllDifferent, one crossing indicator
@@ -244,8 +244,8 @@ ABLATION = [
 
 
 def run_ablation(out_lines: list[str], limit: float, variants: str | None = None) -> None:
-    from sweepwidth.solve.cutwidth_sat import solve_sat
-    from sweepwidth.solve.ordering_heuristics import heuristic_ordering
+    from sweepwidth.solve.ordering.sat import solve_sat
+    from sweepwidth.solve.ordering.heuristics import heuristic_ordering
 
     cases = [("grid 8x8", grid(8, 8)), ("Q_5", hypercube(5)), ("delaunay 30 s0", delaunay(30, 0)), ("wgrid 6x6 s0", weighted_grid(6, 0))]
     emit(out_lines, f"{'variant':<18}" + "".join(f"{c:>16}" for c, _ in cases))
@@ -272,13 +272,13 @@ def run_ablation(out_lines: list[str], limit: float, variants: str | None = None
 
 def _hint(P: OrderingProblem) -> list[int]:
     try:
-        from sweepwidth.solve.ordering_heuristics import heuristic_ordering
+        from sweepwidth.solve.ordering.heuristics import heuristic_ordering
 
         res = heuristic_ordering(P, seed=0)
         order = res[1] if isinstance(res, tuple) else res.order
         return list(order)
     except Exception:  # the heuristics module changed: fall back to ours
-        from sweepwidth.solve.cutwidth_sat import greedy_order
+        from sweepwidth.solve.ordering.sat import greedy_order
 
         return greedy_order(P)
 

@@ -33,9 +33,9 @@ import numpy as np
 
 import sweepwidth as sw
 from sweepwidth.problems.ordering import OrderingProblem
-from sweepwidth.solve.ordering_bnb import solve_bnb
-from sweepwidth.solve.ordering_dp import dp_estimate, solve_dp
-from sweepwidth.solve.ordering_heuristics import level_ordering
+from sweepwidth.solve.ordering.bnb import solve_bnb
+from sweepwidth.solve.ordering.dp import dp_estimate, solve_dp
+from sweepwidth.solve.ordering.heuristics import level_ordering
 
 
 def shuffled(G: nx.Graph, seed: int) -> nx.Graph:

@@ -24,7 +24,7 @@ sys.path.insert(0, HERE)
 
 from sweepwidth import generators
 from sweepwidth.problems.homotopy import HomotopyProblem
-from sweepwidth.solve.homotopy_search import search_homotopy
+from sweepwidth.solve.homotopy.search import search_homotopy
 from sweepwidth.verify.homotopy import replay_homotopy
 
 

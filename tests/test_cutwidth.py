@@ -22,7 +22,7 @@ from sweepwidth.errors import (
     WitnessError,
 )
 from sweepwidth.problems.ordering import OrderingProblem
-from sweepwidth.solve.ordering_bounds import (
+from sweepwidth.solve.ordering.bounds import (
     degree_bound,
     isoperimetric_bound,
     pin_bound,
@@ -542,8 +542,8 @@ def test_checker_rejects_wrong_witnesses():
 @settings(max_examples=40, deadline=None)
 @given(G=multigraphs(max_nodes=8, real=True), data=st.data())
 def test_compiled_and_python_search_agree(G, data):
-    from sweepwidth.solve.ordering_bnb import solve_bnb
-    from sweepwidth.solve.ordering_dp import solve_dp
+    from sweepwidth.solve.ordering.bnb import solve_bnb
+    from sweepwidth.solve.ordering.dp import solve_dp
 
     first, last = data.draw(pinned(G))
     P = OrderingProblem.from_graph(G, first=first or None, last=last or None).contract_pins().problem
@@ -560,8 +560,8 @@ def test_compiled_and_python_search_agree(G, data):
 @settings(max_examples=40, deadline=None)
 @given(seed=st.integers(0, 10**6), n=st.integers(2, 9), wmax=st.integers(1, 3))
 def test_tree_bound_never_exceeds_optimum(seed, n, wmax):
-    from sweepwidth.solve.ordering_bounds import tree_bound
-    from sweepwidth.solve.ordering_dp import solve_dp
+    from sweepwidth.solve.ordering.bounds import tree_bound
+    from sweepwidth.solve.ordering.dp import solve_dp
 
     T = nx.random_labeled_tree(n, seed=seed)
     rnd = random.Random(seed)
@@ -574,7 +574,7 @@ def test_tree_bound_never_exceeds_optimum(seed, n, wmax):
 def test_tree_bound_on_complete_binary_trees():
     # the recursive three-branch rule meets ceil(h/2) + 1 (Lengauer 1982, from memory; the exact
     # methods confirm h <= 7 in test_complete_binary_tree and the benchmarks)
-    from sweepwidth.solve.ordering_bounds import tree_bound
+    from sweepwidth.solve.ordering.bounds import tree_bound
 
     for h in range(2, 10):
         assert tree_bound(OrderingProblem.from_graph(nx.balanced_tree(2, h))) == math.ceil(h / 2) + 1

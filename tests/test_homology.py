@@ -24,7 +24,7 @@ from hypothesis import strategies as st
 import sweepwidth as sw
 from sweepwidth import generators
 from sweepwidth.problems.cycles import FaceSweep
-from sweepwidth.solve.face_sets import greedy_sweep, improve_sweep, monotone_sweep, toggle_search
+from sweepwidth.solve.homology.face_sets import greedy_sweep, improve_sweep, monotone_sweep, toggle_search
 
 from strategies import plane_graphs, triangulated_disks
 
@@ -412,7 +412,7 @@ def test_regression_sw_cutwidth_stays_a_function_after_homology():
     import types
 
     sw.homology_width(generators.delaunay(9, seed=1), method="cutwidth")
-    importlib.import_module("sweepwidth.solve.cutwidth_dispatch")
+    importlib.import_module("sweepwidth.solve.ordering")
     vars(sw).pop("cutwidth", None)  # forget the cached attribute: resolve afresh
     assert not isinstance(sw.cutwidth, types.ModuleType)
     # the solve facade too: its function name is no longer also a submodule name

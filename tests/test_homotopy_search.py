@@ -1,4 +1,4 @@
-"""Tests of the exact homotopy-height search (sweepwidth.solve.homotopy_search).
+"""Tests of the exact homotopy-height search (sweepwidth.solve.homotopy.search).
 
 Independent references used here:
 
@@ -30,8 +30,8 @@ from sweepwidth import generators
 from sweepwidth.errors import SweepwidthError
 from sweepwidth.plane import PlaneGraph
 from sweepwidth.problems.homotopy import Curve, HomotopyProblem
-from sweepwidth.solve._walks import WalkSpace, least_rotation
-from sweepwidth.solve.homotopy_search import search_homotopy
+from sweepwidth.solve.homotopy.walks import WalkSpace, least_rotation
+from sweepwidth.solve.homotopy.search import search_homotopy
 from sweepwidth.verify.homotopy import replay_homotopy
 
 sys.path.insert(0, os.path.dirname(os.path.abspath(__file__)))
@@ -452,7 +452,7 @@ def test_backtrack_instance_monotone_is_worse():
     P2 = sw.read(os.path.join(ROOT, "instances", "sweeps", "backtrack-delaunay-2026.json"))
     H2 = HomotopyProblem.build(P2, start=P2.meta["curves"]["start"], monotone=True)
     g2 = P2.meta["known"]["homotopy"]["value"]
-    import sweepwidth.solve.homotopy_search as hs
+    import sweepwidth.solve.homotopy.search as hs
 
     saved = hs._obstacle_test
     hs._obstacle_test = lambda *a: None

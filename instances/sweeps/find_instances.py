@@ -7,7 +7,7 @@ Run from the repository root::
 
 Each instance comes from a seeded random scan over small weighted Delaunay
 disks (``sweepwidth.generators.delaunay``), solved with the exact walk-state
-search (:func:`sweepwidth.solve.homotopy_search.search_homotopy`); the chosen
+search (:func:`sweepwidth.solve.homotopy.search.search_homotopy`); the chosen
 seeds are recorded below so that the files are rebuilt without rescanning.
 Every recorded value is re-solved when the files are written, every witness
 is replayed by the independent checker, and the homology widths come from
@@ -32,8 +32,8 @@ from reference_homotopy import legal_moves
 import sweepwidth as sw
 from sweepwidth import generators
 from sweepwidth.problems.homotopy import Curve, HomotopyProblem
-from sweepwidth.solve._walks import WalkSpace
-from sweepwidth.solve.homotopy_search import search_homotopy
+from sweepwidth.solve.homotopy.walks import WalkSpace
+from sweepwidth.solve.homotopy.search import search_homotopy
 from sweepwidth.verify.homotopy import replay_homotopy
 
 #: seeds found by the scans (see ``scan_split`` and ``scan_backtrack``)
@@ -230,7 +230,7 @@ def write_all(folder: str, monotone_seconds: float = 60.0) -> list:
         "homology": {"value": hw.value, "source": f"sweepwidth.homology_width ({hw.method})"},
         "homotopy": {
             "value": out.upper,
-            "source": f"exact walk-state search (sweepwidth.solve.homotopy_search, {out.stats['states']} states, "
+            "source": f"exact walk-state search (sweepwidth.solve.homotopy.search, {out.stats['states']} states, "
                       f"{sec:.1f} s), witness replayed by sweepwidth.verify.homotopy",
         },
     }

@@ -14,14 +14,14 @@ _MODULES = (
     "numba",
     "scipy.sparse",
     "scipy.sparse.csgraph",
-    "sweepwidth.solve._kernels",
-    "sweepwidth.solve.ordering_bnb",
-    "sweepwidth.solve.ordering_dp",
-    "sweepwidth.solve.ordering_heuristics",
-    "sweepwidth.solve.ordering_bounds",
-    "sweepwidth.solve.cutwidth_sat",
-    "sweepwidth.solve.face_sets",
-    "sweepwidth.solve.homotopy_search",
+    "sweepwidth.solve.ordering.kernels",
+    "sweepwidth.solve.ordering.bnb",
+    "sweepwidth.solve.ordering.dp",
+    "sweepwidth.solve.ordering.heuristics",
+    "sweepwidth.solve.ordering.bounds",
+    "sweepwidth.solve.ordering.sat",
+    "sweepwidth.solve.homology.face_sets",
+    "sweepwidth.solve.homotopy.search",
 )
 
 

@@ -58,7 +58,7 @@ _PRELOAD = [
     "pysat.solvers",
     "sweepwidth.plane",
     "sweepwidth.io",
-    "sweepwidth.solve.cutwidth_dispatch",
+    "sweepwidth.solve.ordering",
     "sweepwidth.solve.homology",
     "sweepwidth.solve.homotopy",
     "sweepwidth.verify.ordering",

@@ -51,7 +51,7 @@ def load_result(path: str | os.PathLike) -> Any:
 
 def _solve(obj: Any, param: str, dual: bool) -> Any:
     if param == "cutwidth":
-        from ..solve.cutwidth_dispatch import cutwidth
+        from ..solve.ordering import cutwidth
 
         target = obj.dual() if (dual and isinstance(obj, PlaneGraph)) else obj
         return cutwidth(target, time_limit=QUICK_LIMIT)

@@ -16,7 +16,7 @@ toggles the faces of a set ``S`` (with ``S`` disjoint from ``H`` and
 holes and the (zero, one or two) admissible swept sets ``S``.
 :class:`FaceSweep` turns "the weight of ``c0 + dT``" for subsets ``T`` of a
 set of free faces into a small weighted graph, which is what the solvers in
-:mod:`sweepwidth.solve.homology` and :mod:`sweepwidth.solve.face_sets`
+:mod:`sweepwidth.solve.homology` and :mod:`sweepwidth.solve.homology.face_sets`
 work on.
 
 Curve specifications

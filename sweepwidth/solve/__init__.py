@@ -2,7 +2,7 @@
 
 Public entry points
 -------------------
-cutwidth(G, ...)          any graph (see :mod:`sweepwidth.solve.cutwidth_dispatch`)
+cutwidth(G, ...)          any graph (see :mod:`sweepwidth.solve.ordering`)
 homology_width(P, ...)    Z2 sweeps of a plane graph (:mod:`sweepwidth.solve.homology`)
 homotopy_height(P, ...)   discrete homotopies of a plane graph (:mod:`sweepwidth.solve.homotopy`)
 """
@@ -13,7 +13,7 @@ import importlib
 from typing import Any
 
 _PUBLIC = {
-    "cutwidth": "sweepwidth.solve.cutwidth_dispatch",
+    "cutwidth": "sweepwidth.solve.ordering",
     "homology_width": "sweepwidth.solve.homology",
     "homotopy_height": "sweepwidth.solve.homotopy",
 }

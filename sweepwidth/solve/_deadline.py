@@ -66,7 +66,7 @@ BUDGET_SOLVERS = frozenset(
     }
 )
 
-_PRELOAD = ["__main__", "numpy", "networkx", "pysat.solvers", "pysat.card", "sweepwidth.solve._deadline", "sweepwidth.solve.cutwidth_sat"]
+_PRELOAD = ["__main__", "numpy", "networkx", "pysat.solvers", "pysat.card", "sweepwidth.solve._deadline", "sweepwidth.solve.ordering.sat"]
 _CTX_LOCK = threading.Lock()
 _CTX: Any = None
 

@@ -55,9 +55,9 @@ Methods
                (a lower bound) and its ordering, re-evaluated exactly, and a
                greedy sweep give the upper bound.
 'subset-dp'    exact monotone subset DP over ``2^|S|`` face sets
-               (:func:`~sweepwidth.solve.face_sets.monotone_sweep`).
+               (:func:`~sweepwidth.solve.homology.face_sets.monotone_sweep`).
 'face-sets'    exact non-monotone search over ``2^(faces - holes)`` toggle
-               states (:func:`~sweepwidth.solve.face_sets.toggle_search`);
+               states (:func:`~sweepwidth.solve.homology.face_sets.toggle_search`);
                above its size limit a bottom-to-top sweep is answered by
                the monotone methods (equal by Brightwell and Winkler).
 =============  ============================================================
@@ -89,9 +89,9 @@ import numbers
 import time
 from typing import Any, Callable
 
-from ..errors import ProblemTooLargeError, SweepwidthError, UnsupportedOptionError
-from ..problems.cycles import FaceSweep, HomologyProblem, bounded_face_sets, cycle_weight
-from ..result import Result
+from ...errors import ProblemTooLargeError, SweepwidthError, UnsupportedOptionError
+from ...problems.cycles import FaceSweep, HomologyProblem, bounded_face_sets, cycle_weight
+from ...result import Result
 from .face_sets import (
     MAX_MONOTONE_FACES,
     MAX_TABLE_BYTES,
@@ -238,7 +238,7 @@ def _run_engine(G: Any, first: Any, last: Any, kw: dict, deadline: float | None,
     process that may not start children (for instance inside another
     time-limited child) the engine runs without that option.
     """
-    from .cutwidth_dispatch import cutwidth
+    from ..ordering import cutwidth
 
     if deadline is None:
         return cutwidth(G, first=[first], last=[last], **kw)
@@ -265,8 +265,8 @@ def _run_engine(G: Any, first: Any, last: Any, kw: dict, deadline: float | None,
 
 
 def _quick_lower(G: Any, first: Any, last: Any) -> float:
-    from ..problems.ordering import OrderingProblem
-    from .ordering_bounds import lower_bounds
+    from ...problems.ordering import OrderingProblem
+    from ..ordering.bounds import lower_bounds
 
     try:
         b = lower_bounds(OrderingProblem.from_graph(G, first=[first], last=[last]), deadline=time.monotonic())
@@ -356,7 +356,7 @@ def _non_monotone(problem: HomologyProblem, deadline: float | None, seed: int | 
     floor = max(cycle_weight(P, problem.start), cycle_weight(P, problem.end))
     targets = [sorted(S) for S in problem.swept]
     if deadline is not None and estimate_seconds(fs.k, toggles=True) > 0.5:
-        from ._deadline import run_limited
+        from .._deadline import run_limited
 
         finished, value, _ = run_limited(_toggle_child, (fs, targets), {}, deadline=deadline)
         if not finished:

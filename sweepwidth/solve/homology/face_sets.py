@@ -38,8 +38,8 @@ from typing import Any, Sequence
 
 import numpy as np
 
-from ..errors import ProblemTooLargeError, SweepwidthError
-from ..problems.cycles import FaceSweep
+from ...errors import ProblemTooLargeError, SweepwidthError
+from ...problems.cycles import FaceSweep
 
 try:  # pragma: no cover - depends on the installation
     import numba

@@ -23,7 +23,7 @@ Methods
     explicit homotopy, built by sweeping faces one at a time (below) for
     several face orders, keeping the best.
 'search'
-    The exact bottleneck search of :mod:`sweepwidth.solve.homotopy_search`.
+    The exact bottleneck search of :mod:`sweepwidth.solve.homotopy.search`.
 'auto'
     'bounds' first; when a gap remains, the exact search (given the
     constructed homotopy as its upper bound) in the time left (without a time
@@ -92,9 +92,9 @@ import time
 from collections import deque
 from typing import Any, Callable, Iterable, Sequence
 
-from ..errors import SweepwidthError, UnsupportedOptionError
-from ..problems.homotopy import Curve, HomotopyProblem, apply_move
-from ..result import Result
+from ...errors import SweepwidthError, UnsupportedOptionError
+from ...problems.homotopy import Curve, HomotopyProblem, apply_move
+from ...result import Result
 
 __all__ = [
     "homotopy_height",
@@ -1207,14 +1207,14 @@ def _portable(P: Any) -> tuple:
 
 
 def _rebuild(data: tuple) -> Any:
-    from ..plane import PlaneGraph
+    from ...plane import PlaneGraph
 
     labels, ends, weights, nxt, outer = data
     return PlaneGraph(labels, ends, weights, nxt, outer=outer)
 
 
 def _homology_child(data: tuple, kw: dict, *, progress: Callable) -> Result:
-    from .homology import homology_width
+    from ..homology import homology_width
 
     return homology_width(_rebuild(data), **kw)
 
@@ -1233,7 +1233,7 @@ def _homology_lower(
         info["homology"] = "not used: the homology sweep is defined for cycles, these are paths"
         return None, info, None
     try:
-        from .homology import homology_width
+        from ..homology import homology_width
     except ImportError as err:  # pragma: no cover - the homology solver ships with the package
         info["homology"] = f"not available ({err})"
         return None, info, None
@@ -1256,7 +1256,7 @@ def _homology_lower(
         if hard_deadline is None or len(H.sweepable_faces) <= HOMOLOGY_INPROCESS_FACES:
             r = homology_width(P, **kw)
         else:
-            from ._deadline import run_limited
+            from .._deadline import run_limited
 
             done, r, _ = run_limited(_homology_child, (_portable(P), kw), deadline=hard_deadline)
             if not done:
@@ -1422,7 +1422,7 @@ def homotopy_bounds(
 
 # ====================================================================== search
 def _search_child(data: tuple, options: dict, kw: dict, *, progress: Callable) -> Any:
-    from .homotopy_search import search_homotopy
+    from .search import search_homotopy
 
     opts = dict(options)
     opts.pop("closed", None)
@@ -1431,7 +1431,7 @@ def _search_child(data: tuple, options: dict, kw: dict, *, progress: Callable) -
 
 
 def _search_here(problem: HomotopyProblem, kw: dict, *, progress: Callable) -> Any:
-    from .homotopy_search import search_homotopy
+    from .search import search_homotopy
 
     return search_homotopy(problem, progress=progress, **kw)
 
@@ -1446,10 +1446,10 @@ def _run_search(H: HomotopyProblem, deadline: float | None, upper: float | None,
     runs it in a child killed at the deadline instead.
     """
     try:
-        from . import homotopy_search  # noqa: F401
+        from . import search  # noqa: F401
     except ImportError as err:
         return None, f"exact search not available ({err})"
-    from ._deadline import run_limited
+    from .._deadline import run_limited
 
     kw = {"upper": upper, "upper_witness": witness, "lower": lower, "deadline": deadline}
     if deadline is None or not isolate:

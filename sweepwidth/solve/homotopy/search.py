@@ -27,7 +27,7 @@ below the optimum plus the part of the optimal level it needs.
 Each ingredient is exact for the definition:
 
 * *Canonical forms.*  A closed walk is stored as its least rotation
-  (:func:`~sweepwidth.solve._walks.least_rotation`): rotations of one closed
+  (:func:`~sweepwidth.solve.homotopy.walks.least_rotation`): rotations of one closed
   walk have the same moves up to renumbering positions, so they are one
   state.  Open walks are stored as they are.
 * *Clamping by a lower bound.*  Keys are ``max(bottleneck, B)`` where ``B`` is
@@ -93,8 +93,8 @@ from collections.abc import Callable
 from dataclasses import dataclass, field
 from typing import Any
 
-from ..errors import InvalidCurveError, ProblemTooLargeError, SweepwidthError
-from ._walks import WalkSpace, find_rotation, least_rotation
+from ...errors import InvalidCurveError, ProblemTooLargeError, SweepwidthError
+from .walks import WalkSpace, find_rotation, least_rotation
 
 __all__ = ["SearchOutcome", "WalkSpec", "search_homotopy"]
 
@@ -517,7 +517,7 @@ def _witness(search: _Search, parent: dict, state: Any) -> dict:
 def _homology_lower(spec: WalkSpec, deadline: float | None) -> tuple[float | None, str]:
     """Homology width of the same start, end and holes, when that solver is present."""
     try:
-        from . import homology as _h
+        from .. import homology as _h
     except ImportError:
         return None, "homology solver not available"
     try:
@@ -569,8 +569,8 @@ def _homology_lower(spec: WalkSpec, deadline: float | None) -> tuple[float | Non
 def _obstacle_test(problem: Any, spec: WalkSpec, fixed: list) -> str | None:
     """Reason why no monotone homotopy exists, or None when the test passes (or is unavailable)."""
     try:
-        from ..problems.homotopy import HomotopyProblem
-        from .homotopy import homotopy_classes_equal
+        from ...problems.homotopy import HomotopyProblem
+        from . import homotopy_classes_equal
     except ImportError:  # pragma: no cover - the other module is part of the package
         return None
     P = spec.P
@@ -657,7 +657,7 @@ def search_homotopy(
     Examples
     --------
     >>> from sweepwidth.generators import triangulated_grid
-    >>> from sweepwidth.solve.homotopy_search import WalkSpec, search_homotopy
+    >>> from sweepwidth.solve.homotopy.search import WalkSpec, search_homotopy
     >>> P = triangulated_grid(1)                       # a square split into two triangles
     >>> start = tuple(P.face_darts(P.outer_face))[::-1]
     >>> start = tuple(d ^ 1 for d in start)             # the boundary, counterclockwise

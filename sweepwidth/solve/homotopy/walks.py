@@ -1,6 +1,6 @@
 """Walk states of a plane graph as tuples of darts, and the moves between them.
 
-This module is the inner machinery of :mod:`sweepwidth.solve.homotopy_search`:
+This module is the inner machinery of :mod:`sweepwidth.solve.homotopy.search`:
 it compiles a :class:`~sweepwidth.plane.PlaneGraph` and the options of a
 homotopy problem into flat Python lists (:class:`WalkSpace`) and generates, for
 one walk, every walk one legal move away (face flips, spikes, unspikes, as
@@ -33,7 +33,7 @@ from collections.abc import Iterator, Sequence
 from dataclasses import dataclass, field
 from typing import Any
 
-from ..errors import SweepwidthError, UnsupportedOptionError
+from ...errors import SweepwidthError, UnsupportedOptionError
 
 __all__ = ["LENGTH_MODES", "WalkSpace", "find_rotation", "least_rotation"]
 

@@ -56,13 +56,13 @@ from typing import Any, Callable
 
 import numpy as np
 
-from ..errors import ProblemTooLargeError, SweepwidthError, UnsupportedOptionError
-from ..problems.ordering import OrderingProblem
-from ..result import Result
-from .ordering_bnb import solve_bnb
-from .ordering_bounds import lower_bounds
-from .ordering_dp import DEFAULT_MAX_MEMORY, dp_estimate, solve_dp
-from .ordering_heuristics import heuristic_ordering, improve_ordering
+from ...errors import ProblemTooLargeError, SweepwidthError, UnsupportedOptionError
+from ...problems.ordering import OrderingProblem
+from ...result import Result
+from .bnb import solve_bnb
+from .bounds import lower_bounds
+from .dp import DEFAULT_MAX_MEMORY, dp_estimate, solve_dp
+from .heuristics import heuristic_ordering, improve_ordering
 
 __all__ = ["cutwidth", "METHODS", "OPTIONS"]
 
@@ -120,7 +120,7 @@ def _m_dp(P, *, lower, upper, upper_order, deadline, seed, max_memory=DEFAULT_MA
     if deadline is not None and secs > _left(deadline):
         raise _TooSlow(f"subset DP estimated at {secs:.1f} s, more than the {max(0.0, _left(deadline)):.1f} s left")
     if deadline is not None and secs > 0.5:
-        from ._deadline import run_limited
+        from .._deadline import run_limited
 
         try:
             finished, value, _ = run_limited(_dp_child, (P, max_memory), {}, deadline=deadline)
@@ -146,7 +146,7 @@ def _m_bnb(P, *, lower, upper, upper_order, deadline, seed, max_states=4_000_000
 
 
 def _m_sat(P, *, lower, upper, upper_order, deadline, seed, solver="cadical195", sat_options=None, **_):
-    from .cutwidth_sat import solve_sat
+    from .sat import solve_sat
 
     if P.n > _SAT_HARD_N:
         raise ProblemTooLargeError(
@@ -217,7 +217,7 @@ def _validate(method: Any, time_limit: Any, seed: Any, options: dict) -> None:
         if isinstance(mm, bool) or not isinstance(mm, numbers.Real) or mm <= 0:
             raise SweepwidthError(f"max_memory must be a positive number of bytes, got {mm!r}")
     if "solver" in options:
-        from .cutwidth_sat import SOLVERS
+        from .sat import SOLVERS
 
         if options["solver"] not in SOLVERS:
             raise UnsupportedOptionError("SAT solver", options["solver"], list(SOLVERS))
@@ -473,7 +473,7 @@ def cutwidth(
     t0 = time.monotonic()
     _validate(method, time_limit, seed, options)
     deadline = None if time_limit is None else t0 + float(time_limit) - 0.05
-    from . import _kernels
+    from . import kernels as _kernels
 
     _kernels.warm_up()  # first call in a process: load compiled kernels inside the time limit
     P = OrderingProblem.from_graph(G, weight=weight, first=first, last=last)

@@ -18,7 +18,7 @@ Reductions, each proven to keep some optimal ordering:
   next threshold (and a proven lower bound).  This also makes real weights
   exact without any scaling.
 
-The search runs compiled (:func:`sweepwidth.solve._kernels.prefix_search`,
+The search runs compiled (:func:`sweepwidth.solve.ordering.kernels.prefix_search`,
 failed sets in an open-addressing table of bitmask words) when numba is
 available, in slices of a node budget so the time limit is checked between
 slices; a slice restarts from the empty prefix but keeps the failed sets, so
@@ -39,8 +39,8 @@ from typing import Any
 
 import numpy as np
 
-from ..problems.ordering import OrderingProblem
-from . import _kernels
+from ...problems.ordering import OrderingProblem
+from . import kernels as _kernels
 
 #: memory cap of the compiled search's table of failed sets, bytes
 _TABLE_BYTES = 512 << 20

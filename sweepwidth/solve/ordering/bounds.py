@@ -15,7 +15,7 @@ from typing import Any
 
 import numpy as np
 
-from ..problems.ordering import OrderingProblem
+from ...problems.ordering import OrderingProblem
 
 __all__ = [
     "degree_bound",
@@ -309,7 +309,7 @@ def routing_bound(problem: OrderingProblem, time_budget: float = 5.0, seed: int 
     Notes
     -----
     Brandes' accumulation, ``O(|T| m)`` with a compiled kernel
-    (:mod:`sweepwidth.solve._kernels`).
+    (:mod:`sweepwidth.solve.ordering.kernels`).
 
     References
     ----------
@@ -324,7 +324,7 @@ def routing_bound(problem: OrderingProblem, time_budget: float = 5.0, seed: int 
     >>> routing_bound(OrderingProblem.from_graph(nx.cycle_graph(8)))
     2.0
     """
-    from . import _kernels
+    from . import kernels as _kernels
 
     n = problem.n
     if n < 2 or problem.m == 0:

@@ -19,9 +19,9 @@ from typing import Any
 
 import numpy as np
 
-from ..errors import ProblemTooLargeError
-from ..problems.ordering import OrderingProblem
-from . import _kernels
+from ...errors import ProblemTooLargeError
+from ...problems.ordering import OrderingProblem
+from . import kernels as _kernels
 
 __all__ = ["dp_estimate", "solve_dp", "DEFAULT_MAX_MEMORY"]
 

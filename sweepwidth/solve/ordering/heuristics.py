@@ -19,7 +19,7 @@ Constructions
 
 Improvement: passes of best single-vertex moves (remove one vertex, insert it
 at the position minimising width, then the number of gaps at that width, then
-the total cut), with a compiled kernel (:mod:`sweepwidth.solve._kernels`).
+the total cut), with a compiled kernel (:mod:`sweepwidth.solve.ordering.kernels`).
 """
 
 from __future__ import annotations
@@ -31,8 +31,8 @@ from typing import Any, Callable
 
 import numpy as np
 
-from ..problems.ordering import OrderingProblem
-from . import _kernels
+from ...problems.ordering import OrderingProblem
+from . import kernels as _kernels
 
 __all__ = [
     "level_ordering",
@@ -188,7 +188,7 @@ def spectral_orderings(problem: OrderingProblem, angles: int = 8) -> list[list[i
     w = problem.weights
     A = sp.coo_matrix((np.concatenate([w, w]), (np.concatenate([u, v]), np.concatenate([v, u]))), shape=(n, n)).tocsr()
     L = (sp.diags(np.asarray(A.sum(axis=1)).ravel()) - A).astype(float)
-    from .ordering_bounds import _factor_cheap
+    from .bounds import _factor_cheap
 
     try:
         if n <= 300 or (n <= 2500 and not _factor_cheap(problem)):

@@ -78,9 +78,9 @@ from typing import Any, Callable, Sequence, cast
 
 import numpy as np
 
-from ..errors import SweepwidthError, UnsupportedOptionError, WeightError
-from ..problems.ordering import OrderingProblem
-from ._deadline import BUDGET_SOLVERS, run_limited, sat_call
+from ...errors import SweepwidthError, UnsupportedOptionError, WeightError
+from ...problems.ordering import OrderingProblem
+from .._deadline import BUDGET_SOLVERS, run_limited, sat_call
 
 __all__ = ["SatOutcome", "solve_sat", "greedy_order", "SOLVERS", "ABLATION_NOTES"]
 
