@@ -30,6 +30,7 @@ _PUBLIC = {
     "WeightError": "sweepwidth.errors",
     "FileFormatError": "sweepwidth.errors",
     "UnsupportedOptionError": "sweepwidth.errors",
+    "InvalidArgumentError": "sweepwidth.errors",
     "InvalidCurveError": "sweepwidth.errors",
     "ProblemTooLargeError": "sweepwidth.errors",
     "WitnessError": "sweepwidth.errors",

@@ -16,6 +16,7 @@ __all__ = [
     "WeightError",
     "FileFormatError",
     "UnsupportedOptionError",
+    "InvalidArgumentError",
     "InvalidCurveError",
     "ProblemTooLargeError",
     "WitnessError",
@@ -108,6 +109,10 @@ class UnsupportedOptionError(SweepwidthError, ValueError):
         self.what = what
         self.value = value
         self.valid = list(valid or [])
+
+
+class InvalidArgumentError(SweepwidthError, ValueError):
+    """A bad value of an argument shared by every solver: ``time_limit``, ``seed`` or ``weight``."""
 
 
 class InvalidCurveError(SweepwidthError, ValueError):

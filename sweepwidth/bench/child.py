@@ -128,15 +128,9 @@ def _fast_nested_children() -> None:
     starting a second server with a new interpreter per task.  A plain fork
     is safe here and costs milliseconds.
     """
-    if "fork" not in mp.get_all_start_methods():
-        return
-    try:
-        from ..solve import _deadline
+    from ..solve.contract import use_fork_children
 
-        with _deadline._CTX_LOCK:
-            _deadline._CTX = mp.get_context("fork")
-    except (ImportError, AttributeError):  # pragma: no cover - machinery moved
-        pass
+    use_fork_children()
 
 
 def quick_bounds(obj: Any, parameter: str, options: Mapping[str, Any]) -> dict | None:

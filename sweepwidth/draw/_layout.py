@@ -67,7 +67,7 @@ def _drawing_agrees(rot: dict[Hashable, list[Hashable]], pos: dict[Hashable, np.
     Crossings are checked too (a drawing with the right rotation at every
     vertex can still cross itself).
     """
-    from ..plane._geometry import find_crossing
+    from ..plane import find_crossing
 
     verts = list(rot)
     index = {v: i for i, v in enumerate(verts)}

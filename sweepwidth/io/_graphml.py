@@ -150,7 +150,7 @@ def read_graphml(data: bytes, *, path: Any = None) -> PlaneGraph | nx.Graph:
             out.nodes[v].pop("sw_rotation", None)
         out.graph.pop("sw_outer", None)
         return out
-    P._edata = [dict(d) for d in edata]  # noqa: SLF001
+    P.set_edge_data(edata)
     P.meta.update(meta)
     return P
 

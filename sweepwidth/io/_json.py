@@ -455,7 +455,7 @@ def _build_plane(R, doc, labels, ends, weights, data) -> PlaneGraph:  # type: ig
         if isinstance(err, FileFormatError):
             raise
         raise located(err, path) from None
-    P._edata = [dict(d) for d in data]  # noqa: SLF001 - same package family
+    P.set_edge_data(data)
     if pos is not None:
         P.pos = pos
     P.meta = meta
@@ -509,7 +509,7 @@ def _from_rotation(R, raw_rot, labels, ends, weights, outer_dart, pos) -> PlaneG
 
 
 def _from_drawing(labels, ends, weights, pos, outer_dart) -> PlaneGraph:  # type: ignore[no-untyped-def]
-    from ..plane._geometry import drawing_rotation
+    from ..plane import drawing_rotation
 
     for e, (a, b) in enumerate(ends):
         if a == b:

@@ -417,6 +417,22 @@ class PlaneGraph:
         """The attributes the edge was built with (a copy)."""
         return dict(self._edata[e])
 
+    def set_edge_data(self, edge_data: Sequence[Mapping[str, Any]]) -> None:
+        """Replace the extra attributes of every edge (one mapping per edge id, copied).
+
+        Readers use it to keep attributes a file carries beside the weights;
+        weights, rotation and faces do not change.
+
+        Raises
+        ------
+        InvalidEmbeddingError
+            When the number of mappings is not the number of edges.
+        """
+        data = list(edge_data)
+        if len(data) != len(self._w):
+            raise InvalidEmbeddingError(f"edge data for {len(data)} edges given to a graph with {len(self._w)} edges")
+        self._edata = [dict(d) if d else _NO_DATA for d in data]
+
     def index(self, v: Hashable) -> int:
         """Vertex index of label ``v``."""
         try:

@@ -109,6 +109,19 @@ def _context() -> Any:
         return _CTX
 
 
+def use_start_method(method: str) -> bool:
+    """Start later children of this process with ``method`` (e.g. 'fork'); False if unavailable.
+
+    Public through :func:`sweepwidth.solve.contract.use_fork_children`.
+    """
+    global _CTX
+    if method not in mp.get_all_start_methods():
+        return False
+    with _CTX_LOCK:
+        _CTX = mp.get_context(method)
+    return True
+
+
 def _child_main(conn: Any, fn: Callable, args: tuple, kwargs: dict) -> None:
     """Body of the child process: run ``fn`` and send everything back on ``conn``."""
 

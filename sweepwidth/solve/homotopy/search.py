@@ -570,7 +570,7 @@ def _obstacle_test(problem: Any, spec: WalkSpec, fixed: list) -> str | None:
     """Reason why no monotone homotopy exists, or None when the test passes (or is unavailable)."""
     try:
         from ...problems.homotopy import HomotopyProblem
-        from . import homotopy_classes_equal
+        from .free_group import homotopy_classes_equal
     except ImportError:  # pragma: no cover - the other module is part of the package
         return None
     P = spec.P

@@ -59,22 +59,17 @@ import numpy as np
 from ...errors import ProblemTooLargeError, SweepwidthError, UnsupportedOptionError
 from ...problems.ordering import OrderingProblem
 from ...result import Result
+from ..contract import Deadline, builtin_names, check_options, check_seed, get_method, make_result, methods, resolve_weight
 from .bnb import solve_bnb
 from .bounds import lower_bounds
 from .dp import DEFAULT_MAX_MEMORY, dp_estimate, solve_dp
 from .heuristics import heuristic_ordering, improve_ordering
 
-__all__ = ["cutwidth", "METHODS", "OPTIONS"]
+__all__ = ["cutwidth", "solve_problem", "METHODS", "OPTIONS"]
 
-#: options accepted by ``cutwidth`` (besides the named arguments), per method
-OPTIONS: dict[str, tuple[str, ...]] = {
-    "auto": ("max_memory", "solver", "max_states", "improve", "dp_limit", "sat_options"),
-    "dp": ("max_memory",),
-    "bnb": ("max_states", "improve"),
-    "sat": ("solver", "improve", "sat_options"),
-    "tree": ("max_states",),
-    "heuristic": ("improve", "effort"),
-}
+#: options accepted by ``cutwidth`` (besides the named arguments), per built-in method
+#: (read from the method registry, :mod:`sweepwidth.solve.contract`)
+OPTIONS: dict[str, tuple[str, ...]] = {m.name: m.options for m in methods("cutwidth").values()}
 
 _TINY_DP = 16  # 'auto' uses the DP up to this many unpinned vertices (the search is faster above)
 _SAT_MAX_N = 400  # 'auto' does not build SAT encodings (n^2 variables) above this
@@ -190,28 +185,38 @@ class _NeedsOther(Exception):
     pass
 
 
+#: the built-in exact methods run after the bounds ('auto' and 'heuristic' are in ``_solve_part``)
 METHODS: dict[str, Callable[..., Outcome]] = {
     "dp": _m_dp,
     "bnb": _m_bnb,
     "sat": _m_sat,
     "tree": _m_bnb,
 }
+assert set(METHODS) | {"auto", "heuristic"} == builtin_names("cutwidth"), "registry and dispatcher disagree"
 
 
-def _validate(method: Any, time_limit: Any, seed: Any, options: dict) -> None:
-    valid = ["auto", "heuristic"] + sorted(METHODS)
-    if not callable(method) and method not in valid:
-        raise UnsupportedOptionError("cutwidth method", method, valid)
-    if time_limit is not None:
-        if isinstance(time_limit, bool) or not isinstance(time_limit, numbers.Real) or not time_limit > 0 or math.isnan(time_limit):  # type: ignore[operator]  # typeshed numbers.Real declares no comparison with int
-            raise SweepwidthError(f"time_limit must be a positive number of seconds or None, got {time_limit!r}")
-    if seed is not None and (isinstance(seed, bool) or not isinstance(seed, numbers.Integral)):
-        raise SweepwidthError(f"seed must be an integer or None, got {seed!r}")
-    if not callable(method):
-        allowed = OPTIONS[method]
-        for k in options:
-            if k not in allowed:
-                raise UnsupportedOptionError(f"option for method {method!r}", k, list(allowed))
+class _Named:
+    """A registered method function under its registry name (its label in ``result.method``)."""
+
+    def __init__(self, fn: Callable[..., Any], name: str) -> None:
+        self.fn, self.__name__ = fn, name
+
+    def __call__(self, *args: Any, **kwargs: Any) -> Any:
+        return self.fn(*args, **kwargs)
+
+
+def _resolve_method(method: Any, options: dict) -> Any:
+    """A built-in name, or a callable (given, or a registered method with a function)."""
+    if callable(method):
+        return method
+    entry = get_method("cutwidth", method)
+    check_options(entry, options)
+    if entry.function is not None:
+        return _Named(entry.load(), entry.name)  # type: ignore[arg-type]
+    return method
+
+
+def _validate(options: dict) -> None:
     if "max_memory" in options:
         mm = options["max_memory"]
         if isinstance(mm, bool) or not isinstance(mm, numbers.Real) or mm <= 0:
@@ -471,12 +476,41 @@ def cutwidth(
     3.0
     """
     t0 = time.monotonic()
-    _validate(method, time_limit, seed, options)
-    deadline = None if time_limit is None else t0 + float(time_limit) - 0.05
+    dl = Deadline.from_limit(time_limit, start=t0)
+    seed = check_seed(seed)
+    weight = resolve_weight("cutwidth", weight, callable_ok=True)
+    method = _resolve_method(method, options)
+    _validate(options)
     from . import kernels as _kernels
 
     _kernels.warm_up()  # first call in a process: load compiled kernels inside the time limit
     P = OrderingProblem.from_graph(G, weight=weight, first=first, last=last)
+    return solve_problem(P, method=method, deadline=dl, seed=seed, options=options, started=t0,
+                         weight_label=weight if (weight is None or isinstance(weight, str)) else "<callable>")
+
+
+def solve_problem(
+    P: OrderingProblem,
+    *,
+    method: Any = "auto",
+    deadline: Deadline,
+    seed: int | None = None,
+    options: dict | None = None,
+    weight_label: Any = "weight",
+    started: float | None = None,
+) -> Result:
+    """Cutwidth of an :class:`~sweepwidth.problems.ordering.OrderingProblem` under a :class:`Deadline`.
+
+    The internal entry point behind :func:`cutwidth` (and the homology
+    reduction): arguments are already checked, the deadline is passed down
+    as it is, and the witness is in the problem's labels.
+    """
+    t0 = time.monotonic() if started is None else started
+    options = dict(options or {})
+    method = _resolve_method(method, options)
+    _validate(options)
+    dl = deadline
+    deadline_at = dl.at
     C = P.contract_pins()
     Q = C.problem
     a = next(iter(Q.first)) if Q.first else None
@@ -492,9 +526,9 @@ def cutwidth(
     for comp in comps:
         sub = Q if len(comp) == Q.n else Q.subproblem(comp)
         if method == "auto":
-            part = _auto_part(sub, deadline, seed, options)
+            part = _auto_part(sub, deadline_at, seed, options)
         else:
-            part = _solve_part(sub, method, deadline, seed, options)
+            part = _solve_part(sub, method, deadline_at, seed, options)
         parts.append((comp, part))
     # concatenate: the part with the first pin, then the free parts, then the one with the last pin
     def rank(item: tuple[list[int], _Part]) -> int:
@@ -524,7 +558,7 @@ def cutwidth(
         "options": {
             "first": [P.labels[v] for v in sorted(P.first)] or None,
             "last": [P.labels[v] for v in sorted(P.last)] or None,
-            "weight": weight if (weight is None or isinstance(weight, str)) else "<callable>",
+            "weight": weight_label,
         },
         "n": P.n,
         "m": P.m,
@@ -537,16 +571,8 @@ def cutwidth(
         stats["parts"] = [dict(part.stats, n=len(comp), lower=part.lower, upper=part.upper) for comp, part in parts]
         if method == "auto":
             stats["auto"] = {"choice": "per component", "reason": f"{len(parts)} components solved separately", "chosen": names}
-    if time_limit is not None and time.monotonic() - t0 > time_limit:
-        stats["overran_seconds"] = time.monotonic() - t0 - time_limit
-    return Result(
-        parameter="cutwidth",
-        status="optimal" if optimal else "bounded",
-        value=upper if optimal else None,
-        lower=lower,
-        upper=upper,
-        witness=witness,
-        method=label,
-        seconds=time.monotonic() - t0,
-        stats=stats,
-    )
+    over = dl.overran()
+    if over is not None:
+        stats["overran_seconds"] = over
+    return make_result("cutwidth", lower=lower, upper=upper, witness=witness, method=label,
+                       seconds=time.monotonic() - t0, stats=stats, optimal=optimal)
