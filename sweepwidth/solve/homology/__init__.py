@@ -92,6 +92,7 @@ from typing import Any, Callable
 from ...errors import ProblemTooLargeError, SweepwidthError, UnsupportedOptionError
 from ...problems.cycles import FaceSweep, HomologyProblem, bounded_face_sets, cycle_weight
 from ...result import Result
+from ..contract import Deadline, builtin_names, check_seed, get_method, make_result, methods, resolve_weight
 from .face_sets import (
     MAX_MONOTONE_FACES,
     MAX_TABLE_BYTES,
@@ -103,9 +104,10 @@ from .face_sets import (
     toggle_search,
 )
 
-__all__ = ["homology_width", "METHODS", "OPTIONS"]
+__all__ = ["homology_width", "solve_problem", "METHODS", "OPTIONS"]
 
-METHODS = ("auto", "cutwidth", "subset-dp", "face-sets")
+#: the built-in method names (from the method registry, :mod:`sweepwidth.solve.contract`)
+METHODS = tuple(sorted(builtin_names("homology"), key=list(methods("homology")).index))
 
 #: extra keyword options and what they do
 OPTIONS = {
@@ -113,6 +115,8 @@ OPTIONS = {
     "max_faces": "largest face count for 'subset-dp' / 'face-sets' (defaults: module limits)",
     "cutwidth_method": "method passed to sweepwidth.cutwidth (default 'auto')",
 }
+
+assert all(set(m.options) <= set(OPTIONS) for m in methods("homology").values() if m.function is None)
 
 _DP_LIMIT = 16
 _EPS = 1e-9
@@ -126,14 +130,10 @@ def _left(deadline: float | None) -> float:
     return math.inf if deadline is None else deadline - time.monotonic()
 
 
-def _validate(method: Any, time_limit: Any, seed: Any, monotone: Any, options: dict) -> None:
-    if method not in METHODS:
-        raise UnsupportedOptionError("homology method", method, list(METHODS))
-    if time_limit is not None:
-        if isinstance(time_limit, bool) or not isinstance(time_limit, numbers.Real) or not float(time_limit) > 0:
-            raise SweepwidthError(f"time_limit must be a positive number of seconds or None, got {time_limit!r}")
-    if seed is not None and (isinstance(seed, bool) or not isinstance(seed, numbers.Integral)):
-        raise SweepwidthError(f"seed must be an integer or None, got {seed!r}")
+def _validate(method: Any, monotone: Any, options: dict) -> None:
+    entry = get_method("homology", method)
+    if entry.function is not None:
+        return  # an added method checks its own options
     if not isinstance(monotone, bool):
         raise SweepwidthError(f"monotone must be True or False, got {monotone!r}")
     for k in options:
@@ -238,30 +238,38 @@ def _run_engine(G: Any, first: Any, last: Any, kw: dict, deadline: float | None,
     process that may not start children (for instance inside another
     time-limited child) the engine runs without that option.
     """
-    from ..ordering import cutwidth
+    from ...problems.ordering import OrderingProblem
+    from ..ordering import solve_problem as solve_ordering
+
+    Q = OrderingProblem.from_graph(G, weight=kw["weight"], first=[first], last=[last])
+    options: dict[str, Any] = {}
+
+    def run(dl: Deadline) -> Result:
+        return solve_ordering(Q, method=kw["method"], deadline=dl, seed=kw["seed"], options=options, weight_label=kw["weight"])
 
     if deadline is None:
-        return cutwidth(G, first=[first], last=[last], **kw)
-    left = _left(deadline)
+        return run(Deadline.at_time(None))
+    outer = Deadline.at_time(deadline)
+    left = outer.remaining()
     if left <= 0.1:
         info["cutwidth"] = "skipped: no time left"
         return None
-    kw = dict(kw, time_limit=max(0.05, 0.85 * left - 0.05))  # room for stages that overrun a little
+    sub = outer.within(max(0.05, 0.85 * left - 0.1))  # room for stages that overrun a little
     import multiprocessing
 
     if kw.get("method", "auto") in ("auto", "sat") and not multiprocessing.current_process().daemon:
         # (a daemonic process, e.g. another time-limited child, may not start children)
-        kw["sat_options"] = {"hard_deadline": True}
+        options["sat_options"] = {"hard_deadline": True}
     try:
-        return cutwidth(G, first=[first], last=[last], **kw)
+        return run(sub)
     except (AssertionError, OSError, RuntimeError) as err:
         # e.g. "daemonic processes are not allowed to have children"
         info["cutwidth_child"] = f"{type(err).__name__}: {err}; ran without a child process instead"
-        kw.pop("sat_options", None)
-        left = _left(deadline)
+        options.pop("sat_options", None)
+        left = outer.remaining()
         if left <= 0.1:
             return None
-        return cutwidth(G, first=[first], last=[last], **dict(kw, time_limit=max(0.05, left - 0.05)))
+        return run(outer.within(max(0.05, left - 0.1)))
 
 
 def _quick_lower(G: Any, first: Any, last: Any) -> float:
@@ -386,6 +394,7 @@ def homology_width(
     seed: int | None = None,
     monotone: bool = True,
     paths: bool = False,
+    weight: str = "weight",
     **options: Any,
 ) -> Result:
     """The homology sweep width of a plane graph, exact or with proven bounds, with a witness.
@@ -417,6 +426,10 @@ def homology_width(
         walks (or chains) with the same ends, such as two boundary paths
         between the same vertices; only ``start + end`` must be a cycle, and
         the weight of the moving chain is measured as before.
+    weight : {'weight'}
+        How the moving cycle is measured: the edge weights of ``P`` (the one
+        weight keyword of the three public solvers; see
+        :func:`sweepwidth.solve.contract.resolve_weight`).
     **options
         ``dp_limit``, ``max_faces``, ``cutwidth_method`` (see :data:`OPTIONS`).
 
@@ -476,11 +489,41 @@ def homology_width(
     10.0
     """
     t0 = time.monotonic()
-    _validate(method, time_limit, seed, monotone, options)
-    deadline = None if time_limit is None else t0 + float(time_limit) - 0.1
+    dl = Deadline.from_limit(time_limit, start=t0)
+    seed = check_seed(seed)
+    resolve_weight("homology", weight, allowed=("weight",))
+    _validate(method, monotone, options)
     if not isinstance(paths, bool):
         raise SweepwidthError(f"paths must be True or False, got {paths!r}")
     problem = HomologyProblem.build(P, start, end, holes, paths=paths)
+    return solve_problem(problem, method=method, deadline=dl, seed=seed, monotone=monotone, options=options, started=t0)
+
+
+def solve_problem(
+    problem: HomologyProblem,
+    *,
+    method: str = "auto",
+    deadline: Deadline,
+    seed: int | None = None,
+    monotone: bool = True,
+    options: dict | None = None,
+    started: float | None = None,
+) -> Result:
+    """Homology width of a built :class:`~sweepwidth.problems.cycles.HomologyProblem` under a :class:`Deadline`.
+
+    The internal entry point behind :func:`homology_width` (and the homotopy
+    lower bound): arguments are already checked and the deadline is passed
+    down as it is.  Added methods (registered with a function) are called as
+    ``fn(problem, deadline=deadline, seed=seed, monotone=monotone, **options)``
+    and return a mapping (or object) with ``lower``, ``upper``, ``witness``
+    (faces in toggle order) and optionally ``stats``.
+    """
+    t0 = time.monotonic() if started is None else started
+    options = dict(options or {})
+    dl = deadline
+    deadline = dl.at  # type: ignore[assignment]  # the monotonic value for the stages below
+    P = problem.graph
+    entry = get_method("homology", method)
     stats: dict[str, Any] = problem.summary()
     stats["monotone"] = monotone
     stats["seed"] = seed
@@ -489,9 +532,16 @@ def homology_width(
     stats["start_weight"] = w0
     stats["end_weight"] = w1
     if not problem.feasible:
-        stats["reason"] = problem.reason
-        return Result("homology", "infeasible", None, None, None, witness=None, method=method,
-                      seconds=time.monotonic() - t0, stats=stats)
+        return make_result("homology", lower=None, upper=None, witness=None, method=method,
+                           seconds=time.monotonic() - t0, stats=stats, infeasible=problem.reason)
+    if entry.function is not None:
+        fn = entry.load()
+        out = fn(problem, deadline=dl, seed=seed, monotone=monotone, **options)  # type: ignore[misc]
+        get = out.get if isinstance(out, dict) else (lambda k, d=None: getattr(out, k, d))
+        stats.update(get("stats", None) or {})
+        return make_result("homology", lower=max(float(get("lower", 0.0)), w0, w1), upper=get("upper"),
+                           witness=list(get("witness", None) or []), method=entry.name,
+                           seconds=time.monotonic() - t0, stats=stats)
     if not monotone or method == "face-sets":
         lo, up, toggles, st = _non_monotone(problem, deadline, seed, options)
         stats["monotone"] = False
@@ -503,9 +553,8 @@ def homology_width(
         status = "optimal" if _close(lo, up) else "bounded"
         S = _final_set(problem, toggles)
         stats["swept"] = sorted(S)
-        return Result("homology", status, up if status == "optimal" else None, lo if status == "bounded" else up, up,
-                      witness=list(toggles), method=st.get("method", "face-sets"), seconds=time.monotonic() - t0,
-                      stats=stats)
+        return make_result("homology", lower=lo, upper=up, witness=list(toggles), method=st.get("method", "face-sets"),
+                           seconds=time.monotonic() - t0, stats=stats, optimal=status == "optimal")
     outcomes = []
     for idx, S in enumerate(problem.swept):
         sub = deadline
@@ -527,17 +576,8 @@ def homology_width(
     ]
     if method == "auto":
         stats["auto"] = best_auto
-    return Result(
-        "homology",
-        status,
-        upper if status == "optimal" else None,
-        upper if status == "optimal" else lower,
-        upper,
-        witness=list(best.order),
-        method=best.method,
-        seconds=time.monotonic() - t0,
-        stats=stats,
-    )
+    return make_result("homology", lower=lower, upper=upper, witness=list(best.order), method=best.method,
+                       seconds=time.monotonic() - t0, stats=stats, optimal=status == "optimal")
 
 
 def _final_set(problem: HomologyProblem, toggles: list[int]) -> frozenset:
