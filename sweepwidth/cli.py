@@ -205,7 +205,7 @@ def _solver_options(args: argparse.Namespace, parameter: str, obj: Any) -> dict:
         if getattr(args, "monotone", False):
             opts["monotone"] = True
         if getattr(args, "length", None):
-            opts["length"] = args.length
+            opts["weight"] = args.length  # the solvers' one weight keyword
         if getattr(args, "ends", None):
             try:
                 pair = json.loads("[" + args.ends + "]")

@@ -110,7 +110,7 @@ def test_open_paths(P, seed):
     assert r.upper is not None and r.check(P) == r.upper
     ref = _ref(P, r.upper, s=s, t=t)
     assert ref is not None and r.lower <= ref <= r.upper
-    rv = homotopy_height(P, s=s, t=t, method="bounds", length="vertices")
+    rv = homotopy_height(P, s=s, t=t, method="bounds", weight="vertices")
     assert rv.check(P) == rv.upper
     assert rv.lower <= _ref(P, rv.upper, s=s, t=t, length="vertices") <= rv.upper
 
@@ -255,7 +255,7 @@ def test_degenerate_graphs():
     for kw in ({}, {"simple": True}):
         r = homotopy_height(one, **kw)
         assert r.status == "optimal" and r.value == 0 and r.check(one) == 0
-    assert homotopy_height(one, length="vertices").value == 1  # a point visits one vertex (spec)
+    assert homotopy_height(one, weight="vertices").value == 1  # a point visits one vertex (spec)
     edge = PlaneGraph.from_graph(nx.path_graph(2))
     r = homotopy_height(edge)
     assert r.value == 2 and r.check(edge) == 2  # the boundary walk u-v-u, then one unspike

@@ -92,9 +92,10 @@ import time
 from collections import deque
 from typing import Any, Callable, Iterable, Sequence
 
-from ...errors import SweepwidthError, UnsupportedOptionError
+from ...errors import SweepwidthError
 from ...problems.homotopy import Curve, HomotopyProblem, apply_move
 from ...result import Result
+from ..contract import Deadline, builtin_names, check_seed, get_method, make_result, methods, resolve_weight
 from .free_group import homotopy_classes_equal
 
 __all__ = [
@@ -105,8 +106,9 @@ __all__ = [
     "METHODS",
 ]
 
-#: method names of :func:`homotopy_height` (the functions are in ``_METHODS``)
-METHODS = ("auto", "bounds", "search")
+#: built-in method names of :func:`homotopy_height` (from the method registry,
+#: :mod:`sweepwidth.solve.contract`; the functions are in ``_METHODS``)
+METHODS = tuple(sorted(builtin_names("homotopy"), key=list(methods("homotopy")).index))
 
 #: without a time limit, 'auto' runs the exact search after the bounds only up to
 #: this many sweepable faces (with a limit it always uses the time left)
@@ -1057,27 +1059,11 @@ def _z2(darts: Sequence[int]) -> set[int]:
     return out
 
 
-def _portable(P: Any) -> tuple:
-    """The plane graph as plain data (rebuilt by :func:`_rebuild` in a child process)."""
-    m = P.number_of_edges()
-    labels = P.vertices
-    ends = [(P.index(u), P.index(v)) for _, u, v, _ in P.edges]
-    weights = [P.weight(e) for e in range(m)]
-    nxt = [P.next_dart(d) for d in range(2 * m)]
-    return labels, ends, weights, nxt, P.outer_face
+def _homology_child(problem: Any, monotone: bool, limit: float, *, progress: Callable) -> Result:
+    """In a child process: the homology bound of a built problem (it crossed pickled, once)."""
+    from ..homology import solve_problem
 
-
-def _rebuild(data: tuple) -> Any:
-    from ...plane import PlaneGraph
-
-    labels, ends, weights, nxt, outer = data
-    return PlaneGraph(labels, ends, weights, nxt, outer=outer)
-
-
-def _homology_child(data: tuple, kw: dict, *, progress: Callable) -> Result:
-    from ..homology import homology_width
-
-    return homology_width(_rebuild(data), **kw)
+    return solve_problem(problem, deadline=Deadline.from_limit(limit), monotone=monotone)
 
 
 def _homology_lower(
@@ -1093,11 +1079,9 @@ def _homology_lower(
     if not H.closed:
         info["homology"] = "not used: the homology sweep is defined for cycles, these are paths"
         return None, info, None
-    try:
-        from ..homology import homology_width
-    except ImportError as err:  # pragma: no cover - the homology solver ships with the package
-        info["homology"] = f"not available ({err})"
-        return None, info, None
+    from ...problems.cycles import HomologyProblem
+    from ..homology import solve_problem as solve_homology
+
     P = H.graph
     if H.length == "vertices":
         P = P.with_weights([1.0] * P.number_of_edges())
@@ -1110,16 +1094,16 @@ def _homology_lower(
     # (A monotone homotopy flips each face at most once: its reduction is a face order.)
     disk = H.monotone or ((not z1) and H.holes == frozenset({H.graph.outer_face}) and z0 == set(
         H.graph.face_boundary_cycle(H.graph.outer_face)))
-    kw: dict[str, Any] = {"start": z0, "end": z1, "holes": sorted(H.holes), "time_limit": max(budget * HOMOLOGY_ASK, 0.3),
-          "monotone": disk}
+    limit = max(budget * HOMOLOGY_ASK, 0.3)
     info["homology_monotone"] = disk
     try:
+        problem = HomologyProblem.build(P, z0, z1, sorted(H.holes))
         if hard_deadline is None or len(H.sweepable_faces) <= HOMOLOGY_INPROCESS_FACES:
-            r = homology_width(P, **kw)
+            r = solve_homology(problem, deadline=Deadline.from_limit(limit), monotone=disk)
         else:
             from .._deadline import run_limited
 
-            done, r, _ = run_limited(_homology_child, (_portable(P), kw), deadline=hard_deadline)
+            done, r, _ = run_limited(_homology_child, (problem, disk, limit), deadline=hard_deadline)
             if not done:
                 info["homology"] = "stopped at its time budget without a result"
                 return None, info, None
@@ -1282,15 +1266,6 @@ def homotopy_bounds(
 
 
 # ====================================================================== search
-def _search_child(data: tuple, options: dict, kw: dict, *, progress: Callable) -> Any:
-    from .search import search_homotopy
-
-    opts = dict(options)
-    opts.pop("closed", None)
-    problem = HomotopyProblem.build(_rebuild(data), **opts)
-    return search_homotopy(problem, progress=progress, **kw)
-
-
 def _search_here(problem: HomotopyProblem, kw: dict, *, progress: Callable) -> Any:
     from .search import search_homotopy
 
@@ -1317,8 +1292,8 @@ def _run_search(H: HomotopyProblem, deadline: float | None, upper: float | None,
         done, value, reports = run_limited(_search_here, (H, kw), deadline=None)
         return value, "finished" if deadline is None else "ran in this process under its own deadline"
     try:
-        args = (_portable(H.graph), H.options(), kw)
-        done, value, reports = run_limited(_search_child, args, deadline=deadline + 0.4)
+        # the problem crosses to the child once, pickled as it is (no graph rebuilt there)
+        done, value, reports = run_limited(_search_here, (H, kw), deadline=deadline + 0.4)
     except (RuntimeError, OSError, TypeError, AttributeError, pickle.PicklingError) as err:
         if isinstance(err, SweepwidthError):
             raise
@@ -1333,17 +1308,10 @@ def _run_search(H: HomotopyProblem, deadline: float | None, upper: float | None,
 
 
 # ====================================================================== dispatcher
-def _validate(P: Any, method: str, time_limit: Any, seed: Any) -> None:
+def _validate(P: Any, method: str) -> None:
     if not hasattr(P, "face_darts") or not hasattr(P, "outer_face"):
         raise SweepwidthError(f"homotopy_height needs a PlaneGraph, got {type(P).__name__}")
-    if method not in METHODS:
-        raise UnsupportedOptionError("method", method, list(METHODS))
-    if time_limit is not None:
-        if isinstance(time_limit, bool) or not isinstance(time_limit, (int, float)) or not time_limit > 0 \
-                or math.isnan(time_limit):
-            raise SweepwidthError(f"time_limit must be a positive number of seconds or None, got {time_limit!r}")
-    if seed is not None and (isinstance(seed, bool) or not isinstance(seed, int)):
-        raise SweepwidthError(f"seed must be an integer or None, got {seed!r}")
+    get_method("homotopy", method)
 
 
 def _summary(H: HomotopyProblem) -> dict:
@@ -1443,12 +1411,27 @@ def _method_auto(st: _State) -> None:
     st.stats["auto"] = f"exact search: {note}"
 
 
-#: the methods of :func:`homotopy_height`, by name
+def _method_added(st: _State, fn: Callable[..., Any], name: str) -> None:
+    """A registered method: ``fn(problem, deadline=Deadline, seed=seed)`` returns a mapping or object
+    with ``lower``, ``upper``, ``witness`` (``{"start": walk, "moves": [...]}``) and optionally ``stats``."""
+    out = fn(st.H, deadline=Deadline.at_time(st.deadline), seed=st.seed)
+    get = out.get if isinstance(out, dict) else (lambda k, d=None: getattr(out, k, d))
+    if get("lower", None) is not None:
+        st.lower = max(st.lower, float(get("lower")))
+    if get("upper", None) is not None:
+        st.upper, st.witness = float(get("upper")), get("witness", None)
+    st.stats[name] = get("stats", None) or {}
+    st.bounds = {"lower": f"method {name!r}", "upper": f"method {name!r}"}
+    st.used = name
+
+
+#: the built-in methods of :func:`homotopy_height`, by name
 _METHODS: dict[str, Callable[[_State], None]] = {
     "auto": _method_auto,
     "bounds": _method_bounds,
     "search": _method_search,
 }
+assert set(_METHODS) == builtin_names("homotopy"), "registry and dispatcher disagree"
 
 
 def homotopy_height(
@@ -1459,13 +1442,14 @@ def homotopy_height(
     spikes: bool = True,
     simple: bool = False,
     monotone: bool = False,
-    length: str = "weight",
+    weight: str = "weight",
     holes: Any = None,
     s: Any = None,
     t: Any = None,
     method: str = "auto",
     time_limit: float | None = None,
     seed: int | None = None,
+    length: str | None = None,
 ) -> Result:
     """The discrete homotopy height of a plane graph, exact or with proven bounds, with a witness.
 
@@ -1487,8 +1471,12 @@ def homotopy_height(
         Every walk but a final point must be a simple cycle (path).
     monotone : bool
         Each face flipped at most once.
-    length : {'weight', 'vertices'}
-        Edge weights, or vertices visited (graph-drawing convention).
+    weight : {'weight', 'vertices'}
+        How a walk is measured: the edge weights, or the vertices it visits
+        (graph-drawing convention).  The same keyword as in
+        :func:`~sweepwidth.solve.cutwidth` and :func:`~sweepwidth.solve.homology_width`.
+    length : {'weight', 'vertices'}, optional
+        Deprecated spelling of ``weight`` (warns with :class:`DeprecationWarning`).
     holes : collection of face ids, optional
         Faces never flipped; default ``{P.outer_face}``.
     s, t : vertex labels, optional
@@ -1532,29 +1520,45 @@ def homotopy_height(
     (True, True)
     """
     t0 = time.monotonic()
-    _validate(P, method, time_limit, seed)
+    dl = Deadline.from_limit(time_limit, start=t0)
+    seed = check_seed(seed)
+    extra = {} if length is None else {"length": length}
+    weight = resolve_weight("homotopy", weight, allowed=("weight", "vertices"), **extra)
+    _validate(P, method)
     H = HomotopyProblem.build(P, start=start, end=end, spikes=spikes, simple=simple, monotone=monotone,
-                              length=length, holes=holes, s=s, t=t)
-    deadline = None if time_limit is None else t0 + float(time_limit)
+                              length=weight, holes=holes, s=s, t=t)
+    return solve_problem(H, method=method, deadline=dl, seed=seed, started=t0)
+
+
+def solve_problem(H: HomotopyProblem, *, method: str = "auto", deadline: Deadline, seed: int | None = None,
+                  started: float | None = None) -> Result:
+    """Homotopy height of a built :class:`~sweepwidth.problems.homotopy.HomotopyProblem` under a :class:`Deadline`.
+
+    The internal entry point behind :func:`homotopy_height`: arguments are
+    already checked and the deadline is passed down as it is.
+    """
+    t0 = time.monotonic() if started is None else started
+    entry = get_method("homotopy", method)
     stats: dict = {"options": H.options(), **_summary(H), "seed": seed}
     ok, reason = homotopy_classes_equal(H)
     if not ok:
-        stats["reason"] = reason
-        return Result("homotopy", "infeasible", None, None, None, None, method=method,
-                      seconds=time.monotonic() - t0, stats=stats)
+        return make_result("homotopy", lower=None, upper=None, witness=None, method=method,
+                           seconds=time.monotonic() - t0, stats=stats, infeasible=reason)
     stats["feasibility"] = reason
-    st = _State(H, t0, deadline, seed, stats)
-    _METHODS[method](st)
+    st = _State(H, t0, deadline.at, seed, stats)
+    if entry.function is not None:
+        _method_added(st, entry.load(), entry.name)  # type: ignore[arg-type]
+    else:
+        _METHODS[method](st)
     lower, upper, witness, bounds, used = st.lower, st.upper, st.witness, st.bounds, st.used
     infeasible_reason = st.infeasible_reason
     stats["bounds"] = bounds
     seconds = time.monotonic() - t0
     if infeasible_reason is not None and upper is None:
-        stats["reason"] = infeasible_reason
-        return Result("homotopy", "infeasible", None, None, None, None, method=used, seconds=seconds, stats=stats)
+        return make_result("homotopy", lower=None, upper=None, witness=None, method=used, seconds=seconds,
+                           stats=stats, infeasible=infeasible_reason)
     if upper is not None and lower > upper + _EPS:  # pragma: no cover - would be a bug in a bound
         stats["warning"] = f"lower bound {lower:g} above the witness height {upper:g}: lowered to it"
         lower = upper
-    if upper is not None and upper - lower <= _EPS:
-        return Result("homotopy", "optimal", upper, upper, upper, witness, method=used, seconds=seconds, stats=stats)
-    return Result("homotopy", "bounded", None, lower, upper, witness, method=used, seconds=seconds, stats=stats)
+    return make_result("homotopy", lower=lower, upper=upper, witness=witness, method=used, seconds=seconds, stats=stats,
+                       optimal=upper is not None and upper - lower <= _EPS)
