@@ -44,9 +44,13 @@ import sys
 import time
 from typing import Any, Callable, Sequence
 
+from .registry import PARAMETERS, methods
+
+#: the parameters, from the registry (sweepwidth.solve.contract)
+PARAMS = tuple(PARAMETERS)
+
 __all__ = ["main", "build_parser", "SAVED_FORMAT"]
 
-PARAMS = ("cutwidth", "homology", "homotopy")
 SAVED_FORMAT = "sweepwidth-saved-result"
 EXIT_FAIL = 1
 EXIT_USAGE = 2
@@ -272,7 +276,7 @@ def cmd_solve(args: argparse.Namespace, out: Callable[[str], None]) -> int:
         obj = _load(path)
         h = instance_hash(path, obj=None if path.lower().endswith(".json") else obj)
         for p in params:
-            if p != "cutwidth" and not is_plane(obj):
+            if PARAMETERS[p].problem == "plane" and not is_plane(obj):
                 raise CliError(f"{path}: {p} needs a plane graph, but the file holds a graph without an embedding")
             opts = _solver_options(args, p, obj)
             res = solve_object(obj, p, method=args.method, time_limit=args.time_limit, seed=args.seed, options=opts)
@@ -673,6 +677,16 @@ def _add_solver_options(p: argparse.ArgumentParser, *, per_instance: bool = True
     g.add_argument("--length", choices=["weight", "vertices"], help="homotopy: how curves are measured (default weight)")
 
 
+def _param_list() -> str:
+    names = list(PARAMETERS)
+    return ", ".join(names[:-1]) + " or " + names[-1] if len(names) > 1 else names[0]
+
+
+def _method_list() -> str:
+    """The registered methods per parameter, for ``--help`` (read when the parser is built)."""
+    return "; ".join(f"{p}: {', '.join(methods(p))}" for p in PARAMETERS)
+
+
 def build_parser() -> argparse.ArgumentParser:
     """The argument parser of the ``sweepwidth`` command, one subparser per verb.
 
@@ -706,8 +720,8 @@ def build_parser() -> argparse.ArgumentParser:
 
     s = verb("solve", "solve one or more instance files", "sweepwidth solve wheel.json --param homology,homotopy --time-limit 20 --save results/")
     s.add_argument("files", nargs="+", metavar="FILE")
-    s.add_argument("--param", action="append", metavar="P", help="cutwidth, homology or homotopy (repeat or comma list; default cutwidth)")
-    s.add_argument("--method", default="auto", help="solver method (default auto; the solver lists the valid ones)")
+    s.add_argument("--param", action="append", metavar="P", help=f"{_param_list()} (repeat or comma list; default cutwidth)")
+    s.add_argument("--method", default="auto", help="solver method (default auto): " + _method_list())
     s.add_argument("--time-limit", **common_limit, help="seconds per solve (bounded answer when it runs out)")
     s.add_argument("--seed", type=int, help="seed for randomised heuristics")
     s.add_argument("--json", action="store_true", help="one JSON object a line instead of a table")
@@ -723,7 +737,7 @@ def build_parser() -> argparse.ArgumentParser:
     )
     b.add_argument("paths", nargs="+", metavar="PATH", help="instance files, folders, or manifest.json files")
     b.add_argument("--param", action="append", metavar="P", help="parameters (repeat or comma list; default cutwidth)")
-    b.add_argument("--method", action="append", metavar="M", help="methods to compare (repeat or comma list; default auto)")
+    b.add_argument("--method", action="append", metavar="M", help="methods to compare (repeat or comma list; default auto): " + _method_list())
     b.add_argument("--time-limit", **common_limit, help="seconds per task (required)")
     b.add_argument("--memory", type=int, default=3072, metavar="MIB", help="address-space limit per task (default 3072; 0 for none)")
     b.add_argument("--grace", type=float, default=5.0, metavar="SECONDS", help="extra seconds before a task's process is killed (default 5)")
@@ -741,7 +755,7 @@ def build_parser() -> argparse.ArgumentParser:
     c.add_argument("results", nargs="+", metavar="RESULT.json")
     c.add_argument("--instance", metavar="FILE", help="the instance file (default: the path saved in the result)")
     c.add_argument("--recompute", action="store_true", help="also solve again and compare the bounds")
-    c.add_argument("--method", default="auto", help="method for --recompute (default auto)")
+    c.add_argument("--method", default="auto", help="method for --recompute (default auto): " + _method_list())
     c.add_argument("--time-limit", **common_limit, help="seconds for --recompute")
 
     d = verb("dual", "write or describe the dual of a plane graph", "sweepwidth dual instances/platonic/cube.json -o octahedron.json")

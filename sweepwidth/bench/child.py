@@ -45,6 +45,8 @@ import time
 import traceback
 from typing import Any, Callable, Mapping
 
+from ..registry import PARAMETERS
+
 __all__ = ["execute_task", "cancel_all", "reset_cancel", "quick_bounds", "OUTCOME_STATUSES"]
 
 OUTCOME_STATUSES = ("optimal", "bounded", "infeasible", "timeout", "memory", "error")
@@ -58,12 +60,9 @@ _PRELOAD = [
     "pysat.solvers",
     "sweepwidth.plane",
     "sweepwidth.io",
-    "sweepwidth.solve.ordering",
-    "sweepwidth.solve.homology",
-    "sweepwidth.solve.homotopy",
-    "sweepwidth.verify.ordering",
-    "sweepwidth.verify.homology",
-    "sweepwidth.verify.homotopy",
+    # every parameter's solver room and checker, from the registry (sweepwidth.solve.contract)
+    *(p.module for p in PARAMETERS.values()),
+    *(p.checker for p in PARAMETERS.values()),
     "sweepwidth.bench.child",
     "sweepwidth.bench._warm",
 ]
@@ -204,7 +203,7 @@ def quick_bounds(obj: Any, parameter: str, options: Mapping[str, Any]) -> dict |
     if parameter in ("homology", "homotopy") and is_plane_like(obj):
         if any(options.get(k) is not None for k in ("start", "end", "holes", "s", "t")):
             return None
-        if parameter == "homotopy" and options.get("length", "weight") != "weight":
+        if parameter == "homotopy" and options.get("weight", options.get("length", "weight")) != "weight":
             return None
         start = sum(obj.weight(e) for e in obj.face_boundary_cycle(obj.outer_face))
         return {"lower": start, "upper": None, "witness": None, "how": {"lower": "weight of the start cycle"}}

@@ -13,6 +13,7 @@ import os
 from typing import Any, Callable, Mapping
 
 from ..errors import SweepwidthError, UnsupportedOptionError
+from .. import registry
 
 __all__ = [
     "PARAMETERS",
@@ -24,17 +25,11 @@ __all__ = [
     "solver_for",
 ]
 
-#: The parameters the library computes.
-PARAMETERS = ("cutwidth", "homology", "homotopy")
+#: The parameters the library computes (read from :data:`sweepwidth.registry.PARAMETERS`).
+PARAMETERS = tuple(registry.PARAMETERS)
 
-#: Options each parameter's solver accepts besides method, time_limit and seed.
-OPTIONS: dict[str, tuple[str, ...]] = {
-    "cutwidth": ("first", "last", "weight", "solver"),
-    "homology": ("start", "end", "holes", "monotone"),
-    "homotopy": ("start", "end", "spikes", "simple", "monotone", "length", "holes", "s", "t"),
-}
-
-_ENTRY = {"cutwidth": "cutwidth", "homology": "homology_width", "homotopy": "homotopy_height"}
+#: Options each parameter's solver accepts besides method, time_limit and seed (from the same registry).
+OPTIONS: dict[str, tuple[str, ...]] = {name: p.options for name, p in registry.PARAMETERS.items()}
 
 
 def load_instance(path: str | os.PathLike) -> Any:
@@ -44,18 +39,14 @@ def load_instance(path: str | os.PathLike) -> Any:
     ------
     FileFormatError
         If the file is missing or malformed (raised by the reader).
-    SweepwidthError
-        If this installation has no file reader.
     """
     p = os.fspath(path)
     if not os.path.exists(p):
         from ..errors import FileFormatError
 
         raise FileFormatError("no such file", path=p)
-    try:
-        from ..io import read
-    except ImportError as err:
-        raise SweepwidthError("reading instance files needs sweepwidth.io, which this installation lacks") from err
+    from ..io import read
+
     return read(p)
 
 
@@ -71,23 +62,12 @@ def solver_for(parameter: str) -> Callable[..., Any]:
     ------
     UnsupportedOptionError
         For an unknown parameter.
-    SweepwidthError
-        If the solver module is not part of this installation yet.
     """
-    if parameter not in _ENTRY:
-        raise UnsupportedOptionError("parameter", parameter, PARAMETERS)
-    import importlib
-
-    name = _ENTRY[parameter]
-    try:
-        # through the facade: module names need not match the entry points
-        return getattr(importlib.import_module("sweepwidth.solve"), name)
-    except ImportError as err:
-        raise SweepwidthError(f"the {parameter} solver (sweepwidth.solve.{name}) is not available in this installation") from err
+    return registry.parameter(parameter).solver()
 
 
 def _graph_for(parameter: str, obj: Any) -> Any:
-    if parameter == "cutwidth":
+    if registry.parameter(parameter).problem == "graph":
         if is_plane(obj):
             return obj.to_networkx()
         return obj
@@ -156,15 +136,14 @@ def solve_object(
     SweepwidthError
         When the instance does not suit the parameter, or the solver refuses it.
     """
-    if parameter not in OPTIONS:
-        raise UnsupportedOptionError("parameter", parameter, PARAMETERS)
+    allowed = registry.parameter(parameter).options
     opts = dict(options or {})
     for key in opts:
-        if key not in OPTIONS[parameter]:
-            raise UnsupportedOptionError(f"{parameter} option", key, OPTIONS[parameter])
+        if key not in allowed:
+            raise UnsupportedOptionError(f"{parameter} option", key, allowed)
     fn = solver_for(parameter)
     G = _graph_for(parameter, obj)
-    if parameter != "cutwidth":
+    if registry.parameter(parameter).problem == "plane":
         opts = _with_file_curves(parameter, G, opts)
     kwargs: dict[str, Any] = dict(opts)
     kwargs.update(method=method, time_limit=time_limit, seed=seed)

@@ -16,6 +16,7 @@ from typing import Any, Iterable, Mapping, Sequence
 
 from ..errors import FileFormatError, SweepwidthError, UnsupportedOptionError
 from .hashing import config_hash, instance_hash
+from .. import registry
 from .loading import OPTIONS, PARAMETERS
 
 __all__ = [
@@ -310,11 +311,15 @@ def make_tasks(
     Raises
     ------
     UnsupportedOptionError
-        For an unknown parameter or an option the parameter does not take.
+        For an unknown parameter, an option the parameter does not take, or
+        (without ``solver``) a method not in the registry of
+        :mod:`sweepwidth.solve.contract`.
     """
     for p in parameters:
-        if p not in PARAMETERS:
-            raise UnsupportedOptionError("parameter", p, PARAMETERS)
+        registry.parameter(p)  # UnsupportedOptionError listing the parameters
+        if solver is None:
+            for m in methods:
+                registry.get_method(p, m)  # UnsupportedOptionError listing the registered methods
     opts = dict(options or {})
     if not parameters:
         raise SweepwidthError("a benchmark run needs at least one parameter")
@@ -322,7 +327,7 @@ def make_tasks(
     for e in entries:
         h = instance_hash(e.path)
         for p in parameters:
-            if p != "cutwidth" and e.kind == "graph":
+            if registry.parameter(p).problem == "plane" and e.kind == "graph":
                 continue
             mine = {k: v for k, v in opts.items() if k in OPTIONS[p]}
             merged = dict((e.options or {}).get(p, {}))

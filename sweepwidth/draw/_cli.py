@@ -10,13 +10,14 @@ import networkx as nx
 
 from ..errors import FileFormatError, SweepwidthError, UnsupportedOptionError
 from ..plane import PlaneGraph
+from ..registry import PARAMETERS
 
 __all__ = ["render_cli", "load_result", "QUICK_LIMIT"]
 
 #: seconds given to the solver when no saved result is passed
 QUICK_LIMIT = 10.0
 
-_PARAMS = ("cutwidth", "homology", "homotopy")
+_PARAMS = tuple(PARAMETERS)
 _EXTS = (".png", ".svg", ".gif")
 
 
@@ -50,20 +51,14 @@ def load_result(path: str | os.PathLike) -> Any:
 
 
 def _solve(obj: Any, param: str, dual: bool) -> Any:
-    if param == "cutwidth":
-        from ..solve.ordering import cutwidth
-
+    entry = PARAMETERS[param]
+    solve = entry.solver()
+    if entry.problem == "graph":
         target = obj.dual() if (dual and isinstance(obj, PlaneGraph)) else obj
-        return cutwidth(target, time_limit=QUICK_LIMIT)
+        return solve(target, time_limit=QUICK_LIMIT)
     if not isinstance(obj, PlaneGraph):
         raise SweepwidthError(f"{param} needs a plane graph; the file holds a graph without an embedding")
-    if param == "homology":
-        from ..solve.homology import homology_width
-
-        return homology_width(obj, time_limit=QUICK_LIMIT)
-    from ..solve.homotopy import homotopy_height
-
-    return homotopy_height(obj, time_limit=QUICK_LIMIT)
+    return solve(obj, time_limit=QUICK_LIMIT)
 
 
 def render_cli(

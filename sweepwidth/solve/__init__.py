@@ -12,11 +12,10 @@ from __future__ import annotations
 import importlib
 from typing import Any
 
-_PUBLIC = {
-    "cutwidth": "sweepwidth.solve.ordering",
-    "homology_width": "sweepwidth.solve.homology",
-    "homotopy_height": "sweepwidth.solve.homotopy",
-}
+from ..registry import PARAMETERS
+
+# public function -> the room that defines it (from the parameter registry)
+_PUBLIC = {p.function_name: p.module for p in PARAMETERS.values()}
 
 __all__ = sorted(_PUBLIC)
 

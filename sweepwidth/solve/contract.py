@@ -4,19 +4,10 @@ Every public solver (:func:`~sweepwidth.solve.cutwidth`,
 :func:`~sweepwidth.solve.homology_width`,
 :func:`~sweepwidth.solve.homotopy_height`) goes through this module:
 
-* :data:`PARAMETERS` -- one :class:`Parameter` per computed parameter: its
-  public function, its checker module, the kind of input it takes and the
-  options the command line and the benchmark runner may pass.  The
-  dispatcher facade (:mod:`sweepwidth.solve`), the command line, the
-  benchmark runner and its child processes, the checkers and the drawing
-  command all read this table; adding a parameter is one entry here plus
-  its room under ``sweepwidth/solve/``.
-* :func:`methods` -- one :class:`Method` per solving method of a parameter
-  (name, function, accepted options, what it guarantees, a one-line doc).
-  The dispatchers validate method names and options against it, the command
-  line lists it in ``--help``, the benchmark runner checks task methods
-  against it.  Adding a method is one file plus one :func:`register_method`
-  call (or one entry in ``_BUILTIN_METHODS``).
+* the parameter and method registries of :mod:`sweepwidth.registry`
+  (:data:`PARAMETERS`, :func:`methods`, :func:`register_method`), re-exported
+  here for the solver side; they live one layer down so that the checkers
+  and the command line read them without importing any solver.
 * :class:`Deadline` -- made once from ``time_limit`` by the public function
   (one validation rule, one safety margin :data:`MARGIN`) and passed down;
   internal calls never turn it back into a ``time_limit``.
@@ -39,15 +30,26 @@ This module imports no solver, so every room may import it without a cycle.
 from __future__ import annotations
 
 import decimal
-import importlib
 import math
 import numbers
 import time
 import warnings
-from dataclasses import dataclass, field
-from typing import Any, Callable, Iterable, Mapping
+from typing import Any, Iterable
 
 from ..errors import InvalidArgumentError, UnsupportedOptionError
+from ..registry import (
+    PARAMETERS,
+    Method,
+    Parameter,
+    builtin_names,
+    check_options,
+    get_method,
+    method_names,
+    methods,
+    parameter,
+    register_method,
+    unregister_method,
+)
 from ..result import Result
 
 __all__ = [
@@ -65,6 +67,7 @@ __all__ = [
     "get_method",
     "register_method",
     "unregister_method",
+    "builtin_names",
     "check_options",
     "make_result",
     "use_fork_children",
@@ -216,187 +219,6 @@ def resolve_weight(parameter: str, weight: Any, *, length: Any = _UNSET, allowed
         if weight not in valid:
             raise UnsupportedOptionError(f"{parameter} weight", weight, valid)
     return weight
-
-
-# ------------------------------------------------------------------ parameters
-@dataclass(frozen=True)
-class Parameter:
-    """One computed parameter: where its solver, checker and options are.
-
-    Attributes
-    ----------
-    name : str
-        The value of ``Result.parameter`` (and of ``--param``).
-    title : str
-        Its name in prose.
-    function : str
-        ``"module:attribute"`` of the public solver function.
-    checker : str
-        Module that registers the independent checker (:mod:`sweepwidth.verify`).
-    problem : {'graph', 'plane'}
-        Any graph (a plane graph is read as its graph), or a plane graph.
-    options : tuple of str
-        Keyword options the command line and the benchmark runner may pass
-        (besides ``method``, ``time_limit`` and ``seed``).
-    """
-
-    name: str
-    title: str
-    function: str
-    checker: str
-    problem: str
-    options: tuple[str, ...] = ()
-
-    @property
-    def module(self) -> str:
-        return self.function.partition(":")[0]
-
-    @property
-    def function_name(self) -> str:
-        return self.function.partition(":")[2]
-
-    def solver(self) -> Callable[..., Result]:
-        """The public solver function (imported on first use)."""
-        return getattr(importlib.import_module(self.module), self.function_name)
-
-
-#: every parameter the library computes, by ``Result.parameter`` name
-PARAMETERS: dict[str, Parameter] = {
-    p.name: p
-    for p in (
-        Parameter("cutwidth", "cutwidth", "sweepwidth.solve.ordering:cutwidth", "sweepwidth.verify.ordering", "graph",
-                  ("first", "last", "weight", "solver")),
-        Parameter("homology", "homology sweep width", "sweepwidth.solve.homology:homology_width",
-                  "sweepwidth.verify.homology", "plane", ("start", "end", "holes", "monotone")),
-        Parameter("homotopy", "homotopy height", "sweepwidth.solve.homotopy:homotopy_height",
-                  "sweepwidth.verify.homotopy", "plane",
-                  ("start", "end", "spikes", "simple", "monotone", "weight", "length", "holes", "s", "t")),
-    )
-}
-
-
-def parameter(name: str) -> Parameter:
-    """The :class:`Parameter` called ``name``; UnsupportedOptionError lists the valid ones."""
-    try:
-        return PARAMETERS[name]
-    except (KeyError, TypeError):
-        raise UnsupportedOptionError("parameter", name, list(PARAMETERS)) from None
-
-
-# ------------------------------------------------------------------ methods
-@dataclass(frozen=True)
-class Method:
-    """One solving method of a parameter.
-
-    Attributes
-    ----------
-    parameter : str
-        Name in :data:`PARAMETERS`.
-    name : str
-        The ``method=`` value.
-    guarantee : {'exact', 'bounds', 'auto'}
-        'exact': proves the optimum when it finishes; 'bounds': proven bounds
-        and a witness, optimal only when they meet; 'auto': chooses among the
-        others (``result.stats['auto']`` says which and why).
-    doc : str
-        One line for ``--help`` and the docs.
-    options : tuple of str
-        Keyword options it accepts besides the parameter's own.
-    function : str, callable or None
-        None for the methods built into the dispatcher of the parameter (it
-        checks at import that it has one for every such entry); otherwise the
-        method itself, or ``"module:attribute"`` naming it, called as the
-        parameter's dispatcher documents for added methods.
-    """
-
-    parameter: str
-    name: str
-    guarantee: str
-    doc: str
-    options: tuple[str, ...] = ()
-    function: str | Callable[..., Any] | None = field(default=None, compare=False)
-
-    def load(self) -> Callable[..., Any] | None:
-        """The method function (None for a built-in one)."""
-        if self.function is None or callable(self.function):
-            return self.function
-        module, _, attr = self.function.partition(":")
-        return getattr(importlib.import_module(module), attr)
-
-
-_CW_AUTO = ("max_memory", "solver", "max_states", "improve", "dp_limit", "sat_options")
-_HOM_OPTIONS = ("dp_limit", "max_faces", "cutwidth_method")
-
-_BUILTIN_METHODS: tuple[Method, ...] = (
-    Method("cutwidth", "auto", "auto", "DP when tiny, else bounds, heuristics, then bnb and SAT in the time left", _CW_AUTO),
-    Method("cutwidth", "dp", "exact", "subset dynamic programming, O(2^n n) time and 16 * 2^n bytes", ("max_memory",)),
-    Method("cutwidth", "bnb", "exact", "threshold search over prefix sets, real weights exactly", ("max_states", "improve")),
-    Method("cutwidth", "sat", "exact", "incremental SAT on integral (or scaled rational) weights", ("solver", "improve", "sat_options")),
-    Method("cutwidth", "tree", "exact", "forests: recursive three-branch bound, then the prefix-set search", ("max_states",)),
-    Method("cutwidth", "heuristic", "bounds", "constructions and local search with the lower bounds", ("improve", "effort")),
-    Method("homology", "auto", "auto", "subset DP for small sweeps, else the pinned cutwidth of the dual", _HOM_OPTIONS),
-    Method("homology", "cutwidth", "exact", "nested sweeps as pinned cutwidth of the dual (a relaxation when crossing)", _HOM_OPTIONS),
-    Method("homology", "subset-dp", "exact", "dynamic programming over swept face sets", _HOM_OPTIONS),
-    Method("homology", "face-sets", "exact", "bottleneck search over toggle states (non-monotone sweeps)", _HOM_OPTIONS),
-    Method("homotopy", "auto", "auto", "bounds, then the exact search in the time left (small instances)"),
-    Method("homotopy", "bounds", "bounds", "constructed homotopies over face orders and the homology lower bound"),
-    Method("homotopy", "search", "exact", "best-first search over walk states"),
-)
-
-_REGISTRY: dict[str, dict[str, Method]] = {p: {} for p in PARAMETERS}
-for _m in _BUILTIN_METHODS:
-    _REGISTRY[_m.parameter][_m.name] = _m
-del _m
-
-
-def methods(parameter_name: str) -> Mapping[str, Method]:
-    """The methods of a parameter in registration order (a read-only view)."""
-    parameter(parameter_name)
-    return dict(_REGISTRY.setdefault(parameter_name, {}))
-
-
-def method_names(parameter_name: str) -> list[str]:
-    return list(methods(parameter_name))
-
-
-def get_method(parameter_name: str, name: Any) -> Method:
-    """The registered method; UnsupportedOptionError lists the valid names."""
-    table = methods(parameter_name)
-    if isinstance(name, str) and name in table:
-        return table[name]
-    raise UnsupportedOptionError(f"{parameter_name} method", name, list(table))
-
-
-def register_method(method: Method) -> Method:
-    """Add (or replace) a method; it appears in the dispatcher, ``--help`` and the benchmark runner."""
-    parameter(method.parameter)
-    if method.guarantee not in ("exact", "bounds", "auto"):
-        raise InvalidArgumentError(f"a method's guarantee is 'exact', 'bounds' or 'auto', got {method.guarantee!r}")
-    if method.function is None and method.name not in {m.name for m in _BUILTIN_METHODS if m.parameter == method.parameter}:
-        raise InvalidArgumentError(f"method {method.name!r} of {method.parameter} needs a function")
-    _REGISTRY.setdefault(method.parameter, {})[method.name] = method
-    return method
-
-
-def unregister_method(parameter_name: str, name: str) -> None:
-    """Remove an added method (built-in ones come back as they were)."""
-    table = _REGISTRY.setdefault(parameter_name, {})
-    table.pop(name, None)
-    for m in _BUILTIN_METHODS:
-        if m.parameter == parameter_name and m.name == name:
-            table[name] = m
-
-
-def builtin_names(parameter_name: str) -> set[str]:
-    """Names of the methods built into the dispatcher of a parameter."""
-    return {m.name for m in _BUILTIN_METHODS if m.parameter == parameter_name}
-
-
-def check_options(method: Method, options: Mapping[str, Any], *, what: str | None = None) -> None:
-    """Refuse options the method does not accept (UnsupportedOptionError lists the accepted ones)."""
-    for k in options:
-        if k not in method.options:
-            raise UnsupportedOptionError(what or f"option for method {method.name!r}", k, list(method.options))
 
 
 # ------------------------------------------------------------------ results

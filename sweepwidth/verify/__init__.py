@@ -9,15 +9,13 @@ from __future__ import annotations
 from typing import Any, Callable
 
 from ..errors import UnsupportedOptionError
+from ..registry import PARAMETERS
 
 __all__ = ["check_result", "register_checker"]
 
 _CHECKERS: dict[str, Callable[..., float]] = {}
-_MODULES = {
-    "cutwidth": "sweepwidth.verify.ordering",
-    "homology": "sweepwidth.verify.homology",
-    "homotopy": "sweepwidth.verify.homotopy",
-}
+#: checker module of each parameter, from the registry :data:`sweepwidth.solve.contract.PARAMETERS`
+_MODULES = {name: p.checker for name, p in PARAMETERS.items()}
 
 
 def register_checker(parameter: str) -> Callable[[Callable[..., float]], Callable[..., float]]:

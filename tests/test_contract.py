@@ -1,0 +1,203 @@
+"""The one solver contract: shared argument rules, the registries, deadlines and results.
+
+Every public solver validates ``time_limit``, ``seed`` and the weight keyword
+through :mod:`sweepwidth.solve.contract`, so the same bad value gets the same
+error and message from each of them; the parameter and method registries of
+:mod:`sweepwidth.registry` are what the command line and the benchmark
+runner list.
+"""
+
+from __future__ import annotations
+
+import io
+import math
+import time
+import warnings
+from contextlib import redirect_stdout
+from decimal import Decimal
+from fractions import Fraction
+
+import networkx as nx
+import numpy as np
+import pytest
+
+import sweepwidth as sw
+from sweepwidth import generators
+from sweepwidth.errors import InvalidArgumentError, SweepwidthError
+from sweepwidth.registry import PARAMETERS, Method, get_method, methods, register_method, unregister_method
+from sweepwidth.solve.contract import MARGIN, Deadline, check_seed, check_time_limit, make_result
+
+
+def _call(name, **kw):
+    # each public solver on a small instance of its kind
+    if name == "cutwidth":
+        return sw.cutwidth(nx.path_graph(4), **kw)
+    if name == "homology":
+        return sw.homology_width(generators.grid(2, 3), **kw)
+    return sw.homotopy_height(generators.wheel(4), **kw)
+
+
+SOLVERS = ["cutwidth", "homology", "homotopy"]
+
+BAD_TIME_LIMITS = [-1, -0.5, math.nan, True, "5", [1], complex(1, 0)]
+BAD_SEEDS = [1.5, "x", True, -1, [0]]
+BAD_WEIGHTS = [3, 1.5, ["weight"], b"weight"]
+
+
+@pytest.mark.parametrize("bad", BAD_TIME_LIMITS, ids=repr)
+@pytest.mark.parametrize("solver", SOLVERS)
+def test_bad_time_limit_same_error_everywhere(solver, bad):
+    with pytest.raises(InvalidArgumentError) as err:
+        _call(solver, time_limit=bad)
+    assert str(err.value) == f"time_limit must be a real number of seconds >= 0 or None, got {bad!r}"
+    assert isinstance(err.value, ValueError) and isinstance(err.value, SweepwidthError)
+
+
+@pytest.mark.parametrize("bad", BAD_SEEDS, ids=repr)
+@pytest.mark.parametrize("solver", SOLVERS)
+def test_bad_seed_same_error_everywhere(solver, bad):
+    with pytest.raises(InvalidArgumentError) as err:
+        _call(solver, seed=bad)
+    assert str(err.value) == f"seed must be a non-negative integer or None, got {bad!r}"
+
+
+@pytest.mark.parametrize("bad", BAD_WEIGHTS, ids=repr)
+@pytest.mark.parametrize("solver", SOLVERS)
+def test_bad_weight_same_error_everywhere(solver, bad):
+    with pytest.raises(InvalidArgumentError) as err:
+        _call(solver, weight=bad)
+    assert str(err.value).startswith("weight must be an edge attribute name")
+    assert str(err.value).endswith(f"got {bad!r}")
+
+
+@pytest.mark.parametrize("good", [Fraction(5), 5, 5.0, np.float64(5.0), np.int64(5), Decimal("5"), math.inf, None],
+                         ids=repr)
+@pytest.mark.parametrize("solver", SOLVERS)
+def test_every_real_time_limit_is_accepted(solver, good):
+    # regression: homotopy_height(P, time_limit=Fraction(5)) was refused while homology_width took it
+    r = _call(solver, time_limit=good)
+    assert r.status == "optimal"
+
+
+@pytest.mark.parametrize("solver", SOLVERS)
+def test_zero_time_limit_returns_valid_bounds(solver):
+    # a zero limit is allowed: the answer is whatever is proven at once, with a witness that replays
+    t = time.monotonic()
+    r = _call(solver, time_limit=0)
+    assert time.monotonic() - t < 5.0
+    assert r.status in ("optimal", "bounded")
+    if r.upper is None:  # nothing constructed yet: a proven lower bound and no witness
+        assert r.status == "bounded" and r.witness is None and r.lower >= 0
+        return
+    assert r.lower <= r.upper
+    P = nx.path_graph(4) if solver == "cutwidth" else (generators.grid(2, 3) if solver == "homology" else generators.wheel(4))
+    assert r.check(P) == pytest.approx(r.upper)
+
+
+@pytest.mark.parametrize("seed", [0, 7, np.int64(3)], ids=repr)
+@pytest.mark.parametrize("solver", SOLVERS)
+def test_good_seeds_accepted(solver, seed):
+    assert _call(solver, seed=seed).status == "optimal"
+
+
+def test_homotopy_length_keyword_still_works_with_a_warning():
+    P = generators.wheel(4)
+    with pytest.warns(DeprecationWarning, match="weight='vertices'"):
+        old = sw.homotopy_height(P, length="vertices")
+    with warnings.catch_warnings():
+        warnings.simplefilter("error")
+        new = sw.homotopy_height(P, weight="vertices")
+    assert old.value == new.value
+    with pytest.raises(InvalidArgumentError), pytest.warns(DeprecationWarning):
+        sw.homotopy_height(P, weight="vertices", length="weight")
+
+
+def test_unknown_weight_names_list_the_valid_ones():
+    with pytest.raises(sw.UnsupportedOptionError, match="'vertices'"):
+        sw.homotopy_height(generators.wheel(4), weight="edges")
+    with pytest.raises(sw.UnsupportedOptionError, match="'weight'"):
+        sw.homology_width(generators.grid(2, 3), weight="cost")
+
+
+# ---------------------------------------------------------------- Deadline and results
+def test_deadline_keeps_one_margin():
+    t0 = time.monotonic()
+    d = Deadline.from_limit(2, start=t0)
+    assert d.at == pytest.approx(t0 + 2 - MARGIN)
+    assert Deadline.from_limit(None).at is None and Deadline.from_limit(math.inf).at is None
+    assert d.within(0.5).at <= time.monotonic() + 0.5
+    assert Deadline.from_limit(None).within(1.0).at is not None
+    assert check_time_limit(Fraction(1, 4)) == 0.25
+    assert check_seed(np.uint8(4)) == 4
+
+
+def test_make_result_status_rules():
+    r = make_result("homotopy", lower=None, upper=None, witness=None, method="x", seconds=0.0, infeasible="why")
+    assert r.status == "infeasible" and r.stats["reason"] == "why"
+    r = make_result("cutwidth", lower=5.0, upper=4.0, witness=[0], method="x", seconds=0.0, optimal=False)
+    assert r.status == "bounded" and r.lower == 4.0  # never above the upper bound
+
+
+# ---------------------------------------------------------------- registries
+def test_parameters_registry_names_every_public_solver():
+    assert set(PARAMETERS) == {"cutwidth", "homology", "homotopy"}
+    for p in PARAMETERS.values():
+        fn = p.solver()
+        assert getattr(sw, p.function_name) is fn
+    assert get_method("cutwidth", "dp").guarantee == "exact"
+
+
+def _dummy_cutwidth(P, *, lower, upper, upper_order, deadline, seed, **options):
+    # an added method: takes the heuristic ordering as it is (so 'bounded' unless the bounds meet)
+    class Out:
+        pass
+
+    out = Out()
+    out.lower, out.upper, out.order, out.stats = lower, upper, list(upper_order), {"dummy": True}
+    return out
+
+
+@pytest.fixture
+def dummy_method():
+    m = register_method(Method("cutwidth", "dummy-probe", "bounds", "a test method that keeps the heuristic order",
+                               function=_dummy_cutwidth))
+    yield m
+    unregister_method("cutwidth", "dummy-probe")
+    assert "dummy-probe" not in methods("cutwidth")
+
+
+def test_added_method_runs_through_the_dispatcher(dummy_method):
+    G = nx.cycle_graph(9)
+    r = sw.cutwidth(G, method="dummy-probe")
+    assert r.method == "dummy-probe"
+    assert r.check(G) == pytest.approx(r.upper)
+    assert r.lower <= 2 <= r.upper  # cw(C_n) = 2 (common practice)
+
+
+def test_added_method_appears_in_cli_help(dummy_method):
+    from sweepwidth.cli import main
+
+    buf = io.StringIO()
+    with redirect_stdout(buf), pytest.raises(SystemExit):
+        main(["solve", "--help"])
+    assert "dummy-probe" in buf.getvalue()
+
+
+def test_added_method_accepted_by_bench_task_creation(dummy_method, tmp_path):
+    from sweepwidth.bench import make_tasks
+    from sweepwidth.bench.tasks import discover
+
+    path = tmp_path / "p4.json"
+    sw.write(generators.grid(2, 3), str(path))
+    entries = discover([str(path)])
+    tasks = make_tasks(entries, ["cutwidth"], ["auto", "dummy-probe"], time_limit=5)
+    assert {t.method for t in tasks} == {"auto", "dummy-probe"}
+    with pytest.raises(sw.UnsupportedOptionError, match="dummy-probe"):
+        make_tasks(entries, ["cutwidth"], ["no-such-method"], time_limit=5)
+
+
+def test_unknown_method_lists_the_registry():
+    with pytest.raises(sw.UnsupportedOptionError) as err:
+        sw.homology_width(generators.grid(2, 3), method="nope")
+    for name in methods("homology"):
+        assert repr(name) in str(err.value)
