@@ -17,17 +17,8 @@ prints; everything shown here is formatted in this module.
 
 Saved results
 -------------
-``solve --save DIR`` and ``solve -o FILE`` write one JSON object per result::
-
-    {"format": "sweepwidth-saved-result", "version": 1,
-     "instance": {"path": "/abs/path/grid.json", "hash": "<content hash>"},
-     "options": {...},                  # the parameter options used
-     "result": {...},                   # Result.to_dict()
-     "sweepwidth": "0.1.0",
-     "digest": "<sha256 of canonical JSON of instance, options, result>",
-     "instance_from_here": "../grid.json"}
-
-``check`` finds the instance (``--instance``, else ``instance_from_here``
+``solve --save DIR`` and ``solve -o FILE`` write one saved result per
+solve, in the format of :mod:`sweepwidth.io.saved`.  ``check`` finds the instance (``--instance``, else ``instance_from_here``
 relative to the result file, else the absolute path), refuses the result
 when the digest does not match (the file was edited), when the instance's
 content hash differs, or when the independent checker's replay of the
@@ -49,9 +40,8 @@ from .registry import PARAMETERS, methods
 #: the parameters, from the registry (sweepwidth.solve.contract)
 PARAMS = tuple(PARAMETERS)
 
-__all__ = ["main", "build_parser", "SAVED_FORMAT"]
+__all__ = ["main", "build_parser"]
 
-SAVED_FORMAT = "sweepwidth-saved-result"
 EXIT_FAIL = 1
 EXIT_USAGE = 2
 
@@ -222,48 +212,20 @@ def _solver_options(args: argparse.Namespace, parameter: str, obj: Any) -> dict:
     return opts
 
 
-def _relative_to(result_file: str, instance: str) -> str | None:
+def _write_saved(doc: dict, target: str, instance: str) -> None:
+    from .io.saved import write_saved
+
     try:
-        return os.path.relpath(os.path.abspath(instance), os.path.dirname(os.path.abspath(result_file)))
-    except ValueError:  # another drive on Windows
-        return None
-
-
-def _saved(path: str, instance_hash: str, result: Any, options: dict) -> dict:
-    from . import __version__
-    from .bench.hashing import digest
-
-    body = {
-        "format": SAVED_FORMAT,
-        "version": 1,
-        "instance": {"path": os.path.abspath(path), "hash": instance_hash},
-        "options": options,
-        "result": result.to_dict(),
-        "sweepwidth": __version__,
-    }
-    body["digest"] = digest({k: body[k] for k in ("instance", "options", "result")})
-    return body
-
-
-def _write_json(obj: Any, path: str) -> None:
-    try:
-        with open(path, "w", encoding="utf-8") as fh:
-            json.dump(obj, fh, indent=1, sort_keys=False)
-            fh.write("\n")
+        write_saved(doc, target, instance)
     except OSError as err:
-        raise CliError(f"{path}: cannot be written: {err.strerror}") from err
-
-
-def _jsonable_options(opts: dict) -> dict:
-    from .result import _jsonable
-
-    return _jsonable(opts)
+        raise CliError(f"{target}: cannot be written: {err.strerror}") from err
 
 
 # -------------------------------------------------------------------- solve
 def cmd_solve(args: argparse.Namespace, out: Callable[[str], None]) -> int:
     from .bench.hashing import instance_hash
     from .bench.loading import check_object, is_plane, solve_object
+    from .io.saved import saved_result
 
     params = _params(args.param)
     if args.output and (len(args.files) > 1 or len(params) > 1):
@@ -290,7 +252,7 @@ def cmd_solve(args: argparse.Namespace, out: Callable[[str], None]) -> int:
                 except WitnessError as err:
                     failures += 1
                     note = f"witness refused: {err}"
-            saved = _saved(path, h, res, _jsonable_options(opts))
+            saved = saved_result(path, h, res, opts)
             targets = []
             if args.save:
                 stem = os.path.splitext(os.path.basename(path))[0]
@@ -298,8 +260,7 @@ def cmd_solve(args: argparse.Namespace, out: Callable[[str], None]) -> int:
             if args.output:
                 targets.append(args.output)
             for target in targets:
-                # where the instance is seen from the result file (kept out of the digest, so moving both keeps it valid)
-                _write_json({**saved, "instance_from_here": _relative_to(target, path)}, target)
+                _write_saved(saved, target, path)
             if args.json:
                 line = {"instance": path, "instance_hash": h, **res.to_dict(), "checked": checked}
                 if note:
@@ -331,41 +292,29 @@ def cmd_solve(args: argparse.Namespace, out: Callable[[str], None]) -> int:
 def _find_instance(saved: dict, result_path: str, override: str | None) -> str:
     if override:
         return override
-    inst = saved.get("instance") or {}
-    p = inst.get("path")
+    from .io.saved import instance_candidates
+
+    p = (saved.get("instance") or {}).get("path")
     if not p:
         raise CliError(f"{result_path}: the saved result names no instance; give one with --instance")
-    cands = [p]
-    rel = saved.get("instance_from_here")
-    if isinstance(rel, str):
-        cands.insert(0, os.path.join(os.path.dirname(os.path.abspath(result_path)), rel))
-    for c in cands:
+    for c in instance_candidates(saved, result_path):
         if os.path.exists(c):
             return c
     raise CliError(f"{result_path}: its instance {p} is not there; give it with --instance")
 
 
 def cmd_check(args: argparse.Namespace, out: Callable[[str], None]) -> int:
-    from .bench.hashing import digest, instance_hash
+    from .bench.hashing import instance_hash
     from .bench.loading import check_object, solve_object
+    from .io.saved import digest_matches, read_saved
     from .bench.summary import verdict
     from .errors import WitnessError
     from .result import Result
 
     bad = 0
     for rpath in args.results:
-        try:
-            with open(rpath, "r", encoding="utf-8") as fh:
-                saved = json.load(fh)
-        except OSError as err:
-            raise CliError(f"{rpath}: cannot be read: {err.strerror}") from err
-        except json.JSONDecodeError as err:
-            raise CliError(f"{rpath}: line {err.lineno}: not valid JSON ({err.msg})") from err
-        if not isinstance(saved, dict) or saved.get("format") != SAVED_FORMAT or "result" not in saved:
-            raise CliError(f"{rpath}: not a saved result (expected format {SAVED_FORMAT!r}, as written by 'solve --save' or '-o')")
-        recorded = saved.get("digest")
-        actual = digest({k: saved.get(k) for k in ("instance", "options", "result")})
-        if recorded != actual:
+        saved = read_saved(rpath)
+        if not digest_matches(saved):
             out(f"{rpath}: REFUSED: the file was edited after it was saved (its digest does not match its content)")
             bad += 1
             continue

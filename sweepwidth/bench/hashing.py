@@ -9,60 +9,14 @@ same content always gives the same key whatever the file's layout.
 
 from __future__ import annotations
 
-import hashlib
 import json
-import math
 import os
 from typing import Any, Mapping
 
 from ..errors import FileFormatError
+from ..io.saved import canonical_json, digest  # the canonical JSON lives with the saved-result format
 
 __all__ = ["canonical_json", "digest", "instance_hash", "object_hash", "config_hash", "object_document"]
-
-
-def _normalise(x: Any) -> Any:
-    if isinstance(x, Mapping):
-        return {str(k): _normalise(v) for k, v in x.items()}
-    if isinstance(x, (list, tuple)):
-        return [_normalise(v) for v in x]
-    if isinstance(x, (set, frozenset)):
-        items = [_normalise(v) for v in x]
-        return sorted(items, key=lambda v: json.dumps(v, sort_keys=True))
-    if isinstance(x, bool) or x is None or isinstance(x, str):
-        return x
-    if hasattr(x, "item") and callable(x.item):  # numpy scalar
-        x = x.item()
-    if isinstance(x, float):
-        if not math.isfinite(x):
-            return "nan" if math.isnan(x) else ("inf" if x > 0 else "-inf")
-        if x.is_integer() and abs(x) < 2**53:
-            return int(x)
-        return x
-    if isinstance(x, int):
-        return x
-    return str(x)
-
-
-def canonical_json(obj: Any) -> str:
-    """The canonical JSON text of ``obj`` (sorted keys, no spaces, whole floats as ints).
-
-    Examples
-    --------
-    >>> canonical_json({"b": 1.0, "a": [2, 0.5]})
-    '{"a":[2,0.5],"b":1}'
-    """
-    return json.dumps(_normalise(obj), sort_keys=True, separators=(",", ":"), ensure_ascii=False)
-
-
-def digest(obj: Any) -> str:
-    """SHA-256 hex digest of :func:`canonical_json` of ``obj``.
-
-    Examples
-    --------
-    >>> digest({"x": 1}) == digest({"x": 1.0})
-    True
-    """
-    return hashlib.sha256(canonical_json(obj).encode("utf-8")).hexdigest()
 
 
 def object_document(obj: Any) -> dict:

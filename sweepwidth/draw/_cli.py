@@ -2,13 +2,13 @@
 
 from __future__ import annotations
 
-import json
 import os
 from typing import Any
 
 import networkx as nx
 
-from ..errors import FileFormatError, SweepwidthError, UnsupportedOptionError
+from ..errors import SweepwidthError, UnsupportedOptionError
+from ..io.saved import load_result
 from ..plane import PlaneGraph
 from ..registry import PARAMETERS
 
@@ -19,35 +19,6 @@ QUICK_LIMIT = 10.0
 
 _PARAMS = tuple(PARAMETERS)
 _EXTS = (".png", ".svg", ".gif")
-
-
-def load_result(path: str | os.PathLike) -> Any:
-    """A Result from a JSON file: a ``Result.to_dict()``, possibly wrapped as ``{"result": {...}, ...}``.
-
-    Raises
-    ------
-    FileFormatError
-        A missing or unreadable file, or JSON that holds no result.
-    """
-    from ..result import Result
-
-    path = os.fspath(path)
-    try:
-        with open(path, encoding="utf-8") as fh:
-            doc = json.load(fh)
-    except OSError as err:
-        raise FileFormatError(f"cannot read the result file: {err.strerror or err}", path=path) from err
-    except json.JSONDecodeError as err:
-        raise FileFormatError(f"not JSON: {err.msg}", path=path, line=err.lineno) from err
-    body = doc
-    if isinstance(doc, dict) and "parameter" not in doc and isinstance(doc.get("result"), dict):
-        body = doc["result"]
-    if not isinstance(body, dict) or "parameter" not in body or "status" not in body:
-        raise FileFormatError("expected a result object with 'parameter' and 'status'", path=path)
-    try:
-        return Result.from_dict(body)
-    except (KeyError, TypeError, ValueError) as err:
-        raise FileFormatError(f"not a valid result: {err}", path=path) from err
 
 
 def _solve(obj: Any, param: str, dual: bool) -> Any:

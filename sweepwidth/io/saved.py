@@ -1,0 +1,221 @@
+"""Saved results: the file ``sweepwidth solve --save`` writes and ``check`` and ``draw`` read.
+
+Format
+------
+One JSON object per result::
+
+    {"format": "sweepwidth-saved-result", "version": 1,
+     "instance": {"path": "/abs/path/grid.json", "hash": "<content hash>"},
+     "options": {...},                  # the parameter options used
+     "result": {...},                   # Result.to_dict()
+     "sweepwidth": "0.1.0",
+     "digest": "<digest of instance, options and result>",
+     "instance_from_here": "../grid.json"}
+
+``digest`` is :func:`digest` of the three fields ``instance``, ``options``
+and ``result``: a SHA-256 of their canonical JSON (keys sorted, no
+whitespace, UTF-8, whole floats written as integers), so re-indenting the
+file keeps it valid while any edit of a bound or witness is detected.
+``instance_from_here`` (where the instance is seen from the result file)
+is outside the digest, so moving both files together keeps the result
+valid.  A reader looks for the instance at ``instance_from_here`` first,
+then at the absolute path.
+
+The same canonical JSON keys the benchmark database
+(:mod:`sweepwidth.bench.hashing`).
+
+References
+----------
+.. [1] T. Bray (ed.), "The JavaScript Object Notation (JSON) Data Interchange
+   Format", RFC 8259, IETF (2017).
+.. [2] NIST, "Secure Hash Standard (SHS)", FIPS PUB 180-4 (2015).
+
+See Also
+--------
+sweepwidth.result.Result.to_dict, sweepwidth.result.Result.from_dict
+"""
+
+from __future__ import annotations
+
+import hashlib
+import json
+import math
+import os
+from typing import Any, Mapping
+
+from ..errors import FileFormatError
+
+__all__ = [
+    "SAVED_FORMAT",
+    "SAVED_VERSION",
+    "canonical_json",
+    "digest",
+    "saved_result",
+    "write_saved",
+    "read_saved",
+    "digest_matches",
+    "instance_candidates",
+    "load_result",
+]
+
+SAVED_FORMAT = "sweepwidth-saved-result"
+SAVED_VERSION = 1
+_DIGESTED = ("instance", "options", "result")
+
+
+def _normalise(x: Any) -> Any:
+    if isinstance(x, Mapping):
+        return {str(k): _normalise(v) for k, v in x.items()}
+    if isinstance(x, (list, tuple)):
+        return [_normalise(v) for v in x]
+    if isinstance(x, (set, frozenset)):
+        items = [_normalise(v) for v in x]
+        return sorted(items, key=lambda v: json.dumps(v, sort_keys=True))
+    if isinstance(x, bool) or x is None or isinstance(x, str):
+        return x
+    if hasattr(x, "item") and callable(x.item):  # numpy scalar
+        x = x.item()
+    if isinstance(x, float):
+        if not math.isfinite(x):
+            return "nan" if math.isnan(x) else ("inf" if x > 0 else "-inf")
+        if x.is_integer() and abs(x) < 2**53:
+            return int(x)
+        return x
+    if isinstance(x, int):
+        return x
+    return str(x)
+
+
+def canonical_json(obj: Any) -> str:
+    """The canonical JSON text of ``obj`` (sorted keys, no spaces, whole floats as ints).
+
+    Examples
+    --------
+    >>> canonical_json({"b": 1.0, "a": [2, 0.5]})
+    '{"a":[2,0.5],"b":1}'
+    """
+    return json.dumps(_normalise(obj), sort_keys=True, separators=(",", ":"), ensure_ascii=False)
+
+
+def digest(obj: Any) -> str:
+    """SHA-256 hex digest of :func:`canonical_json` of ``obj``.
+
+    Examples
+    --------
+    >>> digest({"x": 1}) == digest({"x": 1.0})
+    True
+    """
+    return hashlib.sha256(canonical_json(obj).encode("utf-8")).hexdigest()
+
+
+def saved_result(instance_path: str, instance_hash: str, result: Any, options: Mapping[str, Any]) -> dict:
+    """The saved-result document of ``result`` (without ``instance_from_here``).
+
+    Examples
+    --------
+    >>> from sweepwidth.result import Result
+    >>> doc = saved_result("g.json", "abc", Result("cutwidth", "optimal", 1, 1, 1, witness=[0, 1]), {})
+    >>> doc["format"], digest_matches(doc)
+    ('sweepwidth-saved-result', True)
+    """
+    from .. import __version__
+    from ..result import _jsonable
+
+    body = {
+        "format": SAVED_FORMAT,
+        "version": SAVED_VERSION,
+        "instance": {"path": os.path.abspath(instance_path), "hash": instance_hash},
+        "options": _jsonable(dict(options)),
+        "result": result.to_dict(),
+        "sweepwidth": __version__,
+    }
+    body["digest"] = digest({k: body[k] for k in _DIGESTED})
+    return body
+
+
+def _relative_to(result_file: str, instance: str) -> str | None:
+    try:
+        return os.path.relpath(os.path.abspath(instance), os.path.dirname(os.path.abspath(result_file)))
+    except ValueError:  # another drive on Windows
+        return None
+
+
+def write_saved(doc: Mapping[str, Any], target: str, instance_path: str) -> None:
+    """Write ``doc`` to ``target`` with ``instance_from_here`` filled in.
+
+    Raises
+    ------
+    OSError
+        When the file cannot be written.
+    """
+    with open(target, "w", encoding="utf-8") as fh:
+        json.dump({**doc, "instance_from_here": _relative_to(target, instance_path)}, fh, indent=1, sort_keys=False)
+        fh.write("\n")
+
+
+def read_saved(path: str) -> dict:
+    """Read a saved result document (its digest is not checked: see :func:`digest_matches`).
+
+    Raises
+    ------
+    FileFormatError
+        An unreadable file, invalid JSON, or JSON that is not a saved result.
+    """
+    try:
+        with open(path, "r", encoding="utf-8") as fh:
+            doc = json.load(fh)
+    except OSError as err:
+        raise FileFormatError(f"cannot be read: {err.strerror}", path=path) from err
+    except json.JSONDecodeError as err:
+        raise FileFormatError(f"not valid JSON ({err.msg})", path=path, line=err.lineno) from err
+    if not isinstance(doc, dict) or doc.get("format") != SAVED_FORMAT or "result" not in doc:
+        raise FileFormatError(
+            f"not a saved result (expected format {SAVED_FORMAT!r}, as written by 'solve --save' or '-o')", path=path
+        )
+    return doc
+
+
+def digest_matches(doc: Mapping[str, Any]) -> bool:
+    """Whether the recorded digest is that of the document's content (False: edited after saving)."""
+    return doc.get("digest") == digest({k: doc.get(k) for k in _DIGESTED})
+
+
+def instance_candidates(doc: Mapping[str, Any], result_path: str) -> list[str]:
+    """Where the instance may be, in the order to try: ``instance_from_here``, then the absolute path."""
+    inst = doc.get("instance") or {}
+    out = []
+    rel = doc.get("instance_from_here")
+    if isinstance(rel, str):
+        out.append(os.path.join(os.path.dirname(os.path.abspath(result_path)), rel))
+    if inst.get("path"):
+        out.append(inst["path"])
+    return out
+
+
+def load_result(path: str | os.PathLike) -> Any:
+    """A Result from a JSON file: a ``Result.to_dict()``, or a saved result holding one under ``"result"``.
+
+    Raises
+    ------
+    FileFormatError
+        A missing or unreadable file, or JSON that holds no result.
+    """
+    from ..result import Result
+
+    path = os.fspath(path)
+    try:
+        with open(path, encoding="utf-8") as fh:
+            doc = json.load(fh)
+    except OSError as err:
+        raise FileFormatError(f"cannot read the result file: {err.strerror or err}", path=path) from err
+    except json.JSONDecodeError as err:
+        raise FileFormatError(f"not JSON: {err.msg}", path=path, line=err.lineno) from err
+    body = doc
+    if isinstance(doc, dict) and "parameter" not in doc and isinstance(doc.get("result"), dict):
+        body = doc["result"]
+    if not isinstance(body, dict) or "parameter" not in body or "status" not in body:
+        raise FileFormatError("expected a result object with 'parameter' and 'status'", path=path)
+    try:
+        return Result.from_dict(body)
+    except (KeyError, TypeError, ValueError) as err:
+        raise FileFormatError(f"not a valid result: {err}", path=path) from err
