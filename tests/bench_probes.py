@@ -1,8 +1,13 @@
-"""Solvers that misbehave on purpose, to test the runner's limits and executors.
+"""Solvers that misbehave on purpose, to test the benchmark runner's limits and executors.
+
+They are test fixtures, not part of the package: the runner imports a task's
+``solver`` by name in its child process, and the test directory is on the
+import path there (pytest puts it on ``sys.path`` before the children start;
+tests that start the command line in a subprocess add it to ``PYTHONPATH``).
 
 Each has the signature of a task ``solver`` (see
 :class:`~sweepwidth.bench.tasks.Task`): ``fn(obj, *, method, time_limit,
-seed, progress, **options)``.  Use them as ``solver="sweepwidth.bench.probes:NAME"``.
+seed, progress, **options)``.  Use them as ``solver="bench_probes:NAME"``.
 
 ``stubborn``   reports bounds through ``progress`` and then ignores its time limit
 ``silent``     ignores its time limit without reporting anything
@@ -68,7 +73,7 @@ def honest(
     **options: Any,
 ) -> Any:
     """Sleep ``delay`` seconds, then solve cutwidth for real."""
-    from .loading import solve_object
+    from sweepwidth.bench.loading import solve_object
 
     if pid_dir:
         with open(os.path.join(pid_dir, f"{os.getpid()}.pid"), "w") as fh:

@@ -31,7 +31,7 @@ from sweepwidth.bench import (
 )
 
 PY = sys.executable
-PROBE = "sweepwidth.bench.probes:"
+PROBE = "bench_probes:"  # tests/bench_probes.py (pytest puts tests/ on sys.path)
 
 
 @pytest.fixture(scope="module")
@@ -235,7 +235,9 @@ def test_sigkill_then_resume_loses_and_repeats_nothing(tmp_path):
     # every task sleeps a little, records its process id, then solves for real
     cmd = [PY, "-c", _SLOW_RUN, str(folder), db, str(pids)]
     repo = os.path.dirname(os.path.dirname(os.path.abspath(__file__)))
-    proc = subprocess.Popen(cmd, stdout=subprocess.DEVNULL, stderr=subprocess.PIPE, cwd=repo)
+    # the probe solvers are test files (tests/bench_probes.py): put them on the child's path
+    env = {**os.environ, "PYTHONPATH": os.pathsep.join([os.path.dirname(os.path.abspath(__file__)), os.environ.get("PYTHONPATH", "")])}
+    proc = subprocess.Popen(cmd, stdout=subprocess.DEVNULL, stderr=subprocess.PIPE, cwd=repo, env=env)
     deadline = time.monotonic() + 90
     done = 0
     while time.monotonic() < deadline:

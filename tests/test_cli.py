@@ -285,8 +285,10 @@ def test_ctrl_c_stops_a_bench_run_and_its_children(files, tmp_path):
     db = tmp_path / "int.sqlite"
     proc = subprocess.Popen(
         [sys.executable, "-m", "sweepwidth", "bench", str(files / "grid.json"), str(files / "wheel.json"),
-         "--time-limit", "60", "--jobs", "2", "--db", str(db), "--solver", "sweepwidth.bench.probes:silent"],
+         "--time-limit", "60", "--jobs", "2", "--db", str(db), "--solver", "bench_probes:silent"],
         stdout=subprocess.PIPE, stderr=subprocess.PIPE, text=True,
+        # the probe solvers are test files (tests/bench_probes.py): put them on the child's path
+        env={**os.environ, "PYTHONPATH": os.pathsep.join([os.path.dirname(__file__), os.environ.get("PYTHONPATH", "")])},
     )
     time.sleep(4.0)  # both tasks are running (they would sleep far beyond the limit)
     t0 = time.monotonic()
