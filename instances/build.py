@@ -39,7 +39,7 @@ sys.path.insert(0, os.path.dirname(HERE))
 
 import sweepwidth as sw  # noqa: E402
 from sweepwidth import generators as gen  # noqa: E402
-from sweepwidth.bench.demo import pavilion  # noqa: E402
+from sweepwidth.demo import pavilion  # noqa: E402
 from sweepwidth.bench.hashing import instance_hash  # noqa: E402
 
 TIME = 60.0  # seconds per solver call while building

@@ -563,7 +563,7 @@ def cmd_draw(args: argparse.Namespace, out: Callable[[str], None]) -> int:
 
 # --------------------------------------------------------------------- demo
 def cmd_demo(args: argparse.Namespace, out: Callable[[str], None]) -> int:
-    from .bench.demo import DISCLAIMER, run_demo
+    from .demo import DISCLAIMER, run_demo
 
     out("sweepwidth demo: the Larkspur Pavilion (a fictional venue) and a few small plane graphs")
     out(DISCLAIMER)

@@ -108,7 +108,7 @@ def pavilion() -> Any:
     >>> P.face_length(P.outer_face)     # metres of outer wall
     59.0
     """
-    from ..plane import PlaneGraph
+    from .plane import PlaneGraph
 
     G = nx.Graph()
     for u, v, kind in _LINES:
@@ -119,7 +119,7 @@ def pavilion() -> Any:
         name="Larkspur Pavilion",
         provenance={
             "description": "fictional exhibition pavilion; walls and rope lines weighted in metres",
-            "built_by": "sweepwidth.bench.demo.pavilion",
+            "built_by": "sweepwidth.demo.pavilion",
         },
         rooms={name: P.find_face(walk) for name, walk in ROOMS.items()},
     )
@@ -128,7 +128,7 @@ def pavilion() -> Any:
 
 def demo_set() -> list[tuple[str, str, Any]]:
     """The demo's instances: ``(name, description, plane graph)``, the pavilion first."""
-    from .. import generators as gen
+    from . import generators as gen
 
     return [
         ("Larkspur Pavilion", "floor plan, walls and rope lines in metres", pavilion()),
@@ -196,7 +196,7 @@ def run_demo(out_dir: str | None = "demo-output", *, time_limit: float = 10.0, p
     About 10-40 s on a laptop core with the default limit: every solve but
     the pavilion's homotopy height finishes in well under a second.
     """
-    from ..solve import cutwidth, homology_width, homotopy_height
+    from .solve import cutwidth, homology_width, homotopy_height
 
     if out_dir:
         os.makedirs(out_dir, exist_ok=True)
@@ -307,7 +307,7 @@ def _optional(module: Any, name: str) -> Any:
 
 def _pavilion_files(P: Any, results: dict, out_dir: str, pictures: bool) -> Iterator[dict]:
     try:
-        from ..io import write
+        from .io import write
 
         path = os.path.join(out_dir, "pavilion.json")
         write(P, path)

@@ -393,7 +393,7 @@ def test_regression_demo_survives_a_missing_drawing_module():
     """Bug: the lazy drawing facade raised ModuleNotFoundError for a function not written yet."""
     import types
 
-    from sweepwidth.bench.demo import _optional
+    from sweepwidth.demo import _optional
 
     class Lazy(types.ModuleType):
         def __getattr__(self, name):
