@@ -23,7 +23,7 @@ both prove optimality, or a lower bound on it (prefixed ">") when only we do.
 Known values (``known`` column) and their sources:
 
 * grid P_m x P_n, 3 <= m <= n: m + 1 (Rolim, Sykora, Vrto, WG 1995, LNCS
-  1017; from memory, see /work/shared/CHECKS.md);
+  1017; from memory);
 * hypercube Q_d: floor(2^(d+1) / 3) (attributed to Harper and to Nakano;
   from memory);
 * complete binary tree of height h >= 2: ceil(h/2) + 1 (Lengauer, SIAM J.

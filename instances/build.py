@@ -10,7 +10,7 @@ or by networkx, written in our JSON document format, and listed in
 ``instances/manifest.json`` with its size, content hash and known values.
 A known value is recorded only when it is
 
-* a published formula (the source is named: see ``/work/shared/CHECKS.md``)
+* a published formula (the source is named in the manifest entry)
   that one exact solver reproduces here, or
 * computed and cross-checked by two independent methods that agree (both
   named in the source text).

@@ -1,4 +1,4 @@
-"""The public interface that users and outside checks rely on (DESIGN.md section 1)."""
+"""The public interface that users and outside checks rely on (the names in ``sweepwidth.__all__``)."""
 
 import importlib
 
@@ -6,7 +6,7 @@ import pytest
 
 import sweepwidth as sw
 
-# names promised by DESIGN.md; renaming one needs an issue note
+# names promised in README.md and the docstring of sweepwidth; renaming one needs an issue note
 PUBLIC = [
     "PlaneGraph",
     "read",
@@ -34,7 +34,7 @@ def test_public_name_resolves(name):
 
 
 def test_errors_subclass_builtins():
-    # STYLE.md: library errors also subclass the matching builtin
+    # errors.py: library errors also subclass the matching builtin (DEVELOPERS.md, conventions)
     assert issubclass(sw.WeightError, ValueError)
     assert issubclass(sw.FileFormatError, ValueError)
     assert issubclass(sw.NonPlanarError, sw.InvalidEmbeddingError)

@@ -87,7 +87,7 @@ def test_solve_table_json_and_save_then_check(files, tmp_path, capsys):
     assert [o["parameter"] for o in objs] == ["cutwidth", "homology"]
     for o in objs:
         assert o["checked"] == o["upper"]
-    # homology width from the disk boundary equals the pinned cutwidth of the dual (DESIGN.md definition)
+    # homology width from the disk boundary equals the pinned cutwidth of the dual (the identity in the docstring of sweepwidth.solve.homology)
     dual_cw = sw.cutwidth(sw.read(str(files / "wheel.json")).dual().to_networkx(), first=sw.read(str(files / "wheel.json")).outer_face)
     assert objs[1]["value"] == dual_cw.value
     saved = sorted(os.listdir(save))
@@ -216,7 +216,7 @@ def test_dual_and_convert(files, tmp_path, capsys):
     assert rc == 0, err
     D = sw.read(str(tmp_path / "d.json"))
     P = sw.read(str(files / "grid.json"))
-    # the dual has one vertex per face and one edge per edge (CHECKS.md, Euler)
+    # the dual has one vertex per face and one edge per edge (Euler's formula, R. Diestel, "Graph Theory", Springer, Thm. 4.2.9)
     assert D.number_of_vertices() == P.number_of_faces() and D.number_of_edges() == P.number_of_edges()
     rc, out, err = run_here(capsys, "dual", files / "wheel.json")
     assert rc == 0 and "dual:" in out

@@ -254,7 +254,7 @@ def test_against_cpsat_medium_random(seed):
     r.check(G)
 
 
-# ------------------------------------------------------------------ published values (CHECKS.md)
+# ------------------------------------------------------------------ published values (sources beside each)
 
 
 @pytest.mark.parametrize("n", [2, 3, 7, 20])

@@ -184,7 +184,7 @@ def test_cycles(n):
 
 @pytest.mark.parametrize("leaves", [3, 4, 7, 10])
 def test_stars(leaves):
-    # cw(K_{1,n}) = ceil(n/2): the degree bound, which a star meets (CHECKS.md)
+    # cw(K_{1,n}) = ceil(n/2): the degree bound, which a star meets (common practice)
     G = nx.star_graph(leaves)
     P, out = solve_graph(G)
     assert out.optimal and out.upper == math.ceil(leaves / 2)
@@ -214,7 +214,7 @@ def test_grids(m, n):
 
 @pytest.mark.parametrize("n", [2, 3, 5, 8])
 def test_ladders(n):
-    # ladder P_2 x P_n: 3 for n >= 3, and C_4 = P_2 x P_2 gives 2 (CHECKS.md, same family)
+    # ladder P_2 x P_n: 3 for n >= 3, and C_4 = P_2 x P_2 gives 2 (from memory, same family as the grids of Rolim, Sykora and Vrto, WG 1995)
     G = nx.grid_2d_graph(2, n)
     P, out = solve_graph(G)
     assert out.optimal and out.upper == (2 if n == 2 else 3)

@@ -1,8 +1,8 @@
 """Homology sweep width: brute force, the cutwidth identity, non-monotone sweeps, start/end variants.
 
-References used by the checks (see /work/shared/CHECKS.md):
+References used by the checks:
 * width from a disk's boundary = cutwidth of the dual with the outer face first
-  (a literal identity from the definition, DESIGN.md section 2);
+  (a literal identity from the definition, see the docstring of sweepwidth.solve.homology);
 * non-monotone sweeps never beat monotone ones when the weight is a cut
   function: Brightwell and Winkler, "Submodular percolation", SIAM J.
   Discrete Math. 23(3), 2009;
@@ -120,7 +120,7 @@ def inner_faces(P):
 @settings(max_examples=25, **SETTINGS)
 @given(plane_graphs(1, 8, weighted=True))
 def test_boundary_sweep_equals_pinned_cutwidth_of_dual(P):
-    # identity from the definition (DESIGN.md): width from the outer boundary to nothing
+    # identity from the definition (docstring of sweepwidth.solve.homology): width from the outer boundary to nothing
     # = cutwidth of the dual with the outer face's dual vertex first
     if len(inner_faces(P)) > 12:
         return

@@ -131,7 +131,7 @@ def test_large_bottom_to_top_non_monotone_uses_the_theorem():
 
 
 def test_error_classes_are_builtin_subclasses(square):
-    # STYLE.md: library errors also derive from the matching builtin
+    # errors.py: library errors also derive from the matching builtin (DEVELOPERS.md, conventions)
     with pytest.raises(ValueError):
         sw.homology_width(square, start={0})
 

@@ -1,7 +1,7 @@
 """Bounds and constructed homotopies of ``sw.homotopy_height`` against the brute-force reference.
 
 Sources of the expected relations:
-* CHECKS.md "Sweeps": homology width <= homotopy height <= simple homotopy
+* From the definitions: homology width <= homotopy height <= simple homotopy
   height on every instance (reduce mod 2; simple sweeps are a special case);
   a homotopy's height is at least the length of its start and end curves;
   from the boundary of a disk some optimal homotopy is monotone ("Constructing
@@ -55,9 +55,9 @@ def test_bounds_bracket_the_reference(P):
     ref = _ref(P, r.upper)
     assert ref is not None  # the constructed homotopy itself stays within r.upper
     hom = sw.homology_width(P)
-    assert hom.lower <= ref + 1e-9  # CHECKS.md: homology width <= homotopy height
+    assert hom.lower <= ref + 1e-9  # homology width <= homotopy height (reduce the homotopy mod 2)
     assert r.lower <= ref + 1e-9 <= r.upper + 2e-9
-    assert ref >= HomotopyProblem.build(P).length_of(HomotopyProblem.build(P).start)  # CHECKS.md
+    assert ref >= HomotopyProblem.build(P).length_of(HomotopyProblem.build(P).start)  # height >= start length (definition)
     if r.status == "optimal":
         assert r.value == ref
 
@@ -72,7 +72,7 @@ def test_weighted_disks(P, seed):
     assert r.check(P) == r.upper
     ref = _ref(P, r.upper)
     assert r.lower <= ref <= r.upper
-    # CHECKS.md: from a disk's boundary some optimal homotopy is monotone
+    # from a disk's boundary some optimal homotopy is monotone (Chambers et al., J. Geom. Anal. 2021)
     assert _ref(P, r.upper, monotone=True) == ref
 
 
@@ -86,7 +86,7 @@ def test_variants_are_ordered(P):
         return
     for kw in ({"spikes": False}, {"monotone": True}, {"simple": True}):
         h = _ref(P, cap, **kw)
-        # a restricted homotopy is an unrestricted one (definition); CHECKS.md for simple
+        # a restricted homotopy is an unrestricted one (definition), simple ones included
         assert h is None or h >= base, kw
         r = homotopy_height(P, method="bounds", **kw)
         if r.status == "infeasible":
@@ -145,7 +145,7 @@ def test_point_start_grows_to_the_boundary():
     outer = P.face_darts(P.outer_face)
     far = P.label(next(i for i in range(3) if i != P.tail_index(outer[0])))
     r = homotopy_height(P, start={"vertex": far, "darts": []}, end={"darts": outer}, method="bounds")
-    assert r.status == "optimal" and r.value == 3  # the end has length 3 (CHECKS.md: height >= end length)
+    assert r.status == "optimal" and r.value == 3  # the end has length 3 (definition: height >= end length)
     assert r.check(P) == 3
 
 

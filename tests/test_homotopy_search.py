@@ -314,7 +314,7 @@ def test_triangle_boundary_height_is_its_length():
 
 
 def test_grid_disks_from_the_boundary():
-    # lower bound: a homotopy's height is at least its start length 4k (CHECKS.md); the search
+    # lower bound: a homotopy's height is at least its start length 4k (definition); the search
     # finds a homotopy of exactly that height; k = 2 is confirmed by the spec-literal brute force
     for k in (1, 2, 3, 4):
         P = generators.triangulated_grid(k)
@@ -563,7 +563,7 @@ def test_against_reference_on_tiny_disks(seed, weighted, variant, interior, flip
 @settings(max_examples=15, deadline=None, suppress_health_check=[HealthCheck.too_slow])
 @given(seed=st.integers(0, 10_000), interior=st.booleans())
 def test_between_homology_and_constructed_homotopy(seed, interior):
-    # homology width <= homotopy height <= the bounded mode's constructed homotopy (CHECKS.md)
+    # homology width <= homotopy height <= the bounded mode's constructed homotopy (definitions: reduce mod 2; the bound is a witness)
     rng = random.Random(seed)
     P = _tiny(seed, True, n=rng.randint(5, 7))
     start = _random_start(P, rng, 2) if interior else None

@@ -88,7 +88,7 @@ def test_entry_file_size_hash_and_sources(e):
         V, E, F = obj.number_of_vertices(), obj.number_of_edges(), obj.number_of_faces()
         if not e.get("external"):
             assert (V, E, F) == (e["vertices"], e["edges"], e["faces"])
-        assert V - E + F == 2  # Euler's formula for connected plane graphs (CHECKS.md)
+        assert V - E + F == 2  # Euler's formula, R. Diestel, "Graph Theory", Springer, Thm. 4.2.9
     else:
         assert (obj.number_of_nodes(), obj.number_of_edges()) == (e["vertices"], e["edges"])
     for key, known in (e.get("known") or {}).items():
@@ -96,7 +96,7 @@ def test_entry_file_size_hash_and_sources(e):
         assert known.get("source"), f"{key} value without a source"
 
 
-# Platonic solids (V, E, F) -- CHECKS.md, "Plane graphs"
+# Platonic solids (V, E, F) -- H. S. M. Coxeter, "Regular Polytopes", Dover 1973, Table I
 PLATONIC = {"tetrahedron": (4, 6, 4), "cube": (8, 12, 6), "octahedron": (6, 12, 8), "dodecahedron": (20, 30, 12), "icosahedron": (12, 30, 20)}
 
 
@@ -105,7 +105,7 @@ def test_platonic_counts_and_duals(name):
     e = [x for x in ENTRIES if x["name"] == name][0]
     P = _load(e)
     assert (P.number_of_vertices(), P.number_of_edges(), P.number_of_faces()) == PLATONIC[name]
-    # cube <-> octahedron, dodecahedron <-> icosahedron, tetrahedron self-dual (CHECKS.md)
+    # cube <-> octahedron, dodecahedron <-> icosahedron, tetrahedron self-dual (H. S. M. Coxeter, "Regular Polytopes", Dover 1973, Table I)
     partner = {"cube": "octahedron", "octahedron": "cube", "dodecahedron": "icosahedron", "icosahedron": "dodecahedron", "tetrahedron": "tetrahedron"}[name]
     other = nx.Graph(_load([x for x in ENTRIES if x["name"] == partner][0]).to_networkx())
     assert nx.is_isomorphic(nx.Graph(P.dual().to_networkx()), other)

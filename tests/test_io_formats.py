@@ -246,7 +246,7 @@ def _cube_off() -> bytes:
 
 def test_off_cube_sphere_with_stereographic_positions():
     P = read_mesh(_cube_off(), "off")
-    # the cube: (V, E, F) = (8, 12, 6) (CHECKS.md, Platonic solids)
+    # the cube: (V, E, F) = (8, 12, 6) (H. S. M. Coxeter, "Regular Polytopes", Dover 1973, Table I)
     assert (P.number_of_vertices(), P.number_of_edges(), P.number_of_faces()) == (8, 12, 6)
     # the projected positions are a planar straight-line drawing of the same graph
     G = P.to_simple_graph()

@@ -1,6 +1,6 @@
 """PlaneGraph: Euler's formula, duality, the Platonic solids, planarity verdicts, bad inputs.
 
-Check values come from /work/shared/CHECKS.md (sources beside each check).
+Check values come from published sources named beside each check.
 """
 
 from __future__ import annotations
@@ -31,7 +31,7 @@ from strategies import plane_graphs, triangulated_disks, weighted_graphs
 @settings(max_examples=60, deadline=None)
 @given(plane_graphs(1, 12))
 def test_euler_formula(P):
-    # Euler: V - E + F = 2 for a connected plane graph (CHECKS.md, plane graphs)
+    # Euler: V - E + F = 2 for a connected plane graph (Euler's formula, R. Diestel, "Graph Theory", Springer, Thm. 4.2.9)
     assert P.number_of_vertices() - P.number_of_edges() + P.number_of_faces() == 2
     # every dart lies on exactly one face walk, and face_next follows it
     darts = sorted(d for f in P.faces for d in P.face_darts(f))
@@ -79,7 +79,7 @@ def test_dual_of_dual_is_the_graph(P):
 
 
 def test_dual_of_cycle_is_two_vertices_with_parallel_edges():
-    # the dual of C_n is two vertices joined by n parallel edges (CHECKS.md)
+    # the dual of C_n is two vertices joined by n parallel edges (definition of the plane dual, Diestel, "Graph Theory", Sec. 4.6)
     for n in (3, 4, 7):
         D = PlaneGraph.from_graph(nx.cycle_graph(n)).dual()
         assert D.number_of_vertices() == 2 and D.number_of_edges() == n
@@ -88,7 +88,7 @@ def test_dual_of_cycle_is_two_vertices_with_parallel_edges():
 
 
 def test_dual_of_tree_is_one_vertex_with_loops():
-    # the dual of a tree with m edges is one vertex with m loops (CHECKS.md)
+    # the dual of a tree with m edges is one vertex with m loops (definition of the plane dual, Diestel, "Graph Theory", Sec. 4.6)
     for n in (2, 5, 9):
         T = generators.random_tree(n, seed=n)
         D = T.dual()
@@ -98,7 +98,7 @@ def test_dual_of_tree_is_one_vertex_with_loops():
     assert (single.number_of_vertices(), single.number_of_edges(), single.number_of_faces()) == (1, 0, 1)
 
 
-# Platonic solids (V, E, F) and their duals: CHECKS.md, plane graphs
+# Platonic solids (V, E, F) and their duals: H. S. M. Coxeter, "Regular Polytopes", Dover 1973, Table I
 PLATONIC = [
     ("tetrahedron", nx.tetrahedral_graph, (4, 6, 4), nx.tetrahedral_graph),
     ("cube", nx.cubical_graph, (8, 12, 6), nx.octahedral_graph),
@@ -150,7 +150,7 @@ def test_planarity_verdict_agrees_with_networkx(n, p, seed):
     G = nx.gnp_random_graph(n, p, seed=seed)
     if not nx.is_connected(G):
         G.add_edges_from((i, i + 1) for i in range(n - 1))
-    planar, _ = nx.check_planarity(G)  # general-purpose reference library (CHECKS.md)
+    planar, _ = nx.check_planarity(G)  # networkx, a general-purpose reference library (Boyer-Myrvold test)
     try:
         P = PlaneGraph.from_graph(G)
     except NonPlanarError as err:

@@ -118,3 +118,23 @@ def test_the_private_rule_catches_a_foreign_private_import():
     assert _owner_of_private("sweepwidth.plane._geometry", "find_crossing") == "sweepwidth.plane"
     assert _owner_of_private("sweepwidth.result", "_jsonable") == "sweepwidth"
     assert _owner_of_private("sweepwidth.solve.ordering", "cutwidth") is None
+
+
+def test_the_repository_points_at_nothing_outside_it():
+    # what a reader needs is said in the project's own docs; no path or note outside the repository
+    repo = ROOT.parent
+    outside = ["/" + "work/", "DESIGN" + ".md", "STYLE" + ".md", "CHECKS" + ".md", "shared" + "/"]
+    skip = {".git", ".venv", "__pycache__", ".hypothesis", ".mypy_cache", "build", "dist"}
+    bad = []
+    for path in repo.rglob("*"):
+        if not path.is_file() or skip & set(path.relative_to(repo).parts) or path.suffix not in (
+                ".py", ".md", ".toml", ".cfg", ".txt", ".json", ".yml", ".yaml", "") :
+            continue
+        try:
+            text = path.read_text(encoding="utf-8")
+        except (UnicodeDecodeError, OSError):
+            continue
+        for word in outside:
+            if word in text:
+                bad.append(f"{path.relative_to(repo)}: {word}")
+    assert not bad, "\n".join(bad)
