@@ -193,8 +193,8 @@ def run_demo(out_dir: str | None = "demo-output", *, time_limit: float = 10.0, p
 
     Notes
     -----
-    About 10-40 s on a laptop core with the default limit: every solve but
-    the pavilion's homotopy height finishes in well under a second.
+    Every solve but the pavilion's homotopy height is small; the run time is
+    in ``benchmarks/NOTES.md``.
     """
     from .solve import cutwidth, homology_width, homotopy_height
 

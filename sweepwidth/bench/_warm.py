@@ -1,8 +1,8 @@
 """Warm-up imported by the task forkserver: compile (or load from cache) the solvers' kernels once.
 
 Every task child is forked from the forkserver, so kernels loaded here are
-ready in every child instead of being loaded again per task (about 3 s for
-the cutwidth kernels on a loaded 2-core machine).  Each solve is tiny, runs
+ready in every child instead of being loaded again per task (see
+``benchmarks/NOTES.md`` for the cost).  Each solve is tiny, runs
 without a time limit (in this process, no children) and may fail silently:
 a warm-up never stops the server from starting.
 """

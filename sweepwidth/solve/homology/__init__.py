@@ -64,12 +64,8 @@ Methods
 
 Performance
 -----------
-``benchmarks/_homology_rows.py`` (2 shared cores, heavily loaded): from the
-boundary, ``triangulated_grid(10)`` (200 faces) is optimal in 0.02 s (the
-greedy sweep meets the boundary weight; the literal identity
-``cutwidth(P.dual(), first=outer)`` takes 1.7 s), a 200-face Delaunay disk
-in 2-3 s (unit weights, and weights 1..5); the subset DP takes about 5 ns
-per state and face (0.1 s at 20 faces).
+Measured by ``benchmarks/_homology_rows.py``; the last run is in
+``benchmarks/NOTES.md``.
 
 References
 ----------

@@ -69,9 +69,8 @@ MAX_TOGGLE_FACES = 20 if HAVE_NUMBA else 14
 #: Tables larger than this are refused whatever ``max_faces`` says (bytes).
 MAX_TABLE_BYTES = 1 << 30
 
-# development machine (2 shared cores, load ~10, numba): the subset DP took 5.2 ns per
-# state and face at k = 20 (0.11 s); the toggle search is allowed 6x that (heap work), and
-# often stops early; the pure-Python fallback was ~750x slower (k = 14)
+# seconds per state and face of the subset DP, calibrated by benchmarks/_homology_rows.py
+# (benchmarks/NOTES.md); the toggle search is allowed 6x that for its heap work
 _NS_PER_STATE_FACE = 5.0 if HAVE_NUMBA else 4000.0
 
 

@@ -116,14 +116,14 @@ AUTO_SEARCH_FACES = 40
 #: share of the time limit given to the homology lower bound in 'bounds' (it runs beside the constructions)
 HOMOLOGY_SHARE = 0.6
 #: the homology solver is asked for this share of its budget (its set-up time
-#: comes on top: on a 9800-face disk about 11 s whatever the limit)
+#: comes on top, whatever the limit: benchmarks/NOTES.md)
 HOMOLOGY_ASK = 0.25
 #: window of the windowed orders, in units of sqrt(number of faces)
 WINDOW_FACTOR = 2.0
 #: up to this many faces every order is also tried strictly (without a window)
 SMALL_FACES = 2000
 #: up to this many sweepable faces the homology bound runs in this process
-#: (a child process costs about 1.5 s to start on a loaded machine)
+#: (starting a child process costs more than the bound there: benchmarks/NOTES.md)
 HOMOLOGY_INPROCESS_FACES = 200
 #: homology budget (s) when no time limit is given
 HOMOLOGY_DEFAULT_BUDGET = 8.0
@@ -1277,8 +1277,8 @@ def _run_search(H: HomotopyProblem, deadline: float | None, upper: float | None,
     """Run the exact search; (outcome or None, note).
 
     By default in this process under the search's own cooperative deadline
-    (measured within ~0.1 s; a child process costs about a second to start on
-    a loaded 2-core machine, a large share of short limits).  ``isolate=True``
+    (starting a child would take a large share of short limits:
+    ``benchmarks/NOTES.md``).  ``isolate=True``
     runs it in a child killed at the deadline instead.
     """
     try:

@@ -23,12 +23,8 @@ failed sets in an open-addressing table of bitmask words) when numba is
 available, in slices of a node budget so the time limit is checked between
 slices; a slice restarts from the empty prefix but keeps the failed sets, so
 little work is repeated.  Without numba a Python version (sets of ints) runs.
-The table starts small and doubles (rehashing) when half full.  Measured
-on the development machine (2 cores shared with other jobs, median of 3,
-``benchmarks/cutwidth_core.py``), proofs of optimality: 8x8 grid 0.03 s,
-hypercube Q_5 1.2 s, complete binary tree of height 6 (127 vertices) 0.25 s,
-random triangulations with 30 vertices 0.01-0.02 s; the Python version is
-about 47x slower (median over the benchmark's instances).
+The table starts small and doubles (rehashing) when half full.  Timings:
+``benchmarks/cutwidth_core.py`` (last run in ``benchmarks/NOTES.md``).
 """
 
 from __future__ import annotations
@@ -137,9 +133,8 @@ def solve_bnb(
     symmetry : bool
         Break the reversal symmetry in the compiled search (problems without
         pins): the vertex of largest degree is kept in the second half.  Off
-        by default: measured gains were at most 1.2x (Q_5) and it is 25x
-        slower on the complete binary tree of height 6, because the chosen
-        vertex may no longer move for free.
+        by default: the chosen vertex may no longer move for free, which can
+        cost more than the symmetry saves (``benchmarks/NOTES.md``).
 
     Returns
     -------

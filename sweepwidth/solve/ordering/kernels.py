@@ -614,7 +614,7 @@ def warm_up() -> None:
     """Load (or compile) every kernel once on a tiny input.
 
     The first call of a numba function in a process loads its machine code
-    from the cache (about a second in all); doing it up front lets the
+    from the cache (``benchmarks/NOTES.md``); doing it up front lets the
     callers' time checks see that cost instead of overrunning after it.
     """
     if _WARM[0] or not HAVE_NUMBA:

@@ -48,10 +48,8 @@ the next one to representatives of the orbits of the stabiliser of the
 first, and without pins the reversal is broken by orbit ranks of the first
 and last vertex.  Phases are set from the best ordering known.
 
-What the ideas bought
----------------------
-Measured with ``benchmarks/cutwidth.py --ablation`` (heuristic upper bound
-given, proving optimality; see :data:`ABLATION_NOTES`).
+What each idea buys is measured by ``benchmarks/cutwidth.py --ablation``;
+the last table is in ``benchmarks/NOTES.md``.
 
 References
 ----------
@@ -82,7 +80,7 @@ from ...errors import SweepwidthError, UnsupportedOptionError, WeightError
 from ...problems.ordering import OrderingProblem
 from .._deadline import BUDGET_SOLVERS, run_limited, sat_call
 
-__all__ = ["SatOutcome", "solve_sat", "greedy_order", "SOLVERS", "ABLATION_NOTES"]
+__all__ = ["SatOutcome", "solve_sat", "greedy_order", "SOLVERS"]
 
 #: Solver names accepted by :func:`solve_sat`.  kissat404 has no assumptions
 #: in python-sat and is rebuilt for every bound.
@@ -98,37 +96,6 @@ _OPTIONS = {
     "probe": (True, False),
     "windows": (True, False),
 }
-
-#: Measured effect of each idea (``benchmarks/cutwidth.py --ablation``): seconds
-#: to prove optimality and thousands of conflicts of the chain formula, the
-#: dispatcher's heuristic ordering as upper bound, CaDiCaL 1.9.5.  The 2-core
-#: machine was shared (load 6-10), so seconds vary 2-5x between runs; the
-#: conflict counts are the stable measure.
-ABLATION_NOTES = """
-Chain formula alone (no probes, no windows; limit 40 s):
-variant              grid 8x8      Q_5           delaunay 30   wgrid 6x6
-default              15.9s 13k     8.4s 38k      6.1s 13k      >40s
-no level counts      >40s          >40s          >40s          >40s
-counts at all levels >40s          >40s          17.0s 13k     >40s
-no symmetry          36.4s 14k     >40s          9.7s 11k      >40s
-no phases            >40s          >40s          38.8s 55k     >40s
-sequential counter   41.0s 13k     >40s          13.6s 14k     >40s
-upward search        39.3s 18k     >40s [19,21]  14.4s 32k     >40s [26,41]
-glucose4             12.9s 6k      23.3s 63k     10.0s 25k     >40s
-edges in hint order  34.4s 11k     18.0s 35k     6.6s 5k       >40s
-exact crossings      >40s          33.5s 67k     16.6s 16k     >40s
-
-With single-level probes (limit 30 s; 0k = settled by a probe, no chain call):
-default              3.0s 0k       11.5s 0k      10.1s 9k      >30s
-no probes            25.9s 19k     10.6s 38k     4.1s 15k      >30s
-glucose4             1.7s 0k       17.5s 63k     4.0s 11k      >30s
-
-Kept: level counts in the middle half, symmetry breaking, phases, the C++
-totalizer, downward search, CaDiCaL, probes, and (added last) windows,
-which cut the first SAT call on delaunay 30 s0 from 3.5 s to 0.05 s.
-Tried and dropped: counts at every level, hint-ordered counter inputs,
-exact crossing definitions (no gain or a loss).
-"""
 
 
 @dataclass
