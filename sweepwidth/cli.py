@@ -540,10 +540,7 @@ def cmd_convert(args: argparse.Namespace, out: Callable[[str], None]) -> int:
 
 # --------------------------------------------------------------------- draw
 def cmd_draw(args: argparse.Namespace, out: Callable[[str], None]) -> int:
-    try:
-        import sweepwidth.draw as drawing
-    except ImportError as err:
-        raise CliError(f"drawing is not available in this installation ({err})") from None
+    import sweepwidth.draw as drawing
     render = getattr(drawing, "render_cli", None)
     if render is None:
         try:

@@ -237,8 +237,10 @@ def _import_preloaded() -> None:
     for name in _PRELOAD:
         try:
             importlib.import_module(name)
-        except ImportError:
-            pass
+        except ImportError as err:
+            # an optional third-party module may be missing; our own modules must import
+            if name.startswith("sweepwidth") or (err.name or "").startswith("sweepwidth"):
+                raise
 
 
 def _import_solver(spec: str) -> Callable[..., Any]:

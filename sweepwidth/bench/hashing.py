@@ -85,10 +85,8 @@ def instance_hash(path: str | os.PathLike | None = None, *, obj: Any = None) -> 
 
 def object_hash(obj: Any) -> str:
     """Digest of a loaded instance: its JSON document (:func:`sweepwidth.io.to_document`) when available."""
-    try:
-        from ..io import to_document
-    except ImportError:
-        return digest(object_document(obj))
+    from ..io import to_document
+
     return digest(to_document(obj))
 
 

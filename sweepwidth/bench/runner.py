@@ -83,12 +83,9 @@ def task_row(task: Task, outcome: Mapping[str, Any]) -> dict:
 
 def _default_sat_solver() -> str:
     """The python-sat solver the cutwidth SAT engine uses when none is named."""
-    try:
-        from ..solve.ordering.sat import SOLVERS
+    from ..solve.ordering.sat import SOLVERS
 
-        return str(SOLVERS[0])
-    except (ImportError, AttributeError, IndexError):  # pragma: no cover
-        return "default"
+    return str(SOLVERS[0])
 
 
 class _Owned:

@@ -1281,10 +1281,6 @@ def _run_search(H: HomotopyProblem, deadline: float | None, upper: float | None,
     ``benchmarks/NOTES.md``).  ``isolate=True``
     runs it in a child killed at the deadline instead.
     """
-    try:
-        from . import search  # noqa: F401
-    except ImportError as err:
-        return None, f"exact search not available ({err})"
     from .._deadline import run_limited
 
     kw = {"upper": upper, "upper_witness": witness, "lower": lower, "deadline": deadline}

@@ -515,13 +515,12 @@ def _witness(search: _Search, parent: dict, state: Any) -> dict:
 
 
 def _homology_lower(spec: WalkSpec, deadline: float | None) -> tuple[float | None, str]:
-    """Homology width of the same start, end and holes, when that solver is present."""
+    """Homology width of the same start, end and holes (a lower bound), with the note how it was found."""
+    from ...problems.cycles import HomologyProblem
+    from ..contract import Deadline
+    from ..homology import solve_problem as solve_homology
+
     try:
-        from .. import homology as _h
-    except ImportError:
-        return None, "homology solver not available"
-    try:
-        fn = _h.homology_width
         P = spec.P
         if spec.closed:
             start = {"vertex": P.label(spec.start_vertex), "darts": list(spec.start_darts)}
@@ -549,13 +548,10 @@ def _homology_lower(spec: WalkSpec, deadline: float | None) -> tuple[float | Non
             z0 ^= {d >> 1}
         disk = spec.end_darts is None and holes == {outer} and z0 == set(P.face_boundary_cycle(outer))
         mono = bool(spec.monotone or disk)
-        kw: dict = {"start": start, "end": end, "monotone": mono}
-        if spec.holes is not None:
-            kw["holes"] = set(spec.holes)
-        if limit is not None:
-            kw["time_limit"] = limit
         try:
-            r = fn(P, **kw)
+            # the built problem and a deadline, not the public arguments again
+            problem = HomologyProblem.build(P, start, end, set(spec.holes) if spec.holes is not None else None)
+            r = solve_homology(problem, deadline=Deadline.from_limit(limit), monotone=mono)
         except ProblemTooLargeError as err:
             return None, f"homology bound not available: {err}"
         if r.status == "infeasible":
@@ -568,11 +564,9 @@ def _homology_lower(spec: WalkSpec, deadline: float | None) -> tuple[float | Non
 
 def _obstacle_test(problem: Any, spec: WalkSpec, fixed: list) -> str | None:
     """Reason why no monotone homotopy exists, or None when the test passes (or is unavailable)."""
-    try:
-        from ...problems.homotopy import HomotopyProblem
-        from .free_group import homotopy_classes_equal
-    except ImportError:  # pragma: no cover - the other module is part of the package
-        return None
+    from ...problems.homotopy import HomotopyProblem
+    from .free_group import homotopy_classes_equal
+
     P = spec.P
     holes = set(spec.holes if spec.holes is not None else {P.outer_face}) | set(fixed)
     kw: dict = {"start": {"vertex": P.label(spec.start_vertex), "darts": list(spec.start_darts)}, "holes": holes}

@@ -361,16 +361,13 @@ def _auto_part(P: OrderingProblem, deadline: float | None, seed: int | None, opt
     elif q is not None and n > _SAT_MAX_N:
         why.append(f"sat skipped: {n} vertices make an order encoding of about n^2 = {n * n} variables")
     elif q is not None:
-        try:
-            lo2, up2, o2, st = _m_sat(P, lower=lb, upper=ub, upper_order=order, deadline=deadline, seed=seed, solver=solver, sat_options=sat_options)
-            chain.append("sat")
-            stats["sat"] = st
-            lb, ub, order = max(lb, lo2), up2, o2
-            reason = "integral weights" if q == 1 else f"rational weights scaled by {q}"
-            stats["auto"] = {"choice": "sat", "reason": reason + "; prefix-set search did not finish in its slice", "chain": chain, "notes": why}
-            return _Part(ub if lb >= ub - 1e-9 else lb, ub, order, stats, "sat")
-        except ImportError as err:  # pragma: no cover - SAT engine missing
-            why.append(f"sat unavailable: {err}")
+        lo2, up2, o2, st = _m_sat(P, lower=lb, upper=ub, upper_order=order, deadline=deadline, seed=seed, solver=solver, sat_options=sat_options)
+        chain.append("sat")
+        stats["sat"] = st
+        lb, ub, order = max(lb, lo2), up2, o2
+        reason = "integral weights" if q == 1 else f"rational weights scaled by {q}"
+        stats["auto"] = {"choice": "sat", "reason": reason + "; prefix-set search did not finish in its slice", "chain": chain, "notes": why}
+        return _Part(ub if lb >= ub - 1e-9 else lb, ub, order, stats, "sat")
     else:
         why.append("sat skipped: weights are not rationals with a small common denominator")
     out = solve_bnb(P, lower=lb, upper=ub, upper_order=order, deadline=deadline, max_states=max_states)
