@@ -787,6 +787,14 @@ _COMMANDS = {
 }
 
 
+class _Terminated(KeyboardInterrupt):
+    """SIGTERM, turned into an exception so that running children are stopped on the way out."""
+
+
+def _on_sigterm(signum: int, frame: Any) -> None:
+    raise _Terminated()
+
+
 def main(argv: Sequence[str] | None = None) -> int:
     """Run the command line; return the exit status.
 
@@ -818,8 +826,17 @@ def main(argv: Sequence[str] | None = None) -> int:
 
     from .errors import SweepwidthError
 
+    import signal
+    import threading
+
+    previous = None
+    if threading.current_thread() is threading.main_thread() and hasattr(signal, "SIGTERM"):
+        previous = signal.signal(signal.SIGTERM, _on_sigterm)
     try:
         return _COMMANDS[args.verb](args, out)
+    except _Terminated:
+        sys.stderr.write("sweepwidth: terminated\n")
+        return 143
     except CliError as err:
         sys.stderr.write(f"sweepwidth: error: {err}\n")
     except SweepwidthError as err:
@@ -840,6 +857,9 @@ def main(argv: Sequence[str] | None = None) -> int:
         sys.stderr.write(
             f"sweepwidth: error: internal error {type(err).__name__}: {msg} (set SWEEPWIDTH_TRACEBACK=1 for the traceback)\n"
         )
+    finally:
+        if previous is not None:
+            signal.signal(signal.SIGTERM, previous)
     return EXIT_FAIL
 
 

@@ -3,8 +3,9 @@
 :func:`execute_task` is what an executor runs (a thread of the local pool,
 a dask worker, anything with ``submit``).  It starts a child process that
 
-1. asks the kernel to kill it when its parent dies (Linux ``PR_SET_PDEATHSIG``),
-   so that killing a benchmark run leaves no stray solvers behind;
+1. ends itself when its parent dies (Linux ``PR_SET_PDEATHSIG`` and, on every
+   platform, a watchdog thread on the parent's sentinel), so that killing a
+   benchmark run leaves no stray solvers behind;
 2. caps its address space with ``resource.setrlimit(RLIMIT_AS)``;
 3. loads the instance, solves it with the task's time limit, replays the
    witness with the independent checker, and reports back.
@@ -74,17 +75,10 @@ STARTUP_ALLOWANCE = 60.0
 
 # ---------------------------------------------------------------- child side
 def _die_with_parent() -> None:
-    """Linux: deliver SIGKILL to this process when its parent exits."""
-    if not sys.platform.startswith("linux"):
-        return
-    try:
-        import ctypes
+    """End this process when its parent goes away (Linux parent-death signal plus a watchdog thread)."""
+    from ..solve._deadline import die_with_parent
 
-        libc = ctypes.CDLL(None, use_errno=True)
-        PR_SET_PDEATHSIG = 1
-        libc.prctl(PR_SET_PDEATHSIG, signal.SIGKILL, 0, 0, 0)
-    except Exception:  # pragma: no cover - no prctl
-        pass
+    die_with_parent()
 
 
 def _limit_memory(memory_mb: Any) -> None:
@@ -353,13 +347,10 @@ def _subprocess_main() -> None:
 
 # --------------------------------------------------------------- parent side
 def _context() -> Any:
-    ctx = mp.get_context("forkserver") if "forkserver" in mp.get_all_start_methods() else mp.get_context("spawn")
-    if ctx.get_start_method() == "forkserver":
-        try:
-            ctx.set_forkserver_preload(list(_PRELOAD))
-        except Exception:  # pragma: no cover
-            pass
-    return ctx
+    """A private forkserver with the solver stack preloaded; children never run ``__main__``."""
+    from ..solve._deadline import IsolatedContext
+
+    return IsolatedContext("bench", _PRELOAD)
 
 
 class _ForkChannel:
