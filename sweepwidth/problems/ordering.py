@@ -27,7 +27,7 @@ import numpy as np
 import scipy.sparse  # noqa: F401 - imported up front: its first import costs ~1 s
 import scipy.sparse.csgraph  # noqa: F401
 
-from .._weights import check_weight, weight_function
+from .._weights import check_total, check_weight, weight_function
 from ..errors import SweepwidthError, UnsupportedOptionError
 
 __all__ = ["OrderingProblem", "PinContraction"]
@@ -126,6 +126,7 @@ class OrderingProblem:
         keys = sorted(acc)
         edges = np.array(keys, dtype=np.int64).reshape(-1, 2)
         weights = np.array([acc[k] for k in keys], dtype=np.float64)
+        check_total(weights, lambda e: f"edge ({labels[keys[e][0]]!r}, {labels[keys[e][1]]!r})")
         return cls(
             labels=labels,
             edges=edges,
