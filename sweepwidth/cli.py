@@ -256,6 +256,44 @@ def _jsonable_options(opts: dict) -> dict:
     return _jsonable(opts)
 
 
+def _same_file(a: str, b: str) -> bool:
+    """True when paths ``a`` and ``b`` name one file (resolved paths, or the same inode)."""
+    try:
+        if os.path.exists(a) and os.path.exists(b):
+            return os.path.samefile(a, b)
+    except OSError:
+        pass
+    return os.path.realpath(a) == os.path.realpath(b)
+
+
+def _refuse_overwrite(target: str, inputs: Sequence[str], what: str = "an input file") -> None:
+    """CliError when writing ``target`` would overwrite one of ``inputs``."""
+    for src in inputs:
+        if _same_file(target, src):
+            raise CliError(f"{target}: refusing to write over {what} ({src}); choose another output file")
+
+
+def _save_names(files: Sequence[str]) -> dict[str, str]:
+    """A distinct file-name stem per input for ``--save`` (files of the same name in other folders get their folder's name)."""
+    real = {f: os.path.realpath(f) for f in files}
+    by_stem: dict[str, set[str]] = {}
+    for f in files:
+        by_stem.setdefault(os.path.splitext(os.path.basename(f))[0], set()).add(real[f])
+    names: dict[str, str] = {}
+    used: dict[str, str] = {}  # stem -> real path that owns it
+    for f in files:
+        stem = os.path.splitext(os.path.basename(f))[0]
+        if len(by_stem[stem]) > 1:
+            folder = os.path.basename(os.path.dirname(real[f])) or "root"
+            stem = f"{folder}-{stem}"
+        base, k = stem, 2
+        while used.get(stem, real[f]) != real[f]:
+            stem, k = f"{base}-{k}", k + 1
+        used[stem] = real[f]
+        names[f] = stem
+    return names
+
+
 # -------------------------------------------------------------------- solve
 def cmd_solve(args: argparse.Namespace, out: Callable[[str], None]) -> int:
     from .bench.hashing import instance_hash
@@ -264,8 +302,14 @@ def cmd_solve(args: argparse.Namespace, out: Callable[[str], None]) -> int:
     params = _params(args.param)
     if args.output and (len(args.files) > 1 or len(params) > 1):
         raise CliError("-o/--output takes one file and one parameter; use --save DIR for several")
+    if args.output:
+        _refuse_overwrite(args.output, args.files, "an input instance")
+    save_names = _save_names(args.files)
     if args.save:
         os.makedirs(args.save, exist_ok=True)
+        for f in args.files:
+            for p in params:
+                _refuse_overwrite(os.path.join(args.save, f"{save_names[f]}.{p}.json"), args.files, "an input instance")
     rows: list[list[str]] = []
     failures = 0
     for path in args.files:
@@ -289,8 +333,7 @@ def cmd_solve(args: argparse.Namespace, out: Callable[[str], None]) -> int:
             saved = _saved(path, h, res, _jsonable_options(opts))
             targets = []
             if args.save:
-                stem = os.path.splitext(os.path.basename(path))[0]
-                targets.append(os.path.join(args.save, f"{stem}.{p}.json"))
+                targets.append(os.path.join(args.save, f"{save_names[path]}.{p}.json"))
             if args.output:
                 targets.append(args.output)
             for target in targets:
@@ -524,6 +567,8 @@ def cmd_export(args: argparse.Namespace, out: Callable[[str], None]) -> int:
     fmt = args.format
     if fmt is None:
         fmt = "jsonl" if args.output and args.output.endswith((".jsonl", ".ndjson")) else "csv"
+    if args.output:
+        _refuse_overwrite(args.output, [args.db], "the results database")
     with ResultsDB(args.db) as db:
         if args.output:
             try:
@@ -548,6 +593,7 @@ def cmd_dual(args: argparse.Namespace, out: Callable[[str], None]) -> int:
     if args.output:
         from .io import write
 
+        _refuse_overwrite(args.output, [args.file])
         write(D, args.output)
         out(f"dual written to {args.output}: {D.number_of_vertices()} vertices, {D.number_of_edges()} edges, {D.number_of_faces()} faces")
     else:
@@ -575,6 +621,7 @@ def cmd_dual(args: argparse.Namespace, out: Callable[[str], None]) -> int:
 def cmd_convert(args: argparse.Namespace, out: Callable[[str], None]) -> int:
     from .io import read, write
 
+    _refuse_overwrite(args.output, [args.input])
     obj = read(args.input, format=args.from_format) if args.from_format else read(args.input)
     if args.to_format:
         write(obj, args.output, format=args.to_format)
