@@ -455,3 +455,29 @@ def test_discover_reads_manifests_and_filters_sets(tmp_path):
         make_tasks(entries, ["girth"])
     with pytest.raises(sw.FileFormatError):
         discover([tmp_path / "missing"])
+
+
+def test_row_is_keyed_by_the_content_that_was_solved(tmp_path):
+    # issue 10 item 5: the hash was taken at task creation, the file read again later, so a
+    # file replaced in between stored the old hash with the new file's answer
+    from sweepwidth.bench.hashing import instance_hash
+
+    folder = tmp_path / "inst"
+    folder.mkdir()
+    target = folder / "g.json"
+    sw.io.write(sw.PlaneGraph.from_graph(nx.path_graph(5)), target)  # cutwidth of a path: 1
+    old_hash = instance_hash(target)
+    tasks = make_tasks(discover([folder]), ["cutwidth"], time_limit=20)
+    assert [t.instance_hash for t in tasks] == [old_hash]
+    # replaced between task creation and the solve
+    sw.io.write(sw.PlaneGraph.from_graph(nx.cycle_graph(6)), target)  # cutwidth of a cycle: 2
+    new_hash = instance_hash(target)
+    db = str(tmp_path / "r.sqlite")
+    rep = run_tasks(tasks, db, jobs=1)
+    (row,) = rep.rows
+    assert row["value"] == 2  # the answer of the file that was solved (cycle: 2, path: 1; common practice)
+    assert row["instance_hash"] == new_hash != old_hash
+    assert "changed" in row["message"]
+    # --resume does not take the old task as done
+    with ResultsDB(db) as d:
+        assert (old_hash, tasks[0].config_hash()) not in d.done_keys()

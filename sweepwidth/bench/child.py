@@ -257,6 +257,33 @@ def _import_solver(spec: str) -> Callable[..., Any]:
     return fn
 
 
+def _load_snapshot(path: str) -> tuple[Any, str]:
+    """Load ``path`` and hash exactly the bytes that were loaded.
+
+    The file is read once into memory and both the hash and the instance come
+    from that copy, so a file replaced while a benchmark runs can never pair
+    one content's hash with another content's answer.
+    """
+    import shutil
+    import tempfile
+
+    from .hashing import instance_hash
+    from .loading import load_instance
+
+    if not os.path.exists(path):
+        load_instance(path)  # raises the reader's "no such file" error
+    with open(path, "rb") as fh:
+        data = fh.read()
+    folder = tempfile.mkdtemp(prefix="sweepwidth-task-")
+    try:
+        copy = os.path.join(folder, os.path.basename(path))
+        with open(copy, "wb") as fh:
+            fh.write(data)
+        return load_instance(copy), instance_hash(copy)
+    finally:
+        shutil.rmtree(folder, ignore_errors=True)
+
+
 def _body(task: Mapping[str, Any], send: Callable[[list], None]) -> None:
     """Load, solve, check; every outcome goes through ``send`` as a JSON-able list."""
     _die_with_parent()
@@ -268,7 +295,8 @@ def _body(task: Mapping[str, Any], send: Callable[[list], None]) -> None:
         from ..errors import SweepwidthError
         from .loading import check_object, load_instance, solve_object
 
-        obj = load_instance(task["instance"])
+        obj, solved_hash = _load_snapshot(task["instance"])
+        send(["instance", solved_hash])
 
         def progress(p: Any) -> None:
             try:
@@ -498,6 +526,7 @@ def execute_task(task: Any, *, isolation: str = "auto") -> dict:
         chan.kill()
     last: dict | None = None
     final: list | None = None
+    solved_hash: str | None = None  # hash of the bytes the child actually loaded
     killed = False
     try:
         while final is None:
@@ -519,6 +548,8 @@ def execute_task(task: Any, *, isolation: str = "auto") -> dict:
                 continue
             if msg[0] == "started":
                 started = time.monotonic()
+            elif msg[0] == "instance":
+                solved_hash = str(msg[1])
             elif msg[0] == "progress":
                 last = _merge_bounds(last, msg[1])
             else:
@@ -532,6 +563,7 @@ def execute_task(task: Any, *, isolation: str = "auto") -> dict:
     end = time.monotonic()
     wall = end - t0
     out = _outcome(t, final, last, killed, code, wall)
+    out["instance_hash"] = solved_hash
     out["startup"] = (started - t0) if started is not None else None
     out["after_start"] = (end - started) if started is not None else None
     return out
