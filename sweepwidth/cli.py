@@ -487,6 +487,7 @@ def cmd_bench(args: argparse.Namespace, out: Callable[[str], None]) -> int:
     entries = discover(args.paths, sets=_split(args.sets, []) or None)
     if not entries:
         raise CliError("no instances found under " + ", ".join(args.paths))
+    skipped: list = []
     tasks = make_tasks(
         entries,
         params,
@@ -497,7 +498,12 @@ def cmd_bench(args: argparse.Namespace, out: Callable[[str], None]) -> int:
         memory_mb=args.memory or None,
         grace=args.grace,
         solver=args.solver,
+        skipped=skipped,
     )
+    for name, p, why in skipped:
+        sys.stderr.write(f"skipped {name} for {p}: {why}\n")
+    if not tasks and skipped:
+        raise CliError(f"no task left to run: {len(skipped)} instance/parameter pair(s) skipped (reasons above)")
     bar = None
     if sys.stderr.isatty() and not args.quiet:
         try:

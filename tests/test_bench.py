@@ -481,3 +481,66 @@ def test_row_is_keyed_by_the_content_that_was_solved(tmp_path):
     # --resume does not take the old task as done
     with ResultsDB(db) as d:
         assert (old_hash, tasks[0].config_hash()) not in d.done_keys()
+
+
+# ------------------------------------------------------------ bench minors (issue 10)
+def test_bench_validates_methods_before_running(tmp_path):
+    from sweepwidth.errors import UnsupportedOptionError
+
+    entries = discover([os.path.join(os.path.dirname(__file__), "..", "instances", "grids", "grid-03x03.json")])
+    with pytest.raises(UnsupportedOptionError, match="subset-dp"):  # the valid homology methods are listed
+        make_tasks(entries, ["homology"], ["auto", "no-such-method"], time_limit=5)
+    assert not (tmp_path / "r.sqlite").exists()
+
+
+def test_bench_says_what_it_skipped_and_knows_set_names(capsys, tmp_path):
+    from sweepwidth.cli import main
+    from sweepwidth.errors import UnsupportedOptionError
+
+    inst = os.path.join(os.path.dirname(__file__), "..", "instances")
+    with pytest.raises(UnsupportedOptionError, match="tori") as info:
+        discover([inst], sets=["no-such-set"])
+    assert "grids" in str(info.value)
+    skipped: list = []
+    tasks = make_tasks(discover([inst], sets=["tori"]), ["homology"], time_limit=5, skipped=skipped)
+    assert tasks == [] and skipped and all("plane graph" in why for _n, _p, why in skipped)
+    rc = main(["bench", inst, "--sets", "tori", "--param", "homology", "--time-limit", "5", "--db", str(tmp_path / "r.sqlite")])
+    err = capsys.readouterr().err
+    assert rc != 0 and "skipped" in err and "needs a plane graph" in err
+
+
+def test_bench_refuses_an_empty_database_file(tmp_path):
+    from sweepwidth.errors import FileFormatError
+
+    p = tmp_path / "empty.sqlite"
+    p.write_bytes(b"")
+    with pytest.raises(FileFormatError, match="empty file"):
+        ResultsDB(str(p))
+
+
+def test_two_runs_cannot_share_a_database(tmp_path):
+    from sweepwidth.errors import SweepwidthError
+
+    db = str(tmp_path / "r.sqlite")
+    # a live process (a sleeping child) holds the lock
+    holder = subprocess.Popen([sys.executable, "-c", "import time; time.sleep(60)"])
+    try:
+        import socket
+
+        with ResultsDB(db) as d:
+            d.conn.execute("INSERT OR REPLACE INTO info VALUES ('lock', ?)",
+                           (json.dumps({"host": socket.gethostname(), "pid": holder.pid, "since": time.time()}),))
+        folder = tmp_path / "inst"
+        folder.mkdir()
+        sw.io.write(sw.PlaneGraph.from_graph(nx.path_graph(4)), folder / "p.json")
+        tasks = make_tasks(discover([folder]), ["cutwidth"], time_limit=5)
+        with pytest.raises(SweepwidthError, match="another benchmark run"):
+            run_tasks(tasks, db)
+    finally:
+        holder.kill()
+        holder.wait()
+    # the holder is gone (as after kill -9): its stale lock is taken over
+    rep = run_tasks(tasks, db)
+    assert rep.finished == 1
+    with ResultsDB(db) as d:
+        assert d.conn.execute("SELECT value FROM info WHERE key='lock'").fetchone() is None

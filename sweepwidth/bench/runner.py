@@ -192,6 +192,12 @@ def run_tasks(
     database: ResultsDB = ResultsDB(cast(str, db)) if own_db else cast(ResultsDB, db)  # own_db is isinstance(db, ResultsDB)
     t0 = time.monotonic()
     try:
+        database.acquire_lock()
+    except BaseException:
+        if own_db:
+            database.close()
+        raise
+    try:
         unique: dict[tuple[str, str], Task] = {}
         for t in tasks:
             unique.setdefault(t.key(), t)
@@ -246,5 +252,6 @@ def run_tasks(
         report.seconds = time.monotonic() - t0
         return report
     finally:
+        database.release_lock()
         if own_db:
             database.close()

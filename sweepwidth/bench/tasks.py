@@ -228,6 +228,26 @@ def _read_manifest(path: str, _seen: frozenset = frozenset()) -> list[InstanceEn
     return out
 
 
+def method_names(parameter: str) -> list[str]:
+    """The method names the library's solver of ``parameter`` accepts (empty when unknown)."""
+    try:
+        if parameter == "cutwidth":
+            from ..solve import cutwidth_dispatch as cd
+
+            return ["auto", "heuristic"] + sorted(cd.METHODS)
+        if parameter == "homology":
+            from ..solve import homology as hm
+
+            return list(hm.METHODS)
+        if parameter == "homotopy":
+            from ..solve import homotopy as ht
+
+            return list(ht.METHODS)
+    except (ImportError, AttributeError):  # pragma: no cover - registry moved
+        pass
+    return []
+
+
 def discover(paths: Iterable[str | os.PathLike], *, sets: Sequence[str] | None = None) -> list[InstanceEntry]:
     """Instance entries for files, directories and manifests.
 
@@ -251,9 +271,12 @@ def discover(paths: Iterable[str | os.PathLike], *, sets: Sequence[str] | None =
     """
     out: list[InstanceEntry] = []
     seen: set[str] = set()
+    set_names: set[str] = set()
 
     def add(entries: Iterable[InstanceEntry]) -> None:
         for e in entries:
+            if e.set:
+                set_names.add(str(e.set))
             key = os.path.abspath(e.path)
             if key in seen:
                 continue
@@ -285,6 +308,9 @@ def discover(paths: Iterable[str | os.PathLike], *, sets: Sequence[str] | None =
                 add([InstanceEntry(path=p, name=os.path.splitext(os.path.basename(p))[0])])
         else:
             raise FileFormatError("no such file or directory", path=p)
+    for name in sets or ():
+        if name not in set_names:
+            raise UnsupportedOptionError("instance set", name, sorted(set_names))
     return out
 
 
@@ -299,6 +325,7 @@ def make_tasks(
     memory_mb: int | None = DEFAULT_MEMORY_MB,
     grace: float = 5.0,
     solver: str | None = None,
+    skipped: list | None = None,
 ) -> list[Task]:
     """Cross instances with parameters, methods and seeds.
 
@@ -307,14 +334,23 @@ def make_tasks(
     library's solver in every task (see :class:`Task`).  Per-instance options from the manifest are merged
     under the run's ``options`` (the run's win).
 
+    ``skipped``, when given, receives ``(name, parameter, reason)`` for each
+    instance and parameter that get no task.
+
     Raises
     ------
     UnsupportedOptionError
-        For an unknown parameter or an option the parameter does not take.
+        For an unknown parameter, a method the parameter does not have, or an
+        option the parameter does not take.
     """
     for p in parameters:
         if p not in PARAMETERS:
             raise UnsupportedOptionError("parameter", p, PARAMETERS)
+        if solver is None:  # before any task runs, not after the failing ones
+            valid = method_names(p)
+            for m in methods:
+                if valid and m not in valid:
+                    raise UnsupportedOptionError(f"method for {p}", m, valid)
     opts = dict(options or {})
     if not parameters:
         raise SweepwidthError("a benchmark run needs at least one parameter")
@@ -323,6 +359,8 @@ def make_tasks(
         h = instance_hash(e.path)
         for p in parameters:
             if p != "cutwidth" and e.kind == "graph":
+                if skipped is not None:
+                    skipped.append((e.name, p, f"{p} needs a plane graph; the manifest lists this instance as a graph without an embedding"))
                 continue
             mine = {k: v for k, v in opts.items() if k in OPTIONS[p]}
             merged = dict((e.options or {}).get(p, {}))
