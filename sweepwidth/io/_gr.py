@@ -195,7 +195,7 @@ def _read_fast(text: str, weight_column: bool | None) -> tuple[int, np.ndarray, 
         if not np.all(np.isfinite(weights) & (weights >= 0)) or weights.sum() > MAX_TOTAL_WEIGHT:
             return None  # the line-by-line path names the line and the edge
     else:
-        ends = table
+        ends = table.astype(np.int64, copy=False)
         weights = np.ones(m)
     # every edge line must have exactly `width` fields (the joined split hides line breaks)
     fields = 0

@@ -172,7 +172,7 @@ def _popen_classes() -> dict[str, Any]:
     if "forkserver" in mp.get_all_start_methods():
         from multiprocessing import popen_forkserver
 
-        launch = _rebuilt(popen_forkserver.Popen._launch, spawn=_SpawnWithoutMain(), forkserver=_PrivateServer())
+        launch = _rebuilt(popen_forkserver.Popen._launch, spawn=_SpawnWithoutMain(), forkserver=_PrivateServer())  # type: ignore[attr-defined]
 
         class _ForkserverPopen(popen_forkserver.Popen):  # type: ignore[misc]
             def _launch(self, process_obj: Any) -> None:
@@ -191,7 +191,7 @@ def _popen_classes() -> dict[str, Any]:
     else:
         from multiprocessing import popen_spawn_posix
 
-        launch_spawn = _rebuilt(popen_spawn_posix.Popen._launch, spawn=_SpawnWithoutMain())
+        launch_spawn = _rebuilt(popen_spawn_posix.Popen._launch, spawn=_SpawnWithoutMain())  # type: ignore[attr-defined]
         _POPEN["spawn"] = type("_SpawnPopen", (popen_spawn_posix.Popen,), {"_launch": launch_spawn})
     return _POPEN
 
