@@ -139,3 +139,23 @@ def test_cli_reports_overflowing_weights(tmp_path):
         assert out.returncode != 0
         assert "internal error" not in out.stderr
         assert "weight" in out.stderr, out.stderr
+
+
+@pytest.mark.parametrize("bad, words", BAD)
+def test_every_constructor_refuses(bad, words):
+    # each public constructor ends in PlaneGraph.__init__, which checks the whole range once
+    G = nx.complete_graph(4)
+    nx.set_edge_attributes(G, 1, "weight")
+    G[0][1]["weight"] = bad
+    emb = nx.check_planarity(nx.complete_graph(4))[1]
+    rotation = {v: list(emb.neighbors_cw_order(v))[::-1] for v in emb}
+    pos = {0: (0.0, 0.0), 1: (4.0, 0.0), 2: (2.0, 3.0), 3: (2.0, 1.0)}  # a straight-line drawing of K4
+    builds = {
+        "from_embedding": lambda: PlaneGraph.from_embedding(emb, weights=G),
+        "from_rotation": lambda: PlaneGraph.from_rotation(rotation, weights={(0, 1): bad}),
+        "from_faces": lambda: PlaneGraph.from_faces([[0, 1, 2], [0, 2, 3], [0, 3, 1], [1, 3, 2]], weights={(0, 1): bad}),
+        "from_positions": lambda: PlaneGraph.from_positions(G, pos),
+    }
+    for name, build in builds.items():
+        with pytest.raises(WeightError, match=words):
+            build()
