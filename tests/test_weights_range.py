@@ -159,3 +159,10 @@ def test_every_constructor_refuses(bad, words):
     for name, build in builds.items():
         with pytest.raises(WeightError, match=words):
             build()
+
+
+@pytest.mark.parametrize("bad", [math.nan, math.inf, -1.0])
+def test_ordering_problem_built_directly_refuses(bad):
+    # the cutwidth kernels answered 'bounded' with NaN bounds on such a problem
+    with pytest.raises(WeightError, match=r"edge \('a', 'b'\)"):
+        OrderingProblem(("a", "b", "c"), np.array([[0, 1], [1, 2]]), np.array([bad, 1.0]), frozenset(), frozenset())

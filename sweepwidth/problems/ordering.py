@@ -70,6 +70,21 @@ class OrderingProblem:
     first: frozenset
     last: frozenset
 
+    def __post_init__(self) -> None:
+        # every solver sums these weights: NaN, inf or negative values would give NaN bounds
+        # or endless compiled loops, so a problem built directly is checked too (vectorised)
+        w = np.asarray(self.weights, dtype=np.float64)
+        bad = ~(np.isfinite(w) & (w >= 0))
+        if bad.any():
+            from ..errors import WeightError
+
+            e = int(np.flatnonzero(bad)[0])
+            u, v = (int(x) for x in self.edges[e])
+            raise WeightError(
+                f"weight of edge ({self.labels[u]!r}, {self.labels[v]!r}) is {float(w[e])!r}; "
+                "expected a finite non-negative number"
+            )
+
     @property
     def n(self) -> int:
         return len(self.labels)
