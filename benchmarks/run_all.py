@@ -22,6 +22,7 @@ SCRIPTS = {
     "sweeps.py": (["--quick"], []),
     "homotopy_bounds.py": ([], ["--full"]),
     "runner_overhead.py": ([], []),
+    "io_read.py": (["--edges", "100000"], ["--auto"]),
 }
 
 

@@ -221,6 +221,44 @@ def _write_saved(doc: dict, target: str, instance: str) -> None:
         raise CliError(f"{target}: cannot be written: {err.strerror}") from err
 
 
+def _same_file(a: str, b: str) -> bool:
+    """True when paths ``a`` and ``b`` name one file (resolved paths, or the same inode)."""
+    try:
+        if os.path.exists(a) and os.path.exists(b):
+            return os.path.samefile(a, b)
+    except OSError:
+        pass
+    return os.path.realpath(a) == os.path.realpath(b)
+
+
+def _refuse_overwrite(target: str, inputs: Sequence[str], what: str = "an input file") -> None:
+    """CliError when writing ``target`` would overwrite one of ``inputs``."""
+    for src in inputs:
+        if _same_file(target, src):
+            raise CliError(f"{target}: refusing to write over {what} ({src}); choose another output file")
+
+
+def _save_names(files: Sequence[str]) -> dict[str, str]:
+    """A distinct file-name stem per input for ``--save`` (files of the same name in other folders get their folder's name)."""
+    real = {f: os.path.realpath(f) for f in files}
+    by_stem: dict[str, set[str]] = {}
+    for f in files:
+        by_stem.setdefault(os.path.splitext(os.path.basename(f))[0], set()).add(real[f])
+    names: dict[str, str] = {}
+    used: dict[str, str] = {}  # stem -> real path that owns it
+    for f in files:
+        stem = os.path.splitext(os.path.basename(f))[0]
+        if len(by_stem[stem]) > 1:
+            folder = os.path.basename(os.path.dirname(real[f])) or "root"
+            stem = f"{folder}-{stem}"
+        base, k = stem, 2
+        while used.get(stem, real[f]) != real[f]:
+            stem, k = f"{base}-{k}", k + 1
+        used[stem] = real[f]
+        names[f] = stem
+    return names
+
+
 # -------------------------------------------------------------------- solve
 def cmd_solve(args: argparse.Namespace, out: Callable[[str], None]) -> int:
     from .bench.hashing import instance_hash
@@ -230,8 +268,14 @@ def cmd_solve(args: argparse.Namespace, out: Callable[[str], None]) -> int:
     params = _params(args.param)
     if args.output and (len(args.files) > 1 or len(params) > 1):
         raise CliError("-o/--output takes one file and one parameter; use --save DIR for several")
+    if args.output:
+        _refuse_overwrite(args.output, args.files, "an input instance")
+    save_names = _save_names(args.files)
     if args.save:
         os.makedirs(args.save, exist_ok=True)
+        for f in args.files:
+            for p in params:
+                _refuse_overwrite(os.path.join(args.save, f"{save_names[f]}.{p}.json"), args.files, "an input instance")
     rows: list[list[str]] = []
     failures = 0
     for path in args.files:
@@ -255,8 +299,7 @@ def cmd_solve(args: argparse.Namespace, out: Callable[[str], None]) -> int:
             saved = saved_result(path, h, res, opts)
             targets = []
             if args.save:
-                stem = os.path.splitext(os.path.basename(path))[0]
-                targets.append(os.path.join(args.save, f"{stem}.{p}.json"))
+                targets.append(os.path.join(args.save, f"{save_names[path]}.{p}.json"))
             if args.output:
                 targets.append(args.output)
             for target in targets:
@@ -397,6 +440,7 @@ def cmd_bench(args: argparse.Namespace, out: Callable[[str], None]) -> int:
     entries = discover(args.paths, sets=_split(args.sets, []) or None)
     if not entries:
         raise CliError("no instances found under " + ", ".join(args.paths))
+    skipped: list = []
     tasks = make_tasks(
         entries,
         params,
@@ -407,7 +451,12 @@ def cmd_bench(args: argparse.Namespace, out: Callable[[str], None]) -> int:
         memory_mb=args.memory or None,
         grace=args.grace,
         solver=args.solver,
+        skipped=skipped,
     )
+    for name, p, why in skipped:
+        sys.stderr.write(f"skipped {name} for {p}: {why}\n")
+    if not tasks and skipped:
+        raise CliError(f"no task left to run: {len(skipped)} instance/parameter pair(s) skipped (reasons above)")
     bar = None
     if sys.stderr.isatty() and not args.quiet:
         try:
@@ -477,6 +526,8 @@ def cmd_export(args: argparse.Namespace, out: Callable[[str], None]) -> int:
     fmt = args.format
     if fmt is None:
         fmt = "jsonl" if args.output and args.output.endswith((".jsonl", ".ndjson")) else "csv"
+    if args.output:
+        _refuse_overwrite(args.output, [args.db], "the results database")
     with ResultsDB(args.db) as db:
         if args.output:
             try:
@@ -501,6 +552,7 @@ def cmd_dual(args: argparse.Namespace, out: Callable[[str], None]) -> int:
     if args.output:
         from .io import write
 
+        _refuse_overwrite(args.output, [args.file])
         write(D, args.output)
         out(f"dual written to {args.output}: {D.number_of_vertices()} vertices, {D.number_of_edges()} edges, {D.number_of_faces()} faces")
     else:
@@ -528,6 +580,7 @@ def cmd_dual(args: argparse.Namespace, out: Callable[[str], None]) -> int:
 def cmd_convert(args: argparse.Namespace, out: Callable[[str], None]) -> int:
     from .io import read, write
 
+    _refuse_overwrite(args.output, [args.input])
     obj = read(args.input, format=args.from_format) if args.from_format else read(args.input)
     if args.to_format:
         write(obj, args.output, format=args.to_format)
@@ -747,6 +800,14 @@ _COMMANDS = {
 }
 
 
+class _Terminated(KeyboardInterrupt):
+    """SIGTERM, turned into an exception so that running children are stopped on the way out."""
+
+
+def _on_sigterm(signum: int, frame: Any) -> None:
+    raise _Terminated()
+
+
 def main(argv: Sequence[str] | None = None) -> int:
     """Run the command line; return the exit status.
 
@@ -778,8 +839,17 @@ def main(argv: Sequence[str] | None = None) -> int:
 
     from .errors import SweepwidthError
 
+    import signal
+    import threading
+
+    previous = None
+    if threading.current_thread() is threading.main_thread() and hasattr(signal, "SIGTERM"):
+        previous = signal.signal(signal.SIGTERM, _on_sigterm)
     try:
         return _COMMANDS[args.verb](args, out)
+    except _Terminated:
+        sys.stderr.write("sweepwidth: terminated\n")
+        return 143
     except CliError as err:
         sys.stderr.write(f"sweepwidth: error: {err}\n")
     except SweepwidthError as err:
@@ -800,6 +870,9 @@ def main(argv: Sequence[str] | None = None) -> int:
         sys.stderr.write(
             f"sweepwidth: error: internal error {type(err).__name__}: {msg} (set SWEEPWIDTH_TRACEBACK=1 for the traceback)\n"
         )
+    finally:
+        if previous is not None:
+            signal.signal(signal.SIGTERM, previous)
     return EXIT_FAIL
 
 

@@ -48,3 +48,13 @@ def native_forever(*, progress):
 
 def pid(*, progress):
     return os.getpid()
+
+
+def monotone_path_all_nan(k, *, progress):
+    """The compiled path recovery of the homology subset DP on a table of NaN (issue 10)."""
+    import numpy as np
+
+    from sweepwidth.solve.homology.face_sets import _monotone_path
+
+    best = np.full(1 << k, np.nan)
+    return _monotone_path(k, best, (1 << k) - 1).tolist()

@@ -457,3 +457,92 @@ def test_discover_reads_manifests_and_filters_sets(tmp_path):
         make_tasks(entries, ["girth"])
     with pytest.raises(sw.FileFormatError):
         discover([tmp_path / "missing"])
+
+
+def test_row_is_keyed_by_the_content_that_was_solved(tmp_path):
+    # issue 10 item 5: the hash was taken at task creation, the file read again later, so a
+    # file replaced in between stored the old hash with the new file's answer
+    from sweepwidth.bench.hashing import instance_hash
+
+    folder = tmp_path / "inst"
+    folder.mkdir()
+    target = folder / "g.json"
+    sw.io.write(sw.PlaneGraph.from_graph(nx.path_graph(5)), target)  # cutwidth of a path: 1
+    old_hash = instance_hash(target)
+    tasks = make_tasks(discover([folder]), ["cutwidth"], time_limit=20)
+    assert [t.instance_hash for t in tasks] == [old_hash]
+    # replaced between task creation and the solve
+    sw.io.write(sw.PlaneGraph.from_graph(nx.cycle_graph(6)), target)  # cutwidth of a cycle: 2
+    new_hash = instance_hash(target)
+    db = str(tmp_path / "r.sqlite")
+    rep = run_tasks(tasks, db, jobs=1)
+    (row,) = rep.rows
+    assert row["value"] == 2  # the answer of the file that was solved (cycle: 2, path: 1; common practice)
+    assert row["instance_hash"] == new_hash != old_hash
+    assert "changed" in row["message"]
+    # --resume does not take the old task as done
+    with ResultsDB(db) as d:
+        assert (old_hash, tasks[0].config_hash()) not in d.done_keys()
+
+
+# ------------------------------------------------------------ bench minors (issue 10)
+def test_bench_validates_methods_before_running(tmp_path):
+    from sweepwidth.errors import UnsupportedOptionError
+
+    entries = discover([os.path.join(os.path.dirname(__file__), "..", "instances", "grids", "grid-03x03.json")])
+    with pytest.raises(UnsupportedOptionError, match="subset-dp"):  # the valid homology methods are listed
+        make_tasks(entries, ["homology"], ["auto", "no-such-method"], time_limit=5)
+    assert not (tmp_path / "r.sqlite").exists()
+
+
+def test_bench_says_what_it_skipped_and_knows_set_names(capsys, tmp_path):
+    from sweepwidth.cli import main
+    from sweepwidth.errors import UnsupportedOptionError
+
+    inst = os.path.join(os.path.dirname(__file__), "..", "instances")
+    with pytest.raises(UnsupportedOptionError, match="tori") as info:
+        discover([inst], sets=["no-such-set"])
+    assert "grids" in str(info.value)
+    skipped: list = []
+    tasks = make_tasks(discover([inst], sets=["tori"]), ["homology"], time_limit=5, skipped=skipped)
+    assert tasks == [] and skipped and all("plane graph" in why for _n, _p, why in skipped)
+    rc = main(["bench", inst, "--sets", "tori", "--param", "homology", "--time-limit", "5", "--db", str(tmp_path / "r.sqlite")])
+    err = capsys.readouterr().err
+    assert rc != 0 and "skipped" in err and "needs a plane graph" in err
+
+
+def test_bench_refuses_an_empty_database_file(tmp_path):
+    from sweepwidth.errors import FileFormatError
+
+    p = tmp_path / "empty.sqlite"
+    p.write_bytes(b"")
+    with pytest.raises(FileFormatError, match="empty file"):
+        ResultsDB(str(p))
+
+
+def test_two_runs_cannot_share_a_database(tmp_path):
+    from sweepwidth.errors import SweepwidthError
+
+    db = str(tmp_path / "r.sqlite")
+    # a live process (a sleeping child) holds the lock
+    holder = subprocess.Popen([sys.executable, "-c", "import time; time.sleep(60)"])
+    try:
+        import socket
+
+        with ResultsDB(db) as d:
+            d.conn.execute("INSERT OR REPLACE INTO info VALUES ('lock', ?)",
+                           (json.dumps({"host": socket.gethostname(), "pid": holder.pid, "since": time.time()}),))
+        folder = tmp_path / "inst"
+        folder.mkdir()
+        sw.io.write(sw.PlaneGraph.from_graph(nx.path_graph(4)), folder / "p.json")
+        tasks = make_tasks(discover([folder]), ["cutwidth"], time_limit=5)
+        with pytest.raises(SweepwidthError, match="another benchmark run"):
+            run_tasks(tasks, db)
+    finally:
+        holder.kill()
+        holder.wait()
+    # the holder is gone (as after kill -9): its stale lock is taken over
+    rep = run_tasks(tasks, db)
+    assert rep.finished == 1
+    with ResultsDB(db) as d:
+        assert d.conn.execute("SELECT value FROM info WHERE key='lock'").fetchone() is None

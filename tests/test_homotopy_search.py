@@ -575,3 +575,40 @@ def test_between_homology_and_constructed_homotopy(seed, interior):
     assert hw.lower <= out.upper
     b = sw.homotopy_height(P, start=H.to_json(H.start), method="bounds")
     assert b.lower <= out.upper <= b.upper
+
+
+# ------------------------------------------------------- memory limit (issue 10)
+def test_search_memory_is_estimated_before_it_starts():
+    from sweepwidth.errors import ProblemTooLargeError
+    from sweepwidth.generators import triangulated_grid
+
+    P = triangulated_grid(6)
+    with pytest.raises(ProblemTooLargeError, match="max_memory") as info:
+        sw.homotopy_height(P, method="search", max_memory=100_000)
+    assert isinstance(info.value, MemoryError)  # also the matching builtin
+    with pytest.raises(sw.SweepwidthError, match="max_memory"):
+        sw.homotopy_height(P, method="search", max_memory=-5)
+
+
+def test_search_stops_at_its_memory_limit():
+    # issue 10: 'search' on 200 vertices grew past 1.6 GB with no limit; now the stored states
+    # are counted and the search stops at max_memory (traced memory stays near it)
+    import tracemalloc
+
+    from sweepwidth.errors import ProblemTooLargeError
+    from sweepwidth.generators import delaunay
+
+    P = delaunay(200, seed=1)  # ~900 000 walk states (~0.9 GB) in 15 s without a limit (measured)
+    limit = 4 << 20
+    tracemalloc.start()
+    try:
+        with pytest.raises(ProblemTooLargeError, match="max_memory") as info:
+            sw.homotopy_height(P, method="search", max_memory=limit, time_limit=120)
+        _, peak = tracemalloc.get_traced_memory()
+    finally:
+        tracemalloc.stop()
+    assert "bounds [" in str(info.value)
+    assert peak < 4 * limit + (16 << 20), peak  # the states, plus the graph and the bounds' own work
+    # 'auto' keeps its proven bounds instead, and they are sound (the witness replays)
+    r = sw.homotopy_height(P, method="auto", max_memory=limit, time_limit=20)
+    assert r.lower <= r.upper and r.check(P) == pytest.approx(r.upper)

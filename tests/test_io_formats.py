@@ -164,6 +164,66 @@ def test_gr_weighted_nonplanar_and_disconnected():
     assert isinstance(M, sw.PlaneGraph) and M.number_of_faces() == 3
 
 
+@pytest.mark.parametrize("weighted", [False, True])
+def test_gr_bulk_parse_matches_networkx(tmp_path, weighted):
+    # the bulk (numpy) parse against networkx's own edge-list reader on the same edges
+    rng = np.random.default_rng(7)
+    G0 = nx.gnm_random_graph(60, 150, seed=3)
+    lines = ["c random graph", "c @weighted" if weighted else "c plain", f"p tw 60 {G0.number_of_edges()}"]
+    ref = []
+    for u, v in G0.edges():
+        w = float(rng.integers(1, 9)) / 2
+        lines.append(f"{u + 1} {v + 1} {w}" if weighted else f"{u + 1} {v + 1}")
+        ref.append(f"{u + 1} {v + 1} {w}" if weighted else f"{u + 1} {v + 1}")
+    path = tmp_path / "g.gr"
+    path.write_text("\n".join(lines) + "\n")
+    (tmp_path / "g.edges").write_text("\n".join(ref) + "\n")
+    G = read(path, kind="graph")
+    if weighted:
+        N = nx.read_weighted_edgelist(tmp_path / "g.edges", nodetype=int)
+    else:
+        N = nx.read_edgelist(tmp_path / "g.edges", nodetype=int, data=False)
+        nx.set_edge_attributes(N, 1.0, "weight")
+    N.add_nodes_from(range(1, 61))
+    assert nx.utils.graphs_equal(G, N)
+    # the line-by-line path gives the same graph (a comment between edges forces it)
+    lines.insert(4, "c between edges")
+    path.write_text("\n".join(lines) + "\n")
+    assert nx.utils.graphs_equal(read(path, kind="graph"), N)
+
+
+def test_gr_kind_graph_runs_no_planarity_test(tmp_path, monkeypatch):
+    # issue 10: kind='graph' ran the planarity test (most of the 83 s and 4.1 GB at 10^6 edges)
+    import sweepwidth.io._json as js
+
+    def refuse(*a, **k):
+        raise AssertionError("planarity test run for kind='graph'")
+
+    path = tmp_path / "grid.gr"
+    path.write_bytes(write_gr(nx.grid_2d_graph(5, 5)))
+    monkeypatch.setattr(js, "_from_planarity", refuse)
+    G = read(path, kind="graph")
+    assert isinstance(G, nx.Graph) and G.number_of_edges() == 40
+    with pytest.raises(AssertionError, match="planarity"):
+        read(path)  # auto still embeds
+
+
+@pytest.mark.parametrize(
+    "text, words",
+    [
+        (b"p tw 3 2\n1 2\n2 4\n", "outside 1..3"),
+        (b"p tw 3 2\n1 2 3\n2 3\n", "fields"),
+        (b"c @weighted\np tw 3 2\n1 2 1\n2 3 nan\n", "NaN"),
+        (b"c @weighted\np tw 3 2\n1 2 1\n2 3 -2\n", "negative"),
+        (b"p tw 3 3\n1 2\n2 3\n", "declares 3 edges"),
+        (b"p tw 3 2\n1 2\n2 x\n", "integer"),
+    ],
+)
+def test_gr_errors_still_name_the_line(text, words):
+    with pytest.raises(FileFormatError if words not in ("NaN", "negative") else sw.WeightError, match=words):
+        read_gr(text, embed=False)
+
+
 def test_gr_writes_networkx_graphs_and_weights():
     G = nx.cycle_graph(4)
     G[0][1]["weight"] = 2.5

@@ -3,8 +3,9 @@
 :func:`execute_task` is what an executor runs (a thread of the local pool,
 a dask worker, anything with ``submit``).  It starts a child process that
 
-1. asks the kernel to kill it when its parent dies (Linux ``PR_SET_PDEATHSIG``),
-   so that killing a benchmark run leaves no stray solvers behind;
+1. ends itself when its parent dies (Linux ``PR_SET_PDEATHSIG`` and, on every
+   platform, a watchdog thread on the parent's sentinel), so that killing a
+   benchmark run leaves no stray solvers behind;
 2. caps its address space with ``resource.setrlimit(RLIMIT_AS)``;
 3. loads the instance, solves it with the task's time limit, replays the
    witness with the independent checker, and reports back.
@@ -73,17 +74,10 @@ STARTUP_ALLOWANCE = 60.0
 
 # ---------------------------------------------------------------- child side
 def _die_with_parent() -> None:
-    """Linux: deliver SIGKILL to this process when its parent exits."""
-    if not sys.platform.startswith("linux"):
-        return
-    try:
-        import ctypes
+    """End this process when its parent goes away (Linux parent-death signal plus a watchdog thread)."""
+    from ..solve._deadline import die_with_parent
 
-        libc = ctypes.CDLL(None, use_errno=True)
-        PR_SET_PDEATHSIG = 1
-        libc.prctl(PR_SET_PDEATHSIG, signal.SIGKILL, 0, 0, 0)
-    except Exception:  # pragma: no cover - no prctl
-        pass
+    die_with_parent()
 
 
 def _limit_memory(memory_mb: Any) -> None:
@@ -258,6 +252,33 @@ def _import_solver(spec: str) -> Callable[..., Any]:
     return fn
 
 
+def _load_snapshot(path: str) -> tuple[Any, str]:
+    """Load ``path`` and hash exactly the bytes that were loaded.
+
+    The file is read once into memory and both the hash and the instance come
+    from that copy, so a file replaced while a benchmark runs can never pair
+    one content's hash with another content's answer.
+    """
+    import shutil
+    import tempfile
+
+    from .hashing import instance_hash
+    from .loading import load_instance
+
+    if not os.path.exists(path):
+        load_instance(path)  # raises the reader's "no such file" error
+    with open(path, "rb") as fh:
+        data = fh.read()
+    folder = tempfile.mkdtemp(prefix="sweepwidth-task-")
+    try:
+        copy = os.path.join(folder, os.path.basename(path))
+        with open(copy, "wb") as fh:
+            fh.write(data)
+        return load_instance(copy), instance_hash(copy)
+    finally:
+        shutil.rmtree(folder, ignore_errors=True)
+
+
 def _body(task: Mapping[str, Any], send: Callable[[list], None]) -> None:
     """Load, solve, check; every outcome goes through ``send`` as a JSON-able list."""
     _die_with_parent()
@@ -269,7 +290,8 @@ def _body(task: Mapping[str, Any], send: Callable[[list], None]) -> None:
         from ..errors import SweepwidthError
         from .loading import check_object, load_instance, solve_object
 
-        obj = load_instance(task["instance"])
+        obj, solved_hash = _load_snapshot(task["instance"])
+        send(["instance", solved_hash])
 
         def progress(p: Any) -> None:
             try:
@@ -348,13 +370,10 @@ def _subprocess_main() -> None:
 
 # --------------------------------------------------------------- parent side
 def _context() -> Any:
-    ctx = mp.get_context("forkserver") if "forkserver" in mp.get_all_start_methods() else mp.get_context("spawn")
-    if ctx.get_start_method() == "forkserver":
-        try:
-            ctx.set_forkserver_preload(list(_PRELOAD))
-        except Exception:  # pragma: no cover
-            pass
-    return ctx
+    """A private forkserver with the solver stack preloaded; children never run ``__main__``."""
+    from ..solve._deadline import IsolatedContext
+
+    return IsolatedContext("bench", _PRELOAD)
 
 
 class _ForkChannel:
@@ -502,6 +521,7 @@ def execute_task(task: Any, *, isolation: str = "auto") -> dict:
         chan.kill()
     last: dict | None = None
     final: list | None = None
+    solved_hash: str | None = None  # hash of the bytes the child actually loaded
     killed = False
     try:
         while final is None:
@@ -523,6 +543,8 @@ def execute_task(task: Any, *, isolation: str = "auto") -> dict:
                 continue
             if msg[0] == "started":
                 started = time.monotonic()
+            elif msg[0] == "instance":
+                solved_hash = str(msg[1])
             elif msg[0] == "progress":
                 last = _merge_bounds(last, msg[1])
             else:
@@ -536,6 +558,7 @@ def execute_task(task: Any, *, isolation: str = "auto") -> dict:
     end = time.monotonic()
     wall = end - t0
     out = _outcome(t, final, last, killed, code, wall)
+    out["instance_hash"] = solved_hash
     out["startup"] = (started - t0) if started is not None else None
     out["after_start"] = (end - started) if started is not None else None
     return out

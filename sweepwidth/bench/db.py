@@ -90,6 +90,26 @@ def _num(x: Any) -> float | None:
         return None
 
 
+def _stale(owner: Mapping[str, Any]) -> bool:
+    """True when the lock owner is a process of this host that no longer runs."""
+    import socket
+
+    if owner.get("host") != socket.gethostname():
+        return False  # cannot tell: another machine sharing the file
+    pid = owner.get("pid")
+    if not isinstance(pid, int) or pid <= 0:
+        return True
+    if pid == os.getpid():
+        return True
+    try:
+        os.kill(pid, 0)
+    except ProcessLookupError:
+        return True
+    except PermissionError:
+        return False
+    return False
+
+
 class ResultsDB:
     """An open results database (a context manager; closing commits nothing new).
 
@@ -119,6 +139,12 @@ class ResultsDB:
         parent = os.path.dirname(os.path.abspath(self.path))
         if not os.path.isdir(parent):
             raise FileFormatError("the database's folder does not exist", path=self.path)
+        if os.path.isfile(self.path) and os.path.getsize(self.path) == 0:
+            # SQLite would silently take an empty file as a new database
+            raise FileFormatError(
+                "is an empty file (0 bytes), not a results database; remove it to start a new database there",
+                path=self.path,
+            )
         try:
             self.conn = sqlite3.connect(self.path, timeout=30.0, isolation_level=None)
             self.conn.execute("PRAGMA journal_mode=WAL")
@@ -136,6 +162,48 @@ class ResultsDB:
                 raise FileFormatError(f"table 'results' lacks columns {sorted(missing)}; not a sweepwidth results database", path=self.path)
         except sqlite3.DatabaseError as err:
             raise FileFormatError(f"not a results database: {err}", path=self.path) from err
+
+    # ---------------------------------------------------------------- lock
+    def acquire_lock(self) -> None:
+        """Make this process the only one running tasks into this database.
+
+        The lock is a row in the ``info`` table holding the owner's host and
+        process id; a row left by a process that no longer runs on this host
+        (killed with SIGKILL) is taken over.
+
+        Raises
+        ------
+        SweepwidthError
+            When another live process holds the lock.
+        """
+        import socket
+
+        from ..errors import SweepwidthError
+
+        me = json.dumps({"host": socket.gethostname(), "pid": os.getpid(), "since": time.time()})
+        self.conn.execute("BEGIN IMMEDIATE")
+        try:
+            row = self.conn.execute("SELECT value FROM info WHERE key='lock'").fetchone()
+            if row is not None:
+                other = json.loads(row[0])
+                if not _stale(other):
+                    raise SweepwidthError(
+                        f"{self.path}: another benchmark run (process {other.get('pid')} on {other.get('host')}, since "
+                        f"{time.strftime('%Y-%m-%d %H:%M:%S', time.localtime(other.get('since', 0)))}) is writing to this "
+                        "database; wait for it to finish or use another --db"
+                    )
+            self.conn.execute("INSERT OR REPLACE INTO info VALUES ('lock', ?)", (me,))
+            self.conn.execute("COMMIT")
+        except BaseException:
+            self.conn.execute("ROLLBACK")
+            raise
+        self._locked = True
+
+    def release_lock(self) -> None:
+        """Give the lock of :meth:`acquire_lock` back (a no-op when not held)."""
+        if getattr(self, "_locked", False):
+            self.conn.execute("DELETE FROM info WHERE key='lock' AND json_extract(value, '$.pid') = ?", (os.getpid(),))
+            self._locked = False
 
     # ---------------------------------------------------------------- runs
     def start_run(self, meta: Mapping[str, Any]) -> str:

@@ -76,6 +76,12 @@ def task_row(task: Task, outcome: Mapping[str, Any]) -> dict:
     }
     for k in ("status", "value", "lower", "upper", "seconds", "wall", "checked", "message", "result"):
         row[k] = outcome.get(k)
+    solved = outcome.get("instance_hash")
+    if solved and solved != task.instance_hash:
+        # the file changed after the task was created: the row belongs to what was solved
+        row["instance_hash"] = solved
+        note = "the instance file changed after the task was created; row stored under the content that was solved"
+        row["message"] = f"{row['message']}; {note}" if row.get("message") else note
     row["result_method"] = outcome.get("method", "")
     row["verdict"] = verdict(row, task.known)
     return row
@@ -183,6 +189,12 @@ def run_tasks(
     database: ResultsDB = ResultsDB(cast(str, db)) if own_db else cast(ResultsDB, db)  # own_db is isinstance(db, ResultsDB)
     t0 = time.monotonic()
     try:
+        database.acquire_lock()
+    except BaseException:
+        if own_db:
+            database.close()
+        raise
+    try:
         unique: dict[tuple[str, str], Task] = {}
         for t in tasks:
             unique.setdefault(t.key(), t)
@@ -237,5 +249,6 @@ def run_tasks(
         report.seconds = time.monotonic() - t0
         return report
     finally:
+        database.release_lock()
         if own_db:
             database.close()

@@ -252,9 +252,12 @@ def discover(paths: Iterable[str | os.PathLike], *, sets: Sequence[str] | None =
     """
     out: list[InstanceEntry] = []
     seen: set[str] = set()
+    set_names: set[str] = set()
 
     def add(entries: Iterable[InstanceEntry]) -> None:
         for e in entries:
+            if e.set:
+                set_names.add(str(e.set))
             key = os.path.abspath(e.path)
             if key in seen:
                 continue
@@ -286,6 +289,9 @@ def discover(paths: Iterable[str | os.PathLike], *, sets: Sequence[str] | None =
                 add([InstanceEntry(path=p, name=os.path.splitext(os.path.basename(p))[0])])
         else:
             raise FileFormatError("no such file or directory", path=p)
+    for name in sets or ():
+        if name not in set_names:
+            raise UnsupportedOptionError("instance set", name, sorted(set_names))
     return out
 
 
@@ -300,6 +306,7 @@ def make_tasks(
     memory_mb: int | None = DEFAULT_MEMORY_MB,
     grace: float = 5.0,
     solver: str | None = None,
+    skipped: list | None = None,
 ) -> list[Task]:
     """Cross instances with parameters, methods and seeds.
 
@@ -307,6 +314,9 @@ def make_tasks(
     homotopy tasks.  ``solver`` (``"module:function"``) replaces the
     library's solver in every task (see :class:`Task`).  Per-instance options from the manifest are merged
     under the run's ``options`` (the run's win).
+
+    ``skipped``, when given, receives ``(name, parameter, reason)`` for each
+    instance and parameter that get no task.
 
     Raises
     ------
@@ -328,6 +338,8 @@ def make_tasks(
         h = instance_hash(e.path)
         for p in parameters:
             if registry.parameter(p).problem == "plane" and e.kind == "graph":
+                if skipped is not None:
+                    skipped.append((e.name, p, f"{p} needs a plane graph; the manifest lists this instance as a graph without an embedding"))
                 continue
             mine = {k: v for k, v in opts.items() if k in OPTIONS[p]}
             merged = dict((e.options or {}).get(p, {}))

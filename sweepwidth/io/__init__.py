@@ -255,6 +255,8 @@ def read(path: str | os.PathLike, *, format: str | None = None, kind: str = "aut
         if index >= len(graphs):
             raise FileFormatError(f"holds {len(graphs)} graphs; graph {index} was asked for", path=path_name(path))
         return _as_kind(graphs[index], kind, path)
+    if fmt == "gr" and kind == "graph":
+        options.setdefault("embed", False)  # no planarity test for a graph that will not be embedded
     return _as_kind(_reader(fmt)(data, path, **options)[0], kind, path)
 
 

@@ -23,7 +23,7 @@ from typing import Any, Callable, Hashable, Mapping, NamedTuple, Sequence
 import networkx as nx
 import numpy as np
 
-from .._weights import check_weight, weight_function
+from .._weights import check_total, check_weight, check_weight_array, weight_function
 from ..errors import InvalidEmbeddingError, NonPlanarError, SweepwidthError
 from . import _arrays
 
@@ -160,7 +160,9 @@ class PlaneGraph:
         else:
             self._eu = [int(a) for a, _ in ends]
             self._ev = [int(b) for _, b in ends]
-        self._w = weights.astype(float).tolist() if isinstance(weights, np.ndarray) else [float(x) for x in weights]
+        if len(weights) != m:
+            raise InvalidEmbeddingError(f"{m} edges but {len(weights)} weights")
+        self._w = check_weight_array(weights, self._edge_name)
         # edges without attributes share one read-only empty mapping (edge_data() hands out copies)
         if edge_data is None:
             self._edata = [_NO_DATA] * m
@@ -546,6 +548,13 @@ class PlaneGraph:
             odd ^= {d >> 1}
         return frozenset(odd)
 
+    def _edge_name(self, e: int) -> str:
+        """``edge e (u, v)`` for messages (labels when the ends are valid)."""
+        try:
+            return f"edge {e} ({self._labels[self._eu[e]]!r}, {self._labels[self._ev[e]]!r})"
+        except (IndexError, AttributeError):
+            return f"edge {e}"
+
     def with_weights(self, weights: Sequence[float] | Mapping[int, float]) -> "PlaneGraph":
         """A copy with new edge weights; the embedding, faces and ids stay the same.
 
@@ -590,6 +599,7 @@ class PlaneGraph:
             if len(seq) != m:
                 raise InvalidEmbeddingError(f"{m} edges but {len(seq)} weights")
             w = [check_weight(x, f"edge {e}") for e, x in enumerate(seq)]
+        check_total(w, self._edge_name)
         new = object.__new__(PlaneGraph)
         for slot in PlaneGraph.__slots__:
             setattr(new, slot, getattr(self, slot))

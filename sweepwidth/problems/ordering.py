@@ -27,7 +27,7 @@ import numpy as np
 import scipy.sparse  # noqa: F401 - imported up front: its first import costs ~1 s
 import scipy.sparse.csgraph  # noqa: F401
 
-from .._weights import check_weight, weight_function
+from .._weights import check_total, check_weight, weight_function
 from ..errors import SweepwidthError, UnsupportedOptionError
 
 __all__ = ["OrderingProblem", "PinContraction"]
@@ -69,6 +69,21 @@ class OrderingProblem:
     weights: np.ndarray
     first: frozenset
     last: frozenset
+
+    def __post_init__(self) -> None:
+        # every solver sums these weights: NaN, inf or negative values would give NaN bounds
+        # or endless compiled loops, so a problem built directly is checked too (vectorised)
+        w = np.asarray(self.weights, dtype=np.float64)
+        bad = ~(np.isfinite(w) & (w >= 0))
+        if bad.any():
+            from ..errors import WeightError
+
+            e = int(np.flatnonzero(bad)[0])
+            u, v = (int(x) for x in self.edges[e])
+            raise WeightError(
+                f"weight of edge ({self.labels[u]!r}, {self.labels[v]!r}) is {float(w[e])!r}; "
+                "expected a finite non-negative number"
+            )
 
     @property
     def n(self) -> int:
@@ -126,6 +141,7 @@ class OrderingProblem:
         keys = sorted(acc)
         edges = np.array(keys, dtype=np.int64).reshape(-1, 2)
         weights = np.array([acc[k] for k in keys], dtype=np.float64)
+        check_total(weights, lambda e: f"edge ({labels[keys[e][0]]!r}, {labels[keys[e][1]]!r})")
         return cls(
             labels=labels,
             edges=edges,

@@ -24,9 +24,30 @@ development machine (2 shared cores, Python 3.11): the first call pays
 12-30 ms each, against about 80 ms for an empty ``spawn`` child before any
 import.  The child imports the
 module of the function it runs, so keep such functions in light modules.
-``benchmarks/cutwidth.py --overhead`` re-measures it.  As with ``spawn``, a
-script that calls :func:`run_limited` at import time needs the
-``if __name__ == "__main__":`` guard.
+``benchmarks/cutwidth.py --overhead`` re-measures it.
+
+User code is never run in a child
+---------------------------------
+The standard ``forkserver`` and ``spawn`` start methods re-run the calling
+program's ``__main__`` in every child (as ``__mp_main__``), so a research
+script without an ``if __name__ == "__main__":`` guard would print its output
+again, write its files again and start its own solves inside the child.  The
+children started here come from a private forkserver (not the one shared with
+the caller's own :mod:`multiprocessing` use) and are told nothing about
+``__main__``: only the library's own picklable functions run in them, so
+plain scripts, ``python -c``, scripts read from standard input and notebooks
+all behave the same.  ``fork`` alone would avoid the re-run too, but forking
+a process that already runs threads (numba, BLAS, the caller's own) can
+deadlock the child, so it is used only where the parent is known to be a
+fresh single-threaded child (the benchmark's task processes).
+
+Children die with their parent
+------------------------------
+Every child asks the kernel for ``SIGKILL`` when its parent exits (Linux
+``PR_SET_PDEATHSIG``) and, on every platform, runs a watchdog thread that
+waits on the parent's sentinel (a pipe the parent holds) and ends the child
+when it closes.  So killing the caller with SIGKILL or SIGTERM leaves no
+solver running.
 
 Solvers and budgets (python-sat 1.9.dev24)
 ------------------------------------------
@@ -41,9 +62,14 @@ from __future__ import annotations
 import multiprocessing as mp
 import os
 import pickle
+import signal
+import sys
 import threading
 import time
 import traceback
+import types
+from multiprocessing import context as _mp_context
+from multiprocessing import spawn as _mp_spawn
 from typing import Any, Callable, Sequence
 
 from ..errors import SweepwidthError, UnsupportedOptionError
@@ -54,6 +80,8 @@ __all__ = [
     "remaining",
     "ChildProcessError_",
     "BUDGET_SOLVERS",
+    "IsolatedContext",
+    "die_with_parent",
 ]
 
 #: python-sat solver names whose ``solve_limited`` honours ``conf_budget``.
@@ -66,7 +94,7 @@ BUDGET_SOLVERS = frozenset(
     }
 )
 
-_PRELOAD = ["__main__", "numpy", "networkx", "pysat.solvers", "pysat.card", "sweepwidth.solve._deadline", "sweepwidth.solve.ordering.sat"]
+_PRELOAD = ["numpy", "networkx", "pysat.solvers", "pysat.card", "sweepwidth.solve._deadline", "sweepwidth.solve.ordering.sat"]
 _CTX_LOCK = threading.Lock()
 _CTX: Any = None
 
@@ -92,21 +120,198 @@ def remaining(deadline: float | None) -> float:
     return deadline - time.monotonic()
 
 
-def _context() -> Any:
-    """The shared multiprocessing context (forkserver where available, else spawn)."""
-    global _CTX
-    with _CTX_LOCK:
-        if _CTX is None:
-            if "forkserver" in mp.get_all_start_methods():
-                ctx: Any = mp.get_context("forkserver")  # forkserver or spawn context
+# ------------------------------------------------ children that never run __main__
+_MAIN_KEYS = ("init_main_from_name", "init_main_from_path")
+
+
+class _SpawnWithoutMain:
+    """``multiprocessing.spawn`` as seen by our launchers: no ``__main__`` re-run in the child."""
+
+    def __getattr__(self, name: str) -> Any:
+        return getattr(_mp_spawn, name)
+
+    @staticmethod
+    def get_preparation_data(name: str) -> dict:
+        data = _mp_spawn.get_preparation_data(name)
+        for key in _MAIN_KEYS:
+            data.pop(key, None)
+        return data
+
+
+_LAUNCHING = threading.local()  # the private forkserver of the launch in progress
+
+
+class _PrivateServer:
+    """``multiprocessing.forkserver`` as seen by our launchers: connects to our own server."""
+
+    def __getattr__(self, name: str) -> Any:
+        import multiprocessing.forkserver as fs
+
+        return getattr(fs, name)
+
+    @staticmethod
+    def connect_to_new_process(fds: Any) -> Any:
+        return _LAUNCHING.server.connect_to_new_process(fds)
+
+
+def _rebuilt(fn: Any, **overrides: Any) -> Any:
+    """A copy of the standard library function ``fn`` seeing other module globals."""
+    g = dict(fn.__globals__)
+    g.update(overrides)
+    return types.FunctionType(fn.__code__, g, fn.__name__, fn.__defaults__, fn.__closure__)
+
+
+_SERVERS: dict[str, Any] = {}  # key -> multiprocessing.forkserver.ForkServer (private, preloaded)
+_POPEN: dict[str, Any] = {}
+
+
+def _popen_classes() -> dict[str, Any]:
+    """Popen classes that launch without the caller's ``__main__`` (built once, lazily)."""
+    if _POPEN:
+        return _POPEN
+    if "forkserver" in mp.get_all_start_methods():
+        from multiprocessing import popen_forkserver
+
+        launch = _rebuilt(popen_forkserver.Popen._launch, spawn=_SpawnWithoutMain(), forkserver=_PrivateServer())  # type: ignore[attr-defined]
+
+        class _ForkserverPopen(popen_forkserver.Popen):  # type: ignore[misc]
+            def _launch(self, process_obj: Any) -> None:
+                _LAUNCHING.server = _SERVERS[process_obj._sw_server]
                 try:
-                    ctx.set_forkserver_preload(list(_PRELOAD))
-                except Exception:  # pragma: no cover - exotic platforms
-                    pass
-            else:  # pragma: no cover - Windows / macOS without forkserver
-                ctx = mp.get_context("spawn")
-            _CTX = ctx
-        return _CTX
+                    launch(self, process_obj)
+                finally:
+                    _LAUNCHING.server = None
+
+        _POPEN["forkserver"] = _ForkserverPopen
+    if sys.platform == "win32":  # pragma: no cover - not run on the development machine
+        from multiprocessing import popen_spawn_win32
+
+        init = _rebuilt(popen_spawn_win32.Popen.__init__, spawn=_SpawnWithoutMain())
+        _POPEN["spawn"] = type("_SpawnPopen", (popen_spawn_win32.Popen,), {"__init__": init})
+    else:
+        from multiprocessing import popen_spawn_posix
+
+        launch_spawn = _rebuilt(popen_spawn_posix.Popen._launch, spawn=_SpawnWithoutMain())  # type: ignore[attr-defined]
+        _POPEN["spawn"] = type("_SpawnPopen", (popen_spawn_posix.Popen,), {"_launch": launch_spawn})
+    return _POPEN
+
+
+class _IsolatedProcess(_mp_context.SpawnProcess):  # type: ignore[misc,name-defined]
+    """A child process started by :class:`IsolatedContext` (never runs ``__main__``)."""
+
+    _sw_server: str | None = None
+    _sw_method: str = "spawn"
+
+    @staticmethod
+    def _Popen(process_obj: Any) -> Any:
+        return _popen_classes()[process_obj._sw_method](process_obj)
+
+
+class IsolatedContext:
+    """A :mod:`multiprocessing`-like context whose children never run the caller's ``__main__``.
+
+    Parameters
+    ----------
+    key : str
+        Name of the private forkserver (one per key and process).
+    preload : list of str
+        Modules the forkserver imports once, before forking children.
+
+    Notes
+    -----
+    Uses a private forkserver where the platform has one, else ``spawn``; in
+    both the child is not told about ``__main__`` (see the module docstring).
+    Children must run module-level functions of importable modules.
+    """
+
+    def __init__(self, key: str, preload: Sequence[str]) -> None:
+        self.key = key
+        self.method = "forkserver" if "forkserver" in mp.get_all_start_methods() else "spawn"
+        self._base = mp.get_context(self.method)
+        if self.method == "forkserver":
+            with _CTX_LOCK:
+                if key not in _SERVERS:
+                    from multiprocessing.forkserver import ForkServer
+
+                    server = ForkServer()
+                    server.set_forkserver_preload([m for m in preload if m != "__main__"])
+                    _SERVERS[key] = server
+
+    def get_start_method(self) -> str:
+        return self.method
+
+    def Pipe(self, duplex: bool = True) -> Any:
+        return self._base.Pipe(duplex)
+
+    def Process(self, *args: Any, **kwargs: Any) -> Any:
+        proc = _IsolatedProcess(*args, **kwargs)
+        proc._sw_method = self.method
+        proc._sw_server = self.key if self.method == "forkserver" else None
+        return proc
+
+
+def _context() -> Any:
+    """The shared context for time-limited children (private forkserver, no ``__main__``)."""
+    global _CTX
+    if _CTX is None:
+        ctx = IsolatedContext("solve", _PRELOAD)
+        with _CTX_LOCK:
+            if _CTX is None:
+                _CTX = ctx
+    return _CTX
+
+
+def _kill_self() -> None:
+    os.kill(os.getpid(), signal.SIGKILL if hasattr(signal, "SIGKILL") else signal.SIGTERM)
+
+
+def die_with_parent() -> None:
+    """In a child process: end this process (and so its work) when its parent goes away.
+
+    Linux: ``prctl(PR_SET_PDEATHSIG, SIGKILL)``, then a check that the parent
+    did not die before the request was made.  Every platform: a daemon thread
+    waiting on the parent's sentinel (a pipe or handle that closes when the
+    parent exits), falling back to polling the parent process id.
+    """
+    parent = mp.parent_process()
+    ppid = os.getppid() if hasattr(os, "getppid") else None
+    if sys.platform.startswith("linux"):
+        try:
+            import ctypes
+
+            libc = ctypes.CDLL(None, use_errno=True)
+            PR_SET_PDEATHSIG = 1
+            libc.prctl(PR_SET_PDEATHSIG, int(signal.SIGKILL), 0, 0, 0)
+        except Exception:  # pragma: no cover - no prctl
+            pass
+        if ppid is not None and os.getppid() != ppid:  # the parent died before the request
+            _kill_self()
+    sentinel = getattr(parent, "sentinel", None) if parent is not None else None
+    if sentinel is not None:
+        from multiprocessing.connection import wait
+
+        try:
+            if wait([sentinel], 0):  # already gone
+                _kill_self()
+        except OSError:  # pragma: no cover
+            sentinel = None
+
+    def watch() -> None:
+        if sentinel is not None:
+            from multiprocessing.connection import wait
+
+            try:
+                wait([sentinel])
+            except OSError:  # pragma: no cover
+                pass
+            _kill_self()
+        while ppid is not None:  # pragma: no cover - no sentinel (not started by multiprocessing)
+            time.sleep(0.5)
+            if os.getppid() != ppid:
+                _kill_self()
+
+    if sentinel is not None or ppid is not None:
+        threading.Thread(target=watch, name="sweepwidth-parent-watch", daemon=True).start()
 
 
 def use_start_method(method: str) -> bool:
@@ -128,6 +333,7 @@ def _child_main(conn: Any, fn: Callable, args: tuple, kwargs: dict) -> None:
     def progress(obj: Any) -> None:
         conn.send(("progress", obj))
 
+    die_with_parent()
     try:
         value = fn(*args, progress=progress, **kwargs)
     except BaseException as exc:  # noqa: BLE001 - everything goes back to the parent

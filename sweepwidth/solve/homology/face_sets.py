@@ -153,9 +153,11 @@ def _monotone_path(k, best, full):  # pragma: no cover - compiled
     T = full
     n = 0
     while T:
-        m = np.inf
-        arg = -1
-        R = T
+        # start from a real candidate: with NaN or inf entries no comparison succeeds, and
+        # arg = -1 would make the bit search below loop forever
+        arg = T & (-T)
+        m = best[T ^ arg]
+        R = T ^ arg
         while R:
             b = R & (-R)
             x = best[T ^ b]

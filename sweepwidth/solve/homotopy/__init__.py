@@ -92,7 +92,7 @@ import time
 from collections import deque
 from typing import Any, Callable, Iterable, Sequence
 
-from ...errors import SweepwidthError
+from ...errors import InvalidArgumentError, SweepwidthError
 from ...problems.homotopy import Curve, HomotopyProblem, apply_move
 from ...result import Result
 from ..contract import Deadline, builtin_names, check_seed, get_method, make_result, methods, resolve_weight
@@ -1273,7 +1273,7 @@ def _search_here(problem: HomotopyProblem, kw: dict, *, progress: Callable) -> A
 
 
 def _run_search(H: HomotopyProblem, deadline: float | None, upper: float | None, witness: dict | None,
-                lower: float | None, isolate: bool = False) -> tuple[Any, str]:
+                lower: float | None, isolate: bool = False, max_memory: int | None = None) -> tuple[Any, str]:
     """Run the exact search; (outcome or None, note).
 
     By default in this process under the search's own cooperative deadline
@@ -1284,6 +1284,8 @@ def _run_search(H: HomotopyProblem, deadline: float | None, upper: float | None,
     from .._deadline import run_limited
 
     kw = {"upper": upper, "upper_witness": witness, "lower": lower, "deadline": deadline}
+    if max_memory is not None:
+        kw["max_memory"] = max_memory
     if deadline is None or not isolate:
         done, value, reports = run_limited(_search_here, (H, kw), deadline=None)
         return value, "finished" if deadline is None else "ran in this process under its own deadline"
@@ -1331,6 +1333,7 @@ class _State:
         self.bounds = {"lower": "length of the start and end curves", "upper": "none"}
         self.used = ""
         self.infeasible_reason: str | None = None
+        self.max_memory: int | None = None  # None: the search's default
 
     @property
     def gap_open(self) -> bool:
@@ -1371,9 +1374,17 @@ def _method_search(st: _State) -> None:
     if got is not None:
         st.upper, st.witness = got
         st.bounds["upper"] = "constructed homotopy (greedy by length)"
-    out, note = _run_search(H, deadline, st.upper, st.witness, st.lower)
+    out, note = _run_search(H, deadline, st.upper, st.witness, st.lower, max_memory=st.max_memory)
     if out is None:
         raise SweepwidthError(f"method 'search': {note}")
+    reason = str(dict(out.stats).get("reason") or "")
+    if not out.optimal and reason.startswith("memory limit"):
+        from ..errors import ProblemTooLargeError
+
+        raise ProblemTooLargeError(
+            f"method 'search' stopped: {reason}, with bounds [{out.lower:g}, "
+            f"{'none' if out.upper is None else format(out.upper, 'g')}]; raise max_memory or use method='bounds'"
+        )
     st.used = "search"
     _merge_search(st, out, note)
 
@@ -1395,7 +1406,7 @@ def _method_auto(st: _State) -> None:
         st.stats["auto"] = "exact search skipped: no time left"
         return
     try:
-        out, note = _run_search(st.H, st.deadline, st.upper, st.witness, st.lower)
+        out, note = _run_search(st.H, st.deadline, st.upper, st.witness, st.lower, max_memory=st.max_memory)
     except Exception as err:  # noqa: BLE001 - 'auto' keeps its proven bounds whatever the search does
         st.stats["auto"] = f"exact search failed ({type(err).__name__}: {err}); bounds kept"
         return
@@ -1446,6 +1457,7 @@ def homotopy_height(
     time_limit: float | None = None,
     seed: int | None = None,
     length: str | None = None,
+    max_memory: int | None = None,
 ) -> Result:
     """The discrete homotopy height of a plane graph, exact or with proven bounds, with a witness.
 
@@ -1484,6 +1496,11 @@ def homotopy_height(
         the best witness when the optimum is not proved).
     seed : int, optional
         Adds a randomised face order to the constructions.
+    max_memory : int, optional
+        Bytes the exact search may fill with stored walk states (default 1 GiB,
+        as for the cutwidth subset DP).  'search' refuses a problem whose
+        forced states alone exceed it, and raises when the limit is reached
+        before the optimum is proved; 'auto' keeps the bounds reached then.
 
     Returns
     -------
@@ -1502,6 +1519,9 @@ def homotopy_height(
         Unknown method or length convention.
     SweepwidthError
         Bad holes, time limit or seed; method 'search' when it is not installed.
+    ProblemTooLargeError
+        Method 'search' whose stored states are estimated (before it starts)
+        or counted (while it runs) above ``max_memory``.
 
     Notes
     -----
@@ -1542,6 +1562,10 @@ def solve_problem(H: HomotopyProblem, *, method: str = "auto", deadline: Deadlin
                            seconds=time.monotonic() - t0, stats=stats, infeasible=reason)
     stats["feasibility"] = reason
     st = _State(H, t0, deadline.at, seed, stats)
+    if max_memory is not None:
+        if isinstance(max_memory, bool) or not isinstance(max_memory, int) or max_memory <= 0:
+            raise InvalidArgumentError(f"max_memory must be a positive number of bytes, got {max_memory!r}")
+        st.max_memory = max_memory
     if entry.function is not None:
         _method_added(st, entry.load(), entry.name)  # type: ignore[arg-type]
     else:

@@ -98,8 +98,16 @@ from .walks import WalkSpace, find_rotation, least_rotation
 
 __all__ = ["SearchOutcome", "WalkSpec", "search_homotopy"]
 
-#: default limit on stored states (each costs a few hundred bytes)
+#: default limit on stored states (each costs about a kilobyte, see STATE_OVERHEAD)
 MAX_STATES = 3_000_000
+#: default memory budget of the stored states (bytes; the same default as the cutwidth subset DP)
+DEFAULT_MAX_MEMORY = 1 << 30
+#: estimated bytes per stored state beyond its walk (entries in the key, parent and settled
+#: tables and the heap).  Measured with tracemalloc on triangulated grids of 49 to 225
+#: vertices: 0.9-1.0 KB per stored state; the estimate is 0.95-1.3 KB there
+STATE_OVERHEAD = 700
+#: estimated bytes per dart of a stored walk (a tuple slot and a share of the int objects)
+DART_BYTES = 12
 #: wall-clock budget of the greedy dive (it only looks for an early upper bound)
 DIVE_SECONDS = 0.5
 
@@ -316,6 +324,11 @@ def _invariant_check(search: _Search) -> tuple[bool, str | None, bool]:
     return True, None, complete
 
 
+def state_bytes(darts: int) -> int:
+    """Estimated memory of one stored search state whose walk has ``darts`` darts."""
+    return STATE_OVERHEAD + DART_BYTES * max(1, darts)
+
+
 def _run(
     search: _Search,
     *,
@@ -323,6 +336,7 @@ def _run(
     upper: float | None,
     deadline: float | None,
     max_states: int,
+    max_memory: int | None = None,
     greedy: bool,
     on_upper: Callable[[float, Any, dict], None] | None,
     on_lower: Callable[[float], None] | None,
@@ -352,6 +366,7 @@ def _run(
     start = (start_walk, 0, 0) if rep is not None else ((start_walk, 0) if monotone else start_walk)
     f0 = max(length(start_walk), lower)
     best: dict = {start: f0}
+    stored_bytes = state_bytes(len(start_walk))
     parent: dict = {start: None}
     done: set = set()
     counter = itertools.count()
@@ -402,6 +417,9 @@ def _run(
             if len(best) > max_states:
                 reason = f"state limit {max_states} reached"
                 break
+            if max_memory is not None and stored_bytes > max_memory:
+                reason = f"memory limit reached: about {stored_bytes / 2**20:.0f} MiB of stored states (max_memory {max_memory / 2**20:.0f} MiB)"
+                break
             if expand_limit is not None and settled > expand_limit:
                 reason = "dive budget"
                 break
@@ -444,6 +462,8 @@ def _run(
             old = best.get(nstate)
             if old is not None and old <= f2:
                 continue
+            if old is None:
+                stored_bytes += STATE_OVERHEAD + DART_BYTES * max(1, len(nkey))
             best[nstate] = f2
             parent[nstate] = (state, move)
             if face >= 0 and face != outer:
@@ -475,6 +495,7 @@ def _run(
         "settled": settled,
         "generated": generated,
         "stored": len(best),
+        "stored_bytes": stored_bytes,
         "parent": parent,
         "cap": cap,
     }
@@ -602,6 +623,7 @@ def search_homotopy(
     dive: int = 400,
     max_states: int = MAX_STATES,
     max_repeated_faces: int | None = None,
+    max_memory: int | None = DEFAULT_MAX_MEMORY,
 ) -> SearchOutcome:
     """Exact discrete homotopy height by a bottleneck search over walk states.
 
@@ -628,6 +650,10 @@ def search_homotopy(
         Settled-state budget of the greedy dive for an early upper bound (0: none).
     max_states : int
         Stop (with bounds) when this many states are stored.
+    max_memory : int or None
+        Bytes the stored states may take (estimated per state from its walk
+        length, :func:`state_bytes`); the search stops with its bounds when
+        they would take more.  None: no limit.
     max_repeated_faces : int, optional
         Research option: allow at most this many faces to be flipped more
         than once (0 is the monotone variant).  The least value that keeps the
@@ -702,6 +728,19 @@ def search_homotopy(
                 stats["reason"] = why
                 stats["infeasible"] = True
                 return SearchOutcome(lower=float("inf"), upper=None, witness=None, optimal=False, stats=stats)
+    if max_memory is not None:
+        if isinstance(max_memory, bool) or not isinstance(max_memory, int) or max_memory <= 0:
+            raise SweepwidthError(f"max_memory must be a positive number of bytes or None, got {max_memory!r}")
+        # a homotopy flips every face at least |w_start(f) - w_end(f)| times and each flip
+        # stores at least one new state; the walks are at least as long as the start walk
+        need_flips, _ = search.potential_and_winding(search.start_key)
+        need = max(1, int(need_flips)) * state_bytes(len(search.start_key)) + 1000 * state_bytes(len(search.start_key))
+        if need > max_memory:
+            raise ProblemTooLargeError(
+                f"exact homotopy search: at least {need / 2**20:.1f} MiB of search states are needed "
+                f"({int(need_flips)} forced flips of a {len(search.start_key)}-dart walk), more than the "
+                f"max_memory limit of {max_memory / 2**20:.1f} MiB; raise max_memory or use method='bounds'"
+            )
     lo = max(sp.length(search.start_key), search.end_length())
     lower_from = "lengths of the start and end walks"
     if lower is not None and lower > lo:
@@ -752,7 +791,7 @@ def search_homotopy(
         dl = time.monotonic() + DIVE_SECONDS
         if deadline is not None:
             dl = min(dl, time.monotonic() + (deadline - time.monotonic()) / 3)
-        r = _run(search, lower=lo, upper=state["upper"], deadline=dl, max_states=max_states, greedy=True,
+        r = _run(search, lower=lo, upper=state["upper"], deadline=dl, max_states=max_states, max_memory=max_memory, greedy=True,
                  on_upper=on_upper_factory("greedy dive"), on_lower=None, expand_limit=dive)
         stats["dive_states"] = r["settled"]
         if r["found"] is not None:
@@ -777,11 +816,12 @@ def search_homotopy(
         if state["upper"] is not None and state["upper"] <= lo:
             state["lower"] = state["upper"]
             return outcome(True)
-    r = _run(search, lower=lo, upper=state["upper"], deadline=deadline, max_states=max_states, greedy=False,
+    r = _run(search, lower=lo, upper=state["upper"], deadline=deadline, max_states=max_states, max_memory=max_memory, greedy=False,
              on_upper=on_upper_factory("exact search"), on_lower=on_lower)
     stats["states"] = r["settled"]
     stats["generated"] = r["generated"]
     stats["stored"] = r["stored"]
+    stats["stored_bytes"] = r["stored_bytes"]
     if r["found"] is not None:
         h, st_ = r["found"]
         if state["upper"] is None or h < state["upper"]:

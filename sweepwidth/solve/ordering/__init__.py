@@ -23,18 +23,18 @@ Methods
                 small common denominator, up to 400 vertices, with at least
                 1.5 s left) or 'bnb' for the rest of the time.
                 ``stats['auto']`` says what was chosen and why.
-'dp'            subset dynamic programming (:mod:`.ordering_dp`), exact,
+'dp'            subset dynamic programming (:mod:`.dp`), exact,
                 ``O(2^n n)`` time and ``16 * 2^n`` bytes.
-'bnb'           threshold search over prefix sets (:mod:`.ordering_bnb`),
+'bnb'           threshold search over prefix sets (:mod:`.bnb`),
                 exact, handles real weights exactly.
-'sat'           incremental SAT (:mod:`.cutwidth_sat`), exact, integral weights
+'sat'           incremental SAT (:mod:`.sat`), exact, integral weights
                 (rational weights are scaled by their common denominator).
 'tree'          for forests: the recursive three-branch lower bound
                 (exact on complete binary trees), then the prefix-set search
                 from that bound, whose free-move rule places leaves at no
                 cost; exact.
-'heuristic'     constructions plus local search (:mod:`.ordering_heuristics`)
-                and the lower bounds of :mod:`.ordering_bounds`; bounded.
+'heuristic'     constructions plus local search (:mod:`.heuristics`)
+                and the lower bounds of :mod:`.bounds`; bounded.
 callable        ``fn(problem, *, lower, upper, upper_order, deadline, seed,
                 **options)`` returning an object with ``lower``, ``upper``,
                 ``order`` (on the problem's vertex indices) and optionally

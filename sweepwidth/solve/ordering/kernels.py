@@ -410,7 +410,7 @@ def _memo_find(table, used, key, W, mask):  # pragma: no cover - compiled
 
 @_jit
 def _prefix_search_nb(n, indptr, indices, wts, deg, a, b, k, tol, rep, table, used, stored, node_budget, sx, st):  # pragma: no cover
-    """Depth-first "width <= k?" search over prefix sets (see ordering_bnb).
+    """Depth-first "width <= k?" search over prefix sets (see bnb).
 
     Returns (status, order, rejected, nodes): status 1 found (order filled),
     0 refuted, -1 node budget spent, -2 memo table full, -3 candidate stack
