@@ -75,7 +75,7 @@ STARTUP_ALLOWANCE = 60.0
 # ---------------------------------------------------------------- child side
 def _die_with_parent() -> None:
     """End this process when its parent goes away (Linux parent-death signal plus a watchdog thread)."""
-    from ..solve._deadline import die_with_parent
+    from ..solve.contract import die_with_parent
 
     die_with_parent()
 
@@ -371,9 +371,9 @@ def _subprocess_main() -> None:
 # --------------------------------------------------------------- parent side
 def _context() -> Any:
     """A private forkserver with the solver stack preloaded; children never run ``__main__``."""
-    from ..solve._deadline import IsolatedContext
+    from ..solve.contract import isolated_context
 
-    return IsolatedContext("bench", _PRELOAD)
+    return isolated_context("bench", _PRELOAD)
 
 
 class _ForkChannel:

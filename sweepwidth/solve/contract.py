@@ -34,7 +34,7 @@ import math
 import numbers
 import time
 import warnings
-from typing import Any, Iterable
+from typing import Any, Iterable, Sequence
 
 from ..errors import InvalidArgumentError, UnsupportedOptionError
 from ..registry import (
@@ -54,6 +54,8 @@ from ..result import Result
 
 __all__ = [
     "MARGIN",
+    "die_with_parent",
+    "isolated_context",
     "Deadline",
     "check_time_limit",
     "check_seed",
@@ -277,3 +279,25 @@ def use_fork_children() -> bool:
     from . import _deadline
 
     return _deadline.use_start_method("fork")
+
+
+def die_with_parent() -> None:
+    """In a child process: end this process when its parent goes away.
+
+    Linux: a parent-death signal; every platform: a watchdog thread on the
+    parent's sentinel (see :func:`sweepwidth.solve._deadline.die_with_parent`).
+    """
+    from . import _deadline
+
+    _deadline.die_with_parent()
+
+
+def isolated_context(key: str, preload: Sequence[str]) -> Any:
+    """A multiprocessing-like context whose children never run the caller's ``__main__``.
+
+    One private forkserver per ``key`` (spawn where the platform has none),
+    importing ``preload`` once (see :class:`sweepwidth.solve._deadline.IsolatedContext`).
+    """
+    from . import _deadline
+
+    return _deadline.IsolatedContext(key, preload)

@@ -1379,7 +1379,7 @@ def _method_search(st: _State) -> None:
         raise SweepwidthError(f"method 'search': {note}")
     reason = str(dict(out.stats).get("reason") or "")
     if not out.optimal and reason.startswith("memory limit"):
-        from ..errors import ProblemTooLargeError
+        from ...errors import ProblemTooLargeError
 
         raise ProblemTooLargeError(
             f"method 'search' stopped: {reason}, with bounds [{out.lower:g}, "
@@ -1541,13 +1541,16 @@ def homotopy_height(
     extra = {} if length is None else {"length": length}
     weight = resolve_weight("homotopy", weight, allowed=("weight", "vertices"), **extra)
     _validate(P, method)
+    if max_memory is not None:
+        if isinstance(max_memory, bool) or not isinstance(max_memory, int) or max_memory <= 0:
+            raise InvalidArgumentError(f"max_memory must be a positive number of bytes, got {max_memory!r}")
     H = HomotopyProblem.build(P, start=start, end=end, spikes=spikes, simple=simple, monotone=monotone,
                               length=weight, holes=holes, s=s, t=t)
-    return solve_problem(H, method=method, deadline=dl, seed=seed, started=t0)
+    return solve_problem(H, method=method, deadline=dl, seed=seed, started=t0, max_memory=max_memory)
 
 
 def solve_problem(H: HomotopyProblem, *, method: str = "auto", deadline: Deadline, seed: int | None = None,
-                  started: float | None = None) -> Result:
+                  started: float | None = None, max_memory: int | None = None) -> Result:
     """Homotopy height of a built :class:`~sweepwidth.problems.homotopy.HomotopyProblem` under a :class:`Deadline`.
 
     The internal entry point behind :func:`homotopy_height`: arguments are
@@ -1562,10 +1565,7 @@ def solve_problem(H: HomotopyProblem, *, method: str = "auto", deadline: Deadlin
                            seconds=time.monotonic() - t0, stats=stats, infeasible=reason)
     stats["feasibility"] = reason
     st = _State(H, t0, deadline.at, seed, stats)
-    if max_memory is not None:
-        if isinstance(max_memory, bool) or not isinstance(max_memory, int) or max_memory <= 0:
-            raise InvalidArgumentError(f"max_memory must be a positive number of bytes, got {max_memory!r}")
-        st.max_memory = max_memory
+    st.max_memory = max_memory
     if entry.function is not None:
         _method_added(st, entry.load(), entry.name)  # type: ignore[arg-type]
     else:
