@@ -29,9 +29,12 @@ from __future__ import annotations
 
 import importlib
 from dataclasses import dataclass, field
-from typing import Any, Callable, Mapping
+from typing import TYPE_CHECKING, Any, Callable, Mapping
 
 from .errors import InvalidArgumentError, UnsupportedOptionError
+
+if TYPE_CHECKING:  # for annotations only: the registry imports no solver layer
+    from .result import Result
 
 __all__ = [
     "Parameter",

@@ -254,6 +254,7 @@ def make_result(
     'bounded'
     """
     stats = {} if stats is None else stats
+    method = "" if method is None else method
     if infeasible is not None:
         stats["reason"] = infeasible
         return Result(parameter_name, "infeasible", None, None, None, None, method=method, seconds=seconds, stats=stats)

@@ -517,7 +517,7 @@ def solve_problem(
     t0 = time.monotonic() if started is None else started
     options = dict(options or {})
     dl = deadline
-    deadline = dl.at  # type: ignore[assignment]  # the monotonic value for the stages below
+    at: float | None = dl.at  # the monotonic value for the stages below
     P = problem.graph
     entry = get_method("homology", method)
     stats: dict[str, Any] = problem.summary()
@@ -539,7 +539,7 @@ def solve_problem(
                            witness=list(get("witness", None) or []), method=entry.name,
                            seconds=time.monotonic() - t0, stats=stats)
     if not monotone or method == "face-sets":
-        lo, up, toggles, st = _non_monotone(problem, deadline, seed, options)
+        lo, up, toggles, st = _non_monotone(problem, at, seed, options)
         stats["monotone"] = False
         stats["face-sets"] = st
         stats["bounds"] = st.get("bounds")
@@ -553,9 +553,9 @@ def solve_problem(
                            seconds=time.monotonic() - t0, stats=stats, optimal=status == "optimal")
     outcomes = []
     for idx, S in enumerate(problem.swept):
-        sub = deadline
-        if deadline is not None and idx == 0 and len(problem.swept) > 1:
-            sub = time.monotonic() + 0.5 * _left(deadline)
+        sub = at
+        if at is not None and idx == 0 and len(problem.swept) > 1:
+            sub = time.monotonic() + 0.5 * _left(at)
         out, auto = _solve_swept(problem, S, method, sub, seed, options)
         outcomes.append((S, out, auto))
     lower = min(o.lower for _, o, _ in outcomes)

@@ -1423,10 +1423,11 @@ def _method_added(st: _State, fn: Callable[..., Any], name: str) -> None:
     with ``lower``, ``upper``, ``witness`` (``{"start": walk, "moves": [...]}``) and optionally ``stats``."""
     out = fn(st.H, deadline=Deadline.at_time(st.deadline), seed=st.seed)
     get = out.get if isinstance(out, dict) else (lambda k, d=None: getattr(out, k, d))
-    if get("lower", None) is not None:
-        st.lower = max(st.lower, float(get("lower")))
-    if get("upper", None) is not None:
-        st.upper, st.witness = float(get("upper")), get("witness", None)
+    lower, upper = get("lower", None), get("upper", None)
+    if lower is not None:
+        st.lower = max(st.lower, float(lower))
+    if upper is not None:
+        st.upper, st.witness = float(upper), get("witness", None)
     st.stats[name] = get("stats", None) or {}
     st.bounds = {"lower": f"method {name!r}", "upper": f"method {name!r}"}
     st.used = name
@@ -1538,8 +1539,10 @@ def homotopy_height(
     t0 = time.monotonic()
     dl = Deadline.from_limit(time_limit, start=t0)
     seed = check_seed(seed)
-    extra = {} if length is None else {"length": length}
-    weight = resolve_weight("homotopy", weight, allowed=("weight", "vertices"), **extra)
+    if length is None:
+        weight = resolve_weight("homotopy", weight, allowed=("weight", "vertices"))
+    else:
+        weight = resolve_weight("homotopy", weight, allowed=("weight", "vertices"), length=length)
     _validate(P, method)
     if max_memory is not None:
         if isinstance(max_memory, bool) or not isinstance(max_memory, int) or max_memory <= 0:
