@@ -19,6 +19,7 @@ __all__ = [
     "grid",
     "triangulated_grid",
     "delaunay",
+    "weighted_delaunay_disk",
     "random_plane_graph",
     "wheel",
     "fan",
@@ -113,6 +114,55 @@ def delaunay(n: int, *, seed: int | np.random.Generator | None = None) -> PlaneG
     xy = pts.tolist()
     pos = {v: tuple(xy[v]) for v in used}
     return PlaneGraph.from_faces(faces, pos=pos, meta={"name": f"delaunay-{n}-s{seed}"})
+
+
+def weighted_delaunay_disk(n: int, *, seed: int | None = None, heavy: tuple[int, int] = (1, 10)) -> PlaneGraph:
+    """A Delaunay disk with a light boundary and a heavy interior.
+
+    The family, exactly: the plane graph ``delaunay(n, seed=seed)``; every
+    edge of its outer boundary (an edge with the outer face on a side) gets
+    weight 1; the other edges, taken in increasing edge id, get the integers
+    ``numpy.random.default_rng(seed).integers(lo, hi + 1, size=k)`` (``k``
+    inner edges, ``(lo, hi) = heavy``, default 1..10), drawn from a fresh
+    generator seeded with the same ``seed`` as the points.  With ``seed`` fixed
+    the graph, its ids and its weights are reproducible.
+
+    Sweeping such a disk from its boundary is hard: the boundary is cheap, so
+    its length says little, and the dual (about ``2 n`` faces) is heavy.
+
+    Parameters
+    ----------
+    n : int
+        Number of random points (at least 3).
+    seed : int, optional
+        Seed of both the points and the weights.
+    heavy : (int, int)
+        Inclusive range of the inner edge weights.
+
+    Examples
+    --------
+    >>> P = weighted_delaunay_disk(30, seed=1)
+    >>> outer = P.outer_face
+    >>> sorted({P.weight(e) for e in P.face_edges(outer)})
+    [1.0]
+    >>> int(P.weights.max()) <= 10
+    True
+    """
+    lo, hi = heavy
+    if isinstance(seed, np.random.Generator):
+        raise SweepwidthError("weighted_delaunay_disk needs an integer seed (points and weights use it twice)")
+    if not (isinstance(lo, (int, np.integer)) and isinstance(hi, (int, np.integer)) and 0 <= lo <= hi):
+        raise SweepwidthError(f"heavy must be a range (lo, hi) of integers with 0 <= lo <= hi, got {heavy!r}")
+    P = delaunay(n, seed=seed)
+    outer = P.outer_face
+    m = P.number_of_edges()
+    boundary = np.array([outer in P.edge_faces(e) for e in range(m)], dtype=bool)
+    inner = np.flatnonzero(~boundary)
+    w = np.ones(m, dtype=np.int64)
+    w[inner] = np.random.default_rng(seed).integers(int(lo), int(hi) + 1, size=inner.shape[0])
+    Q = P.with_weights([int(x) for x in w])
+    Q.meta["name"] = f"weighted-disk-{n}-s{seed}"
+    return Q
 
 
 def random_plane_graph(

@@ -118,3 +118,29 @@ BAD = [
 def test_bad_arguments(build, error, pattern):
     with pytest.raises(error, match=pattern):
         build()
+
+
+def test_weighted_delaunay_disk_family():
+    # the family as documented: delaunay(n, seed) with boundary weight 1 and inner weights
+    # drawn in edge-id order from a fresh numpy default_rng(seed), integers 1..10
+    P = generators.weighted_delaunay_disk(60, seed=4)
+    T = generators.delaunay(60, seed=4)
+    assert _vef(P) == _vef(T) and P.same_embedding(T.with_weights(P.weights.tolist()))
+    outer = P.outer_face
+    inner = [e for e in range(P.number_of_edges()) if outer not in P.edge_faces(e)]
+    expect = np.random.default_rng(4).integers(1, 11, size=len(inner))
+    assert P.weights[inner].tolist() == expect.astype(float).tolist()
+    bnd = [e for e in range(P.number_of_edges()) if outer in P.edge_faces(e)]
+    assert bnd and all(P.weight(e) == 1 for e in bnd)
+    # the boundary is the convex hull of the points (scipy), so it has as many edges as hull vertices
+    pts = np.random.default_rng(4).random((60, 2))
+    assert len(bnd) == len(ConvexHull(pts).vertices)
+    assert generators.weighted_delaunay_disk(60, seed=4).weights.tolist() == P.weights.tolist()
+    assert generators.weighted_delaunay_disk(60, seed=5).weights.tolist() != P.weights.tolist()
+
+
+def test_weighted_delaunay_disk_bad_input():
+    with pytest.raises(SweepwidthError, match="heavy"):
+        generators.weighted_delaunay_disk(10, seed=1, heavy=(5, 2))
+    with pytest.raises(SweepwidthError, match="n >= 3"):
+        generators.weighted_delaunay_disk(2, seed=1)
