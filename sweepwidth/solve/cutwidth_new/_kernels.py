@@ -42,15 +42,15 @@ def csr_with_ids(n: int, edges: np.ndarray) -> tuple[np.ndarray, np.ndarray, np.
 
 
 @_jit
-def route_sources(n, indptr, indices, eid, w, load, pass_load, sources, alpha, scale):  # type: ignore[no-untyped-def]
-    """Route one unit from every source in ``sources`` to every other vertex, one source at a time.
+def route_sources(n, indptr, indices, eid, w, pi, load, pass_load, sources, alpha, scale):  # type: ignore[no-untyped-def]
+    """Route ``pi[t]`` units from every source in ``sources`` to every other vertex ``t``, one source at a time.
 
     Each source sends along a shortest-path tree for the lengths
     ``exp(alpha * load[e] / (w[e] * scale)) / w[e]`` (``scale`` is the
     current largest ratio ``load / w``, updated as loads grow; lengths are
     ``1 / w`` while it is 0), so later sources avoid the edges earlier ones
-    filled.  The tree edge above vertex ``v`` carries as many units as the
-    subtree of ``v`` has vertices; they are added to ``load`` and to
+    filled.  The tree edge above vertex ``v`` carries the sum of ``pi`` over
+    the subtree of ``v``; these units are added to ``load`` and to
     ``pass_load``.  Only the tree matters for soundness, not the lengths.
 
     Returns the updated ``scale``.  ``O(|sources| m log n)``.
@@ -136,7 +136,7 @@ def route_sources(n, indptr, indices, eid, w, load, pass_load, sources, alpha, s
                     hk[i] = nd
                     hv[i] = u
         for i in range(cnt):
-            sub[settled[i]] = 1.0
+            sub[settled[i]] = pi[settled[i]]
         for i in range(cnt - 1, 0, -1):
             v = settled[i]
             e = pedge[v]
