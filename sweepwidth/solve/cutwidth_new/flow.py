@@ -13,6 +13,7 @@ from __future__ import annotations
 
 import math
 import time
+from typing import Hashable, Iterable
 
 import numpy as np
 
@@ -70,7 +71,7 @@ def flow_bound(
     *,
     seed: int = 0,
     alpha: float = 8.0,
-    terminals: object = None,
+    terminals: Iterable[Hashable] | None = None,
 ) -> float:
     """Concurrent multicommodity-flow lower bound on the cutwidth.
 
@@ -111,9 +112,9 @@ def flow_bound(
         unpinned problem too.
     deadline : float, optional
         ``time.monotonic()`` value.  Work proceeds in chunks of about 0.1 s
-        and stops at the deadline with the best bound so far.  Without a
-        deadline: passes until the bound gains under 0.5 % in three passes
-        (at most 40 passes and ``2e9`` arc relaxations).
+        and stops at the deadline with the best bound so far, or earlier
+        once three passes gain under 0.5 %.  Without a deadline also at most
+        40 passes and ``2e9`` arc relaxations.
     seed : int
         Order of the sources.
     alpha : float
@@ -162,6 +163,8 @@ def flow_bound(
         problem = OrderingProblem(problem.labels, problem.edges[keep], problem.weights[keep], problem.first, problem.last)
         if problem.m == 0:
             return 0.0
+    if terminals is not None:
+        terminals = list(terminals)  # read once per component
     comps = [c for c in problem.components() if len(c) >= 2]
     comps.sort(key=len, reverse=True)
     best = 0.0
@@ -201,12 +204,12 @@ def _terminal_sets(problem: OrderingProblem) -> list[np.ndarray]:
 
 
 def _flow_component(
-    problem: OrderingProblem, deadline: float | None, seed: int, alpha: float, terminals: object
+    problem: OrderingProblem, deadline: float | None, seed: int, alpha: float, terminals: Iterable[Hashable] | None
 ) -> float:
     if terminals is not None:
         U = np.zeros(problem.n, dtype=bool)
         idx = {lab: i for i, lab in enumerate(problem.labels)}
-        for t in terminals:  # type: ignore[attr-defined]
+        for t in terminals:
             if t in idx:
                 U[idx[t]] = True
         sets = [U]
@@ -290,9 +293,8 @@ def _flow_connected(problem: OrderingProblem, U: np.ndarray, deadline: float | N
         history.append(best)
         if deadline is not None and time.monotonic() >= deadline:
             break
-        if deadline is None:
-            if passes >= 40 or work >= work_cap:
-                break
-            if len(history) > 3 and history[-1] <= history[-4] * 1.005:
-                break
+        if len(history) > 3 and history[-1] <= history[-4] * 1.005:
+            break  # stalled: under 0.5 % in three passes
+        if deadline is None and (passes >= 40 or work >= work_cap):
+            break
     return _sound(best, integral)
