@@ -42,9 +42,11 @@ def multigraph_problems(draw, max_nodes: int = 10):
         perm = draw(st.permutations(list(range(n))))
         for a, b in zip(perm, perm[1:]):
             G.add_edge(a, b, weight=1 if kind != "real" else 0.5)
-    pin = draw(st.sampled_from(["none", "first", "last", "both"]))
-    first = 0 if pin in ("first", "both") else None
-    last = n - 1 if pin in ("last", "both") and n > 1 else None
+    pin = draw(st.sampled_from(["none", "first", "last", "both", "sets"]))
+    first: object = 0 if pin in ("first", "both") else None
+    last: object = n - 1 if pin in ("last", "both") and n > 1 else None
+    if pin == "sets" and n >= 4:  # pinned sets of two vertices each
+        first, last = [0, 1], [n - 2, n - 1]
     return OrderingProblem.from_graph(G, first=first, last=last)
 
 
