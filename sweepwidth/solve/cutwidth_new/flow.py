@@ -113,7 +113,7 @@ def flow_bound(
     deadline : float, optional
         ``time.monotonic()`` value.  Work proceeds in chunks of about 0.1 s
         and stops at the deadline with the best bound so far, or earlier
-        once 30 passes are done and the last ten gained under 0.2 %.  Without
+        once 100 passes are done and the last 30 gained under 0.2 %.  Without
         a deadline also at most 60 passes and ``2e9`` arc relaxations.
     seed : int
         Order of the sources.
@@ -293,8 +293,8 @@ def _flow_connected(problem: OrderingProblem, U: np.ndarray, deadline: float | N
         history.append(best)
         if deadline is not None and time.monotonic() >= deadline:
             break
-        if len(history) > 30 and history[-1] <= history[-11] * 1.002:
-            break  # stalled: under 0.2 % in ten passes
+        if len(history) > 100 and history[-1] <= history[-31] * 1.002:
+            break  # stalled: under 0.2 % in thirty passes
         if deadline is None and (passes >= 60 or work >= work_cap):
             break
     return _sound(best, integral)
