@@ -6,8 +6,8 @@ Usage::
     python benchmarks/lower_bounds.py --time 60    # the goals' limit
 
 Columns: instance, vertices / edges, the best of
-``sweepwidth.solve.ordering_bounds.lower_bounds`` (``old``, with its seconds),
-each new bound of :mod:`sweepwidth.solve.cutwidth_new` with its seconds, the
+``sweepwidth.solve.ordering.bounds.lower_bounds`` (``old``, with its seconds),
+each new bound of :mod:`sweepwidth.solve.ordering` with its seconds, the
 largest of them all (``best``), and the published optimum (``known``) where
 one exists.
 
@@ -38,8 +38,8 @@ sys.path.insert(0, str(Path(__file__).resolve().parents[1]))
 
 from sweepwidth import generators  # noqa: E402
 from sweepwidth.problems.ordering import OrderingProblem  # noqa: E402
-from sweepwidth.solve.cutwidth_new.flow import flow_bound  # noqa: E402
-from sweepwidth.solve.ordering_bounds import lower_bounds  # noqa: E402
+from sweepwidth.solve.ordering.flow import flow_bound  # noqa: E402
+from sweepwidth.solve.ordering.bounds import lower_bounds  # noqa: E402
 
 
 def weighted_disk_dual(n: int, seed: int) -> OrderingProblem:

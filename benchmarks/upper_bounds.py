@@ -8,8 +8,8 @@ Usage::
 
 For every instance the baseline is ``sweepwidth.cutwidth(G, time_limit=T)`` (what
 users get today; its lower bound is shown for context) and the new upper bound
-is :func:`sweepwidth.solve.cutwidth_new.local_search.search_orderings` with the
-same limit (for unit-weight trees :func:`~sweepwidth.solve.cutwidth_new.trees.tree_cutwidth`,
+is :func:`sweepwidth.solve.ordering.local_search.search_orderings` with the
+same limit (for unit-weight trees :func:`~sweepwidth.solve.ordering.trees.tree_cutwidth`,
 which stops when its bounds meet).  Both witnesses are recomputed by
 ``sweepwidth.verify.ordering_width``.  "ratio" is old upper / new upper.
 
@@ -61,8 +61,8 @@ sys.path.insert(0, str(Path(__file__).resolve().parents[1]))
 import sweepwidth as sw  # noqa: E402
 from sweepwidth import generators  # noqa: E402
 from sweepwidth.problems.ordering import OrderingProblem  # noqa: E402
-from sweepwidth.solve.cutwidth_new.local_search import search_orderings  # noqa: E402
-from sweepwidth.solve.cutwidth_new.trees import tree_cutwidth  # noqa: E402
+from sweepwidth.solve.ordering.local_search import search_orderings  # noqa: E402
+from sweepwidth.solve.ordering.trees import tree_cutwidth  # noqa: E402
 from sweepwidth.verify.ordering import ordering_width  # noqa: E402
 
 

@@ -29,12 +29,9 @@ from __future__ import annotations
 
 import importlib
 from dataclasses import dataclass, field
-from typing import TYPE_CHECKING, Any, Callable, Mapping
+from typing import Any, Callable, Mapping
 
 from .errors import InvalidArgumentError, UnsupportedOptionError
-
-if TYPE_CHECKING:  # for annotations only: the registry imports no solver layer
-    from .result import Result
 
 __all__ = [
     "Parameter",
@@ -88,7 +85,7 @@ class Parameter:
     def function_name(self) -> str:
         return self.function.partition(":")[2]
 
-    def solver(self) -> Callable[..., Result]:
+    def solver(self) -> Callable[..., Any]:
         """The public solver function (imported on first use)."""
         return getattr(importlib.import_module(self.module), self.function_name)
 

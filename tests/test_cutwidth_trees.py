@@ -1,4 +1,4 @@
-"""Cutwidth of unit-weight forests (sweepwidth.solve.cutwidth_new.trees).
+"""Cutwidth of unit-weight forests (sweepwidth.solve.ordering.trees).
 
 References for the checks: networkx's enumeration of non-isomorphic trees with the
 subset DP as the exact value; complete binary trees of height h >= 2 have cutwidth
@@ -19,8 +19,8 @@ from hypothesis import strategies as st
 
 from sweepwidth.errors import SweepwidthError
 from sweepwidth.problems.ordering import OrderingProblem
-from sweepwidth.solve.cutwidth_new.trees import block_layout, branch_bound, tree_cutwidth
-from sweepwidth.solve.ordering_dp import solve_dp
+from sweepwidth.solve.ordering.trees import block_layout, branch_bound, tree_cutwidth
+from sweepwidth.solve.ordering.dp import solve_dp
 from sweepwidth.verify.ordering import ordering_width
 
 

@@ -1,12 +1,15 @@
 """Compiled inner loops for the ordering solvers (numba), with numpy fallbacks.
 
-Every kernel exists twice: a numba-compiled version used when numba imports,
+Most kernels exist twice: a numba-compiled version used when numba imports,
 and a plain numpy / Python version with the same results (slower, and used
-with smaller size limits).  Nothing outside :mod:`sweepwidth.solve` imports
+with smaller size limits); the window and routing kernels run as plain Python
+without numba (same results, slower).  Nothing outside :mod:`sweepwidth.solve` imports
 this module.
 """
 
 from __future__ import annotations
+
+import math
 
 import numpy as np
 
@@ -18,7 +21,10 @@ except Exception:  # pragma: no cover
     numba = None  # type: ignore[assignment]  # optional dependency: no module when numba is missing
     HAVE_NUMBA = False
 
-__all__ = ["HAVE_NUMBA", "csr_with_ids", "edge_betweenness", "subset_dp", "move_pass", "prefix_search"]
+__all__ = [
+    "HAVE_NUMBA", "csr_with_ids", "edge_betweenness", "subset_dp", "move_pass", "prefix_search",
+    "profile", "window_pass", "route_sources",
+]
 
 
 def _jit(fn):
@@ -607,6 +613,250 @@ def prefix_search(n, indptr, indices, wts, deg, a, b, k, tol, rep, table, used, 
     return _prefix_search_nb(n, indptr, indices, wts, deg, a, b, k, tol, rep, table, used, stored, node_budget, sx, st)
 
 
+profile = _profile_nb
+"""``(prof, pos)``: the cut after each prefix (length n + 1) and every vertex's position."""
+
+
+# ------------------------------------------------- window re-optimisation (see windows.py)
+@_jit
+def _window_dp(order, pos, prof, indptr, indices, wts, s, w, T, tol, cut, cost, choice):  # type: ignore[no-untyped-def]  # pragma: no cover
+    """Re-arrange ``order[s:s+w]`` optimally for the window objective; True when it changed.
+
+    Objective of an arrangement (additive over the ``w - 1`` gaps inside the
+    window): a gap whose cut exceeds ``T`` is forbidden, a gap at ``T`` (up
+    to ``tol``) costs ``big``, and every gap adds ``cut**2`` (so that heavy
+    cuts are pushed down even below ``T``).  The prefix ``order[:s]`` and the
+    suffix ``order[s+w:]`` stay fixed: the cut after ``order[:s]`` plus a set
+    ``X`` of window vertices is ``prof[s] + sum_{x in X} (d_B(x) - d_A(x) +
+    d_W(x)) - 2 w(E(X))`` (``A`` the prefix, ``B`` the suffix, ``W`` the
+    window).  The new arrangement is taken only when it costs strictly less.
+    ``order``, ``pos`` and ``prof`` are updated in place.
+    """
+    full = (1 << w) - 1
+    verts = order[s : s + w].copy()
+    delta = np.zeros(w)
+    # window neighbours of each window vertex (local indices) with weights
+    maxd = 1
+    for i in range(w):
+        v = verts[i]
+        d = indptr[v + 1] - indptr[v]
+        if d > maxd:
+            maxd = d
+    nb = np.empty((w, maxd), dtype=np.int64)
+    nw = np.empty((w, maxd))
+    nc = np.zeros(w, dtype=np.int64)
+    for i in range(w):
+        v = verts[i]
+        for p in range(indptr[v], indptr[v + 1]):
+            q = pos[indices[p]]
+            if q < s:
+                delta[i] -= wts[p]
+            elif q >= s + w:
+                delta[i] += wts[p]
+            else:
+                delta[i] += wts[p]
+                nb[i, nc[i]] = q - s
+                nw[i, nc[i]] = wts[p]
+                nc[i] += 1
+    big = (w + 1.0) * (T * T + 1.0) * 4.0 + 1.0
+    lim = T + tol
+    at = T - tol
+    inf = np.inf
+    cut[0] = prof[s]
+    cost[0] = 0.0
+    for X in range(1, full + 1):
+        # lowest set bit
+        i = 0
+        while not (X >> i) & 1:
+            i += 1
+        rest = X ^ (1 << i)
+        c = cut[rest] + delta[i]
+        for t in range(nc[i]):
+            if (rest >> nb[i, t]) & 1:
+                c -= 2.0 * nw[i, t]
+        cut[X] = c
+        if X == full:
+            g = 0.0
+        elif c > lim:
+            cost[X] = inf
+            choice[X] = -1
+            continue
+        else:
+            g = c * c
+            if c >= at:
+                g += big
+        best = inf
+        bi = -1
+        r = X
+        j = 0
+        while r:
+            if r & 1:
+                val = cost[X ^ (1 << j)]
+                if val < best:
+                    best = val
+                    bi = j
+            r >>= 1
+            j += 1
+        cost[X] = best + g
+        choice[X] = bi
+    # cost of the current arrangement
+    cur = 0.0
+    X = 0
+    for k in range(w - 1):
+        X |= 1 << k
+        c = cut[X]
+        if c > lim:
+            cur = inf
+            break
+        cur += c * c + (big if c >= at else 0.0)
+    new = cost[full]
+    if not new < cur - 1e-9 * (1.0 + abs(cur)):
+        return False
+    X = full
+    seq = np.empty(w, dtype=np.int64)
+    for k in range(w - 1, -1, -1):
+        i = choice[X]
+        seq[k] = i
+        X ^= 1 << i
+    X = 0
+    for k in range(w):
+        v = verts[seq[k]]
+        order[s + k] = v
+        pos[v] = s + k
+        X |= 1 << seq[k]
+        if k < w - 1:
+            prof[s + k + 1] = cut[X]
+    return True
+
+
+@_jit
+def window_pass(order, pos, prof, indptr, indices, wts, starts, w, T, tol):  # type: ignore[no-untyped-def]  # pragma: no cover
+    """Run the window re-optimisation at each start position in turn; returns the number changed.
+
+    ``T`` is the threshold of the objective (the current width); windows
+    never create a gap above it.
+    """
+    size = 1 << w
+    cut = np.empty(size)
+    cost = np.empty(size)
+    choice = np.empty(size, dtype=np.int8)
+    changed = 0
+    for t in range(starts.shape[0]):
+        s = starts[t]
+        if _window_dp(order, pos, prof, indptr, indices, wts, s, w, T, tol, cut, cost, choice):
+            changed += 1
+    return changed
+
+
+# ------------------------------------------------- concurrent-flow routing (see flow.py)
+@_jit
+def route_sources(n, indptr, indices, eid, w, pi, load, pass_load, sources, alpha, scale):  # type: ignore[no-untyped-def]
+    """Route ``pi[t]`` units from every source in ``sources`` to every other vertex ``t``, one source at a time.
+
+    Each source sends along a shortest-path tree for the lengths
+    ``exp(alpha * load[e] / (w[e] * scale)) / w[e]`` (``scale`` is the
+    current largest ratio ``load / w``, updated as loads grow; lengths are
+    ``1 / w`` while it is 0), so later sources avoid the edges earlier ones
+    filled.  The tree edge above vertex ``v`` carries the sum of ``pi`` over
+    the subtree of ``v``; these units are added to ``load`` and to
+    ``pass_load``.  Only the tree matters for soundness, not the lengths.
+
+    Returns the updated ``scale``.  ``O(|sources| m log n)``.
+    """
+    INF = 1.0e300
+    dist = np.empty(n)
+    done = np.zeros(n, dtype=np.bool_)
+    pedge = np.empty(n, dtype=np.int64)
+    parent = np.empty(n, dtype=np.int64)
+    settled = np.empty(n, dtype=np.int64)
+    sub = np.empty(n)
+    cap = 2 * indptr[n] + 16
+    hk = np.empty(cap)
+    hv = np.empty(cap, dtype=np.int64)
+    for si in range(sources.shape[0]):
+        s = sources[si]
+        for v in range(n):
+            dist[v] = INF
+            done[v] = False
+            pedge[v] = -1
+            parent[v] = -1
+        dist[s] = 0.0
+        size = 0
+        # push (0, s)
+        hk[0] = 0.0
+        hv[0] = s
+        size = 1
+        cnt = 0
+        while size > 0:
+            # pop min
+            d = hk[0]
+            v = hv[0]
+            size -= 1
+            if size > 0:
+                lk = hk[size]
+                lv = hv[size]
+                i = 0
+                while True:
+                    c = 2 * i + 1
+                    if c >= size:
+                        break
+                    if c + 1 < size and hk[c + 1] < hk[c]:
+                        c += 1
+                    if hk[c] < lk:
+                        hk[i] = hk[c]
+                        hv[i] = hv[c]
+                        i = c
+                    else:
+                        break
+                hk[i] = lk
+                hv[i] = lv
+            if done[v] or d > dist[v]:
+                continue
+            done[v] = True
+            settled[cnt] = v
+            cnt += 1
+            for j in range(indptr[v], indptr[v + 1]):
+                u = indices[j]
+                if done[u]:
+                    continue
+                e = eid[j]
+                if scale > 0.0:
+                    le = math.exp(alpha * load[e] / (w[e] * scale)) / w[e]
+                else:
+                    le = 1.0 / w[e]
+                nd = d + le
+                if nd < dist[u]:
+                    dist[u] = nd
+                    pedge[u] = e
+                    parent[u] = v
+                    if size >= cap:
+                        continue  # cannot happen: at most one push per arc
+                    i = size
+                    size += 1
+                    while i > 0:
+                        p = (i - 1) // 2
+                        if hk[p] > nd:
+                            hk[i] = hk[p]
+                            hv[i] = hv[p]
+                            i = p
+                        else:
+                            break
+                    hk[i] = nd
+                    hv[i] = u
+        for i in range(cnt):
+            sub[settled[i]] = pi[settled[i]]
+        for i in range(cnt - 1, 0, -1):
+            v = settled[i]
+            e = pedge[v]
+            load[e] += sub[v]
+            pass_load[e] += sub[v]
+            sub[parent[v]] += sub[v]
+            r = load[e] / w[e]
+            if r > scale:
+                scale = r
+    return scale
+
+
 _WARM = [False]
 
 
@@ -632,6 +882,9 @@ def warm_up() -> None:
     prefix_search(3, indptr, indices, wts, deg, -1, -1, 1.0, 1e-9, np.arange(3, dtype=np.int64), table,
                   used, np.zeros(1, dtype=np.int64), 100)
     memo_grow(table, used)
+    order = np.arange(3, dtype=np.int64)
+    prof, pos = profile(order, indptr, indices, wts)
+    window_pass(order, pos, prof, indptr, indices, wts, np.array([0], dtype=np.int64), 3, 2.0, 1e-9)
     _WARM[0] = True
 
 

@@ -18,7 +18,7 @@ from typing import Hashable, Iterable
 import numpy as np
 
 from ...problems.ordering import OrderingProblem
-from . import _kernels
+from . import kernels
 
 __all__ = ["flow_bound"]
 
@@ -235,7 +235,7 @@ def _flow_connected(problem: OrderingProblem, U: np.ndarray, deadline: float | N
         return 0.0
     integral = problem.integral
     w = problem.weights.astype(np.float64)
-    indptr, indices, eid = _kernels.csr_with_ids(n, problem.edges)
+    indptr, indices, eid = kernels.csr_with_ids(n, problem.edges)
     u = int(U.sum())
     if u < 2:
         return 0.0
@@ -273,7 +273,7 @@ def _flow_connected(problem: OrderingProblem, U: np.ndarray, deadline: float | N
                 chunk = int(max(1, min(u - pos, 0.1 / max(per_source, 1e-7))))
             part = order[pos : pos + chunk]
             t0 = time.monotonic()
-            scale = _kernels.route_sources(n, indptr, indices, eid, w, pi, load, pass_load, part, alpha, scale)
+            scale = kernels.route_sources(n, indptr, indices, eid, w, pi, load, pass_load, part, alpha, scale)
             dt = time.monotonic() - t0
             if calls == 0 and dt > 0.2:
                 per_source = None  # the first call may have compiled the kernel: measure again
@@ -285,11 +285,13 @@ def _flow_connected(problem: OrderingProblem, U: np.ndarray, deadline: float | N
             pos += len(part)
             work += len(part) * 2.0 * m
             c = float(np.max(load / w))
-            best = max(best, _separated(u, mu_total[srcs], kind[srcs], lo, hi) / c)
+            if c > 0 and math.isfinite(c):  # 0 or inf only when weights underflow: no bound from this pass
+                best = max(best, _separated(u, mu_total[srcs], kind[srcs], lo, hi) / c)
         if pos >= u:
             passes += 1
             c = float(np.max(pass_load / w))
-            best = max(best, _separated(u, mu_pass[srcs], kind[srcs], lo, hi) / c)
+            if c > 0 and math.isfinite(c):  # 0 or inf only when weights underflow: no bound from this pass
+                best = max(best, _separated(u, mu_pass[srcs], kind[srcs], lo, hi) / c)
         history.append(best)
         if deadline is not None and time.monotonic() >= deadline:
             break

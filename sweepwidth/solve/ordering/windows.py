@@ -45,7 +45,7 @@ import numpy as np
 
 from ...errors import SweepwidthError
 from ...problems.ordering import OrderingProblem
-from . import _compiled
+from . import kernels
 
 __all__ = ["improve_windows", "pinned_order", "MergedPins", "window_for"]
 
@@ -120,7 +120,7 @@ def _run(
     nf, nl = len(Q.first), len(Q.last)
     lo, hi = nf, n - nl  # counted gaps are after lo .. hi vertices; movable positions lo .. hi-1
     indptr, indices, wts = Q.csr()
-    prof, pos = _compiled.profile(arr, indptr, indices, wts)
+    prof, pos = kernels.profile(arr, indptr, indices, wts)
     if hi <= lo:
         return 0.0
     width = float(prof[lo : hi + 1].max())
@@ -161,7 +161,7 @@ def _run(
             for b in range(0, len(seq), batch):
                 if deadline is not None and time.monotonic() > deadline:
                     break
-                changed += _compiled.window_pass(arr, pos, prof, indptr, indices, wts, seq[b : b + batch], w, width, tol)
+                changed += kernels.window_pass(arr, pos, prof, indptr, indices, wts, seq[b : b + batch], w, width, tol)
                 now = float(prof[lo : hi + 1].max())
                 if now < width - tol:
                     width = now

@@ -3,7 +3,7 @@
 The search, all under one deadline:
 
 1. *Starts*: the given orderings, else the constructions of
-   :mod:`sweepwidth.solve.ordering_heuristics` (level, two-source, spectral
+   :mod:`sweepwidth.solve.ordering.heuristics` (level, two-source, spectral
    and greedy orderings) from several spread vertices, the pinned ends first.
 2. *Descent* of each start: passes of best single-vertex moves, then window
    re-optimisation (:mod:`.windows`); the best few starts are kept.
@@ -37,7 +37,7 @@ from typing import Any, Sequence
 import numpy as np
 
 from ...problems.ordering import OrderingProblem
-from . import _compiled
+from . import kernels
 from .windows import MergedPins, OnImprove, _check_window, _run, pinned_order, window_for
 
 __all__ = ["search_orderings", "start_orderings"]
@@ -46,7 +46,7 @@ __all__ = ["search_orderings", "start_orderings"]
 def start_orderings(problem: OrderingProblem, *, seed: int | None = None, count: int = 6, deadline: float | None = None) -> list[list[int]]:
     """Constructed orderings to start from (pins in place), the best construction first.
 
-    Uses the public constructions of :mod:`sweepwidth.solve.ordering_heuristics`.
+    Uses the public constructions of :mod:`sweepwidth.solve.ordering.heuristics`.
 
     Examples
     --------
@@ -55,7 +55,7 @@ def start_orderings(problem: OrderingProblem, *, seed: int | None = None, count:
     >>> len(start_orderings(P, seed=0)) >= 1
     True
     """
-    from ..ordering_heuristics import greedy_ordering, heuristic_ordering, level_ordering, two_source_ordering
+    from .heuristics import greedy_ordering, heuristic_ordering, level_ordering, two_source_ordering
 
     n = problem.n
     if n <= 1:
@@ -95,11 +95,12 @@ class _State:
         self.lo = len(Q.first)
         self.hi = Q.n - len(Q.last)
         self.tol = 1e-9 * max(1.0, float(Q.weights.max())) if Q.m else 1e-9
+        self.accepted = 0  # kicks kept
         self.set(arr)
 
     def set(self, arr: np.ndarray) -> None:
         self.arr = np.asarray(arr, dtype=np.int64).copy()
-        self.prof, self.pos = _compiled.profile(self.arr, self.indptr, self.indices, self.wts)
+        self.prof, self.pos = kernels.profile(self.arr, self.indptr, self.indices, self.wts)
 
     def key(self) -> tuple[float, int]:
         c = self.prof[self.lo : self.hi + 1]
@@ -178,7 +179,7 @@ def search_orderings(
     def done() -> bool:
         return time.monotonic() > deadline or (target is not None and best[0] <= target + 1e-9)
 
-    from ..ordering_heuristics import improve_ordering
+    from .heuristics import improve_ordering
 
     starts = [pinned_order(problem, o) for o in start_orders] if start_orders else None
     if starts is None:
@@ -233,7 +234,7 @@ def search_orderings(
                 st.set(cand.arr)
             if st.key()[0] < best[0] - 1e-9:
                 offer(st.arr)
-    stats["accepted"] = sum(getattr(s, "accepted", 0) for s in states)
+    stats["accepted"] = sum(s.accepted for s in states)
     return float(best[0]), list(best[1]), stats
 
 
@@ -268,7 +269,7 @@ def _kick(st: _State, w: int, rng: np.random.Generator) -> None:
         # move a block of the stretch to its other end
         k = int(rng.integers(1, max(2, L // 2)))
         st.arr[a:b] = np.concatenate([seg[k:], seg[:k]]) if rng.random() < 0.5 else np.concatenate([seg[-k:], seg[:-k]])
-    st.prof, st.pos = _compiled.profile(st.arr, st.indptr, st.indices, st.wts)
+    st.prof, st.pos = kernels.profile(st.arr, st.indptr, st.indices, st.wts)
     ww = min(w, span)
     s0 = max(lo, a - ww + 1)
     s1 = min(hi - ww, b - 1)
@@ -278,13 +279,13 @@ def _kick(st: _State, w: int, rng: np.random.Generator) -> None:
             starts = np.arange(s0 + (r % step), s1 + 1, step, dtype=np.int64)
             if starts.shape[0] == 0:
                 starts = np.array([s0], dtype=np.int64)
-            ch = _compiled.window_pass(st.arr, st.pos, st.prof, st.indptr, st.indices, st.wts, starts, ww, T, st.tol)
+            ch = kernels.window_pass(st.arr, st.pos, st.prof, st.indptr, st.indices, st.wts, starts, ww, T, st.tol)
             if ch == 0 and r > 0:
                 break
     # the profile was kept up to date by the windows; recompute to avoid drift
-    st.prof, st.pos = _compiled.profile(st.arr, st.indptr, st.indices, st.wts)
+    st.prof, st.pos = kernels.profile(st.arr, st.indptr, st.indices, st.wts)
     new_key = st.key()
     if new_key <= old_key:
-        st.accepted = getattr(st, "accepted", 0) + 1
+        st.accepted += 1
         return
     st.arr, st.prof, st.pos = saved_arr, saved_prof, saved_pos

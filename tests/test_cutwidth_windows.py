@@ -1,4 +1,4 @@
-"""Window re-optimisation and the multi-start search (sweepwidth.solve.cutwidth_new).
+"""Window re-optimisation and the multi-start search (sweepwidth.solve.ordering).
 
 Every width is recomputed by the independent checker ``sweepwidth.verify.ordering_width``
 on the networkx graph; optimality references come from the subset DP and from published
@@ -18,9 +18,9 @@ from hypothesis import strategies as st
 from sweepwidth import generators
 from sweepwidth.errors import SweepwidthError
 from sweepwidth.problems.ordering import OrderingProblem
-from sweepwidth.solve.cutwidth_new.local_search import search_orderings, start_orderings
-from sweepwidth.solve.cutwidth_new.windows import improve_windows
-from sweepwidth.solve.ordering_dp import solve_dp
+from sweepwidth.solve.ordering.local_search import search_orderings, start_orderings
+from sweepwidth.solve.ordering.windows import improve_windows
+from sweepwidth.solve.ordering.dp import solve_dp
 from sweepwidth.verify.ordering import ordering_width
 
 from strategies import plane_graphs
@@ -46,7 +46,7 @@ def test_windows_never_worsen_and_never_beat_the_dp(P0, seed, window, pin):
     reports = []
     w, order = improve_windows(P, start, time.monotonic() + 5, window=window, seed=seed,
                                on_improve=lambda a, o: reports.append((a, o)))
-    from sweepwidth.solve.cutwidth_new.windows import pinned_order
+    from sweepwidth.solve.ordering.windows import pinned_order
 
     assert w <= P.width(pinned_order(P, start)) + 1e-9
     _recheck(G, P, w, order, first=first)

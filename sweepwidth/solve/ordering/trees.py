@@ -16,7 +16,7 @@ not implement Yannakakis' algorithm.**  It gives
   ``ceil(h/2) + 1``, because their optimal layouts split subtrees around the
   vertices of a long path.
 * :func:`branch_bound` -- a lower bound from the path argument below, and
-  the three-branch bound of :func:`sweepwidth.solve.ordering_bounds.tree_bound`;
+  the three-branch bound of :func:`sweepwidth.solve.ordering.bounds.tree_bound`;
 * :func:`tree_cutwidth` -- both, then the window search of :mod:`.local_search`
   from the block layout until the bounds meet or time is up.  The answer is
   exact only when they meet (``optimal`` says so); weighted forests are refused
@@ -349,7 +349,7 @@ def tree_cutwidth(
     >>> out.lower, out.upper, out.optimal
     (3.0, 3.0, True)
     """
-    from ..ordering_bounds import tree_bound
+    from .bounds import tree_bound
     from .local_search import search_orderings
 
     t0 = time.monotonic()
