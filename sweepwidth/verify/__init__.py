@@ -17,6 +17,7 @@ _MODULES = {
     "cutwidth": "sweepwidth.verify.ordering",
     "homology": "sweepwidth.verify.homology",
     "homotopy": "sweepwidth.verify.homotopy",
+    "width": "sweepwidth.verify.width",
 }
 
 

@@ -1,0 +1,15 @@
+"""The one place where the homotopy width code imports the homotopy height code.
+
+Everything the width solvers reuse from the height solvers comes through
+this module, so that a reorganisation of :mod:`sweepwidth.solve` needs
+changes here only.
+"""
+
+from __future__ import annotations
+
+from ..homotopy import _bfs_rank as bfs_rank
+from ..homotopy import _FreeGroup as FreeGroup
+from ..homotopy import construct_homotopy, homotopy_height
+from .._walks import WalkSpace
+
+__all__ = ["FreeGroup", "WalkSpace", "bfs_rank", "construct_homotopy", "homotopy_height"]
