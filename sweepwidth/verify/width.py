@@ -94,14 +94,17 @@ def replay_width(
     Examples
     --------
     >>> from sweepwidth.generators import grid
-    >>> P = grid(2, 2)                                 # one square
-    >>> a, b = {"vertex": (0, 0), "darts": [0]}, {"vertex": (1, 0), "darts": [6]}
-    >>> s, e = {"vertex": (0, 0), "darts": [2]}, {"vertex": (0, 1), "darts": [4]}
-    >>> moves = [{"op": "step", "walk": "a", "to": 1}, {"op": "step", "walk": "b", "to": 1}]
-    >>> replay_width(P, {"start": s, "moves": moves}, a=a, b=b, start=s, end=e)
+    >>> from sweepwidth import homotopy_width
+    >>> P = grid(2, 3)                                 # two squares side by side
+    >>> r = homotopy_width(P, {"vertices": [(0, 0), (0, 1), (0, 2)]}, {"vertices": [(1, 0), (1, 1), (1, 2)]})
+    >>> opts = r.stats["options"]
+    >>> kw = {k: opts[k] for k in ("a", "b", "start", "end")}
+    >>> replay_width(P, r.witness, **kw)
+    2.0
+    >>> replay_width(P, {"start": r.witness["start"], "moves": r.witness["moves"][:-1]}, **kw)
     Traceback (most recent call last):
     ...
-    sweepwidth.errors.WitnessError: the sweep ends at leash [1, 2, 6] (indices 1, 1), not at the end leash [4] (indices 1, 1)
+    sweepwidth.errors.WitnessError: the sweep ends at leash [...] (indices ...), not at the end leash [8] (indices 2, 2)
     """
     if weight not in ("weight", None, "vertices"):
         raise SweepwidthError(f"unknown weight convention {weight!r}; valid: 'weight', None, 'vertices'")

@@ -105,7 +105,7 @@ def frechet_bound(W: Any, D: list[list[float]] | None = None) -> tuple[float, li
     >>> P = grid(3, 3)
     >>> W = WidthProblem.build(P, {"vertices": [(0, 0), (0, 1), (0, 2)]}, {"vertices": [(2, 0), (2, 1), (2, 2)]})
     >>> frechet_bound(W)[0]
-    2.0
+    3.0
     """
     if D is None:
         D = leash_distances(W)

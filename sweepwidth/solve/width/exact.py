@@ -124,7 +124,7 @@ def search_width(
     >>> W = WidthProblem.build(P, {"vertices": [(0, 0), (0, 1), (0, 2)]}, {"vertices": [(1, 0), (1, 1), (1, 2)]})
     >>> out = search_width(W)
     >>> out.optimal, out.upper
-    (True, 1.0)
+    (True, 2.0)
     """
     t0 = time.monotonic()
     sp = walk_space(W)
