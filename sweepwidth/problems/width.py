@@ -364,7 +364,7 @@ def _default_leashes(P: Any, A: Curve, B: Curve, tail: tuple, head: tuple) -> tu
         raise InvalidCurveError(f"default leashes need walks a and b without common vertices; {why}")
     for O in (W, [d ^ 1 for d in reversed(W)]):
         pos = {tail[d]: k for k, d in enumerate(O)}
-        if A.vertex not in pos or B.vertex not in pos:
+        if any(v not in pos for v in av + bv):
             raise InvalidCurveError(f"default leashes: walks a and b must lie on the outer boundary; {why}")
         k = pos[A.vertex]
         if any(O[(k + x) % n] != d for x, d in enumerate(A.darts)):

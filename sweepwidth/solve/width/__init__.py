@@ -186,9 +186,12 @@ def homotopy_width(
         upper, witness = got[0], got[1]
         bounds["upper"] = f"constructed sweep ({got[2]})"
     nf = sum(1 for f in range(P.number_of_faces()) if f not in W.holes)
+    zero = any(c == 0 for c in W.cost)
     run = method == "search" or (method == "auto" and (upper is None or upper - lower > _EPS)
-                                 and (deadline is not None or nf <= AUTO_SEARCH_FACES))
-    if method == "auto" and not run and (upper is None or upper - lower > _EPS):
+                                 and (deadline is not None or (nf <= AUTO_SEARCH_FACES and not zero)))
+    if method == "auto" and zero and deadline is None and not run:
+        stats["auto"] = "exact search skipped: zero-weight edges and no time limit (see sweepwidth.solve.width.exact)"
+    if method == "auto" and not run and "auto" not in stats and (upper is None or upper - lower > _EPS):
         stats["auto"] = f"exact search skipped: {nf} sweepable faces > {AUTO_SEARCH_FACES} and no time limit"
     if run and (upper is None or upper - lower > _EPS):
         out = search_width(W, lower=lower, upper=upper, upper_witness=witness, deadline=deadline,

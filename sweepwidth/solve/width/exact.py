@@ -23,6 +23,14 @@ its key is the homotopy width.
   canonical form is needed.  Flips, spikes and unspikes come from the walk
   machinery of the height search; endpoint steps are generated here.
 
+Zero weights
+------------
+With edges of weight 0 the leashes below a given length are infinitely
+many (spikes and face loops of weight 0), so a level may never be
+exhausted: the search is then exact only when it reaches the end state in
+the optimal level, and otherwise stops at its time or state limit with
+proven bounds.
+
 Memory
 ------
 Each stored state costs about ``STATE_BYTES + 8 * darts`` bytes (the tuple,
