@@ -20,7 +20,10 @@ from the tree of ``a_i`` or of ``b_j``, and a slack ``s`` (retarget only
 when the leash is more than ``s`` longer than the distance; a lazier leash
 moves less and sometimes stays shorter over the next steps).  Every
 variant's witness is replayed by the independent checker before it is
-used.
+used.  When the walks fit the coning construction of :mod:`.coning`, the
+height dispatcher's constructions on the coned instance (spectral,
+straight-line and greedy face orders) are translated back into a leash
+sweep too (:func:`coned_construction`).
 
 Time: O(r) homotopy constructions, each O(M * L) for M moves and leashes of
 length at most L, plus ``p + q + 2`` runs of Dijkstra's algorithm.
@@ -36,7 +39,7 @@ from ...problems.homotopy import Curve
 from ._reuse import bfs_rank, construct_homotopy
 from .bounds import distances_from, frechet_bound, leash_distances
 
-__all__ = ["construct_sweep", "best_constructed"]
+__all__ = ["construct_sweep", "best_constructed", "coned_construction"]
 
 
 def _path_to(par: list[int], tail: tuple, src: int, dst: int) -> tuple | None:
@@ -166,4 +169,97 @@ def best_constructed(W: Any, *, deadline: float | None = None) -> tuple[float, d
             continue
         if best is None or w < best[0]:
             best = (w, got[1], f"shortest leashes from {'b' if from_b else 'a'}, slack {slack:g}")
+    if deadline is None or time.monotonic() < deadline:
+        M = (best[0] if best is not None else sum(W.cost)) + 1.0
+        try:
+            got = coned_construction(W, M, deadline=deadline)
+        except Exception:  # noqa: BLE001 - a failed variant is skipped, never trusted
+            got = None
+        if got is not None:
+            try:
+                w = replay_width(W.graph, got[1], **kw)
+                if best is None or w < best[0]:
+                    best = (w, got[1], "height construction on the coned instance, translated back")
+            except WitnessError:
+                pass
     return best
+
+
+def coned_construction(W: Any, M: float, *, deadline: float | None = None) -> tuple[float, dict] | None:
+    """A leash sweep from the height constructions on the coned instance (:mod:`.coning`).
+
+    The height dispatcher's constructed homotopy (several face orders) of
+    the coned problem is translated back move by move: flips of cone
+    triangles become endpoint steps, every other move shifts by one
+    position.  Paths with more than two cone edges, backward steps in a
+    forward-only problem, or a step whose leash is not the free-reduction
+    result discard the translation.  Returns ``(width, witness)`` (not yet
+    replayed) or None.
+    """
+    from ...errors import SweepwidthError
+    from ...problems.homotopy import HomotopyProblem, apply_move
+    from ._reuse import homotopy_height
+    from .coning import cone_instance
+
+    try:
+        C = cone_instance(W, M)
+    except SweepwidthError:
+        return None
+    Q = C["graph"]
+    limit = None if deadline is None else max(0.5, deadline - time.monotonic())
+    r = homotopy_height(Q, start=C["start"], end=C["end"], s=C["s"], t=C["t"], holes=C["holes"],
+                        spikes=C["spikes"], simple=C["simple"], method="bounds", time_limit=limit)
+    if r.witness is None:
+        return None
+    H = HomotopyProblem.build(Q, start=C["start"], end=C["end"], s=C["s"], t=C["t"], holes=C["holes"],
+                              spikes=C["spikes"], simple=C["simple"])
+    m, p = W.graph.number_of_edges(), W.p
+
+    def decode(darts: tuple) -> tuple[int, int, tuple] | None:
+        if len(darts) < 2:
+            return None
+        ea, eb = (darts[0] >> 1) - m, (darts[-1] >> 1) - m - (p + 1)
+        inner = darts[1:-1]
+        if not 0 <= ea <= p or not 0 <= eb <= W.q or any((d >> 1) >= m for d in inner):
+            return None
+        return ea, eb, tuple(inner)
+
+    cur = Curve(tuple(C["start"]), H.s)
+    s = W.initial()
+    moves: list = []
+    width = W.length_of(s.darts)
+    for mv in r.witness["moves"]:
+        cur = apply_move(H, cur, mv, check=False)
+        got = decode(cur.darts)
+        if got is None:
+            return None
+        i, j, L = got
+        if (i, j) != (s.i, s.j):
+            if abs(i - s.i) + abs(j - s.j) != 1:
+                return None
+            walk, to = ("a", i) if i != s.i else ("b", j)
+            if to < (s.i if walk == "a" else s.j) and not W.backward:
+                return None
+            s = W.step(s, walk, to)
+            if s.darts != L:
+                return None
+            moves.append({"op": "step", "walk": walk, "to": to})
+        else:
+            m2 = dict(mv)
+            m2["pos"] = int(mv["pos"]) - 1
+            if mv["op"] == "flip":
+                # face ids of the coned graph differ: name the face by one of its darts
+                fd = [d for d in Q.face_darts(mv["face"]) if d < 2 * m]
+                if not fd:
+                    return None
+                m2["face"] = W.graph.face_of_dart(fd[0])
+            if m2["pos"] < 0:
+                return None
+            s = W.apply_move(s, m2, check=False)
+            if s.darts != L:
+                return None
+            moves.append(m2)
+        width = max(width, W.length_of(s.darts))
+    if not W.is_final(s):
+        return None
+    return width, {"start": W.leash_json(W.start.darts, W.start.vertex), "moves": moves}
