@@ -72,3 +72,18 @@ def test_cone_needs_boundary_walks():
                            start={"vertices": [(1, 1), (1, 2), (2, 2)]}, end={"vertices": [(1, 1), (2, 1), (2, 2)]})
     with pytest.raises(InvalidCurveError):
         cone_instance(W, 10)
+
+
+@settings(max_examples=25, deadline=None, suppress_health_check=[HealthCheck.too_slow])
+@given(boundary_instances(max_faces=8), st.booleans())
+def test_homology_lower_bound_is_sound(inst, backward):
+    # the closed-cone homology bound never exceeds the exact width (checked against the reference
+    # search in test_width.py); it needs the default leashes, which boundary_instances gives
+    from sweepwidth.solve.width.coning import homology_lower
+
+    P, a, b = inst
+    r = sw.homotopy_width(P, a, b, method="search", backward=backward)
+    W = WidthProblem.build(P, a, b, backward=backward)
+    hl, note = homology_lower(W, r.value + 1)
+    assert hl is not None, note
+    assert hl <= r.value + 1e-9

@@ -7,12 +7,15 @@ The definition, the moves and the witness form are in
   Fréchet distance, its grid-bottleneck form with backward steps);
 * :mod:`.construct`: constructed leash sweeps (upper bounds with witnesses);
 * :mod:`.exact`: the exact bottleneck search over leash states;
-* :mod:`.coning`: the coned height instance and the relation to the height.
+* :mod:`.coning`: the coned height instance and the relation to the height,
+  and the homology lower bound of the closed cone (default leashes).
 
 Methods
 -------
 'bounds'
-    Lower bound and the best constructed sweep.
+    Lower bound (the Fréchet bounds; with the default leashes also the
+    homology width of the closed cone, see
+    :func:`.coning.homology_lower`) and the best constructed sweep.
 'search'
     The exact search (started from the constructed sweep's width).
 'auto'
@@ -43,6 +46,7 @@ from ...problems.width import WidthProblem
 from ...result import Result
 from ._reuse import FreeGroup
 from .bounds import frechet_bound, leash_distances
+from .coning import homology_lower
 from .construct import best_constructed
 from .exact import DEFAULT_MAX_MEMORY, search_width
 
@@ -52,6 +56,8 @@ METHODS = ("auto", "bounds", "search")
 #: without a time limit 'auto' runs the exact search only up to this many sweepable faces
 AUTO_SEARCH_FACES = 40
 _EPS = 1e-9
+#: seconds for the homology lower bound when no time limit is given
+HOMOLOGY_BUDGET = 20.0
 
 
 def classes_match(W: WidthProblem) -> tuple[bool, str]:
@@ -185,6 +191,16 @@ def homotopy_width(
     if got is not None:
         upper, witness = got[0], got[1]
         bounds["upper"] = f"constructed sweep ({got[2]})"
+    if upper is None or upper - lower > _EPS:
+        M = (upper if upper is not None else sum(W.cost)) + 1.0
+        left = None if deadline is None else max(0.2, 0.5 * (deadline - time.monotonic()))
+        hl, note = homology_lower(W, M, time_limit=left if left is not None else HOMOLOGY_BUDGET)
+        stats["homology"] = note
+        if hl is not None and upper is not None and hl > upper + _EPS:  # pragma: no cover - a bug in a bound
+            stats["homology"] = note + f"; ignored: {hl:g} exceeds the width {upper:g} of a replayed sweep"
+        elif hl is not None and hl > lower + _EPS:
+            lower = hl
+            bounds["lower"] = note
     nf = sum(1 for f in range(P.number_of_faces()) if f not in W.holes)
     zero = any(c == 0 for c in W.cost)
     run = method == "search" or (method == "auto" and (upper is None or upper - lower > _EPS)
