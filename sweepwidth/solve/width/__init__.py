@@ -191,7 +191,7 @@ def homotopy_width(
     if got is not None:
         upper, witness = got[0], got[1]
         bounds["upper"] = f"constructed sweep ({got[2]})"
-    if upper is None or upper - lower > _EPS:
+    if method != "search" and (upper is None or upper - lower > _EPS):
         M = (upper if upper is not None else sum(W.cost)) + 1.0
         left = None if deadline is None else max(0.2, 0.5 * (deadline - time.monotonic()))
         hl, note = homology_lower(W, M, time_limit=left if left is not None else HOMOLOGY_BUDGET)

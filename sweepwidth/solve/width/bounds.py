@@ -139,7 +139,7 @@ def frechet_bound(W: Any, D: list[list[float]] | None = None) -> tuple[float, li
         path.reverse()
         return max(base, F[p][q]), path
     # bottleneck path in the grid graph
-    best = {(0, 0): D[0][0]}
+    dist: dict = {(0, 0): D[0][0]}
     par: dict = {(0, 0): None}
     heap = [(D[0][0], 0, 0)]
     done = set()
@@ -153,8 +153,8 @@ def frechet_bound(W: Any, D: list[list[float]] | None = None) -> tuple[float, li
         for x, y in ((i + 1, j), (i - 1, j), (i, j + 1), (i, j - 1)):
             if 0 <= x <= p and 0 <= y <= q and (x, y) not in done:
                 g = max(f, D[x][y])
-                if g < best.get((x, y), float("inf")):
-                    best[(x, y)] = g
+                if g < dist.get((x, y), float("inf")):
+                    dist[(x, y)] = g
                     par[(x, y)] = (i, j)
                     heapq.heappush(heap, (g, x, y))
     path = []
@@ -163,4 +163,4 @@ def frechet_bound(W: Any, D: list[list[float]] | None = None) -> tuple[float, li
         path.append(c)
         c = par[c]
     path.reverse()
-    return max(base, best[(p, q)]), path
+    return max(base, dist[(p, q)]), path

@@ -158,7 +158,8 @@ def cone_instance(W: Any, M: float) -> ConedInstance:
         weights = [1.0] * m
     nxt = [P.next_dart(d) for d in range(2 * m)]
     prv = [P.prev_dart(d) for d in range(2 * m)]
-    cone_a, cone_b = [], []
+    cone_a: list[int] = []
+    cone_b: list[int] = []
     for verts, corners, x, store in ((W.a_vertices, ca, xa, cone_a), (W.b_vertices, cb, xb, cone_b)):
         for v, (d_in, d_out) in zip(verts, corners):
             e = len(ends)
@@ -196,9 +197,9 @@ def cone_instance(W: Any, M: float) -> ConedInstance:
             holes = (set(W.holes) - {P.outer_face}) | {outer[0]}
             start = [cone_a[0] ^ 1] + list(W.start.darts) + [cone_b[0]]
             end = [cone_a[-1] ^ 1] + list(W.end.darts) + [cone_b[-1]]
-            e = 1.0 if W.weight == "vertices" else 0.0
+            ex = 1.0 if W.weight == "vertices" else 0.0
             return ConedInstance(graph=Q, s=xa_lab, t=xb_lab, start=start, end=end, holes=holes,
-                                 spikes=W.spikes, simple=W.simple, M=float(M), offset=2.0 * float(M) - e)
+                                 spikes=W.spikes, simple=W.simple, M=float(M), offset=2.0 * float(M) - ex)
     raise InvalidCurveError(f"coning: no planar placement of the cone vertices found ({last})")
 
 
@@ -243,7 +244,9 @@ def closed_cone(W: Any, M: float) -> dict:
     prv = [P.prev_dart(d) for d in range(2 * m)]
     outer = list(P.face_darts(P.outer_face))
     where = {W.tail[d]: k for k, d in enumerate(outer)}
-    cone_a, cone_b, cone = [], [], []
+    cone_a: list[int] = []
+    cone_b: list[int] = []
+    cone: list[tuple[int, int]] = []
     for verts, corners, store in ((W.a_vertices, ca, cone_a), (W.b_vertices, cb, cone_b)):
         for v, (d_in, d_out) in zip(verts, corners):
             e = len(ends)
@@ -273,9 +276,9 @@ def closed_cone(W: Any, M: float) -> dict:
             continue
         start = [cone_a[0] ^ 1] + list(W.start.darts) + [cone_b[0]]
         end = [cone_a[-1] ^ 1] + list(W.end.darts) + [cone_b[-1]]
-        e = 1.0 if W.weight == "vertices" else 0.0
+        ex = 1.0 if W.weight == "vertices" else 0.0
         return {"graph": Q, "x": x_lab, "start": start, "end": end, "holes": holes, "M": float(M),
-                "offset": 2.0 * float(M) - e}
+                "offset": 2.0 * float(M) - ex}
     raise InvalidCurveError("closed cone: no planar placement of the cone vertex found")
 
 

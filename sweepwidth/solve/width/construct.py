@@ -224,7 +224,7 @@ def coned_construction(W: Any, M: float, *, deadline: float | None = None) -> tu
             return None
         return ea, eb, tuple(inner)
 
-    cur = Curve(tuple(C["start"]), H.s)
+    cur = Curve(tuple(C["start"]), int(H.s or 0))
     s = W.initial()
     moves: list = []
     width = W.length_of(s.darts)
