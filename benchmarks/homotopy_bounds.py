@@ -23,7 +23,7 @@ import time
 
 from sweepwidth import generators
 from sweepwidth.problems.homotopy import HomotopyProblem
-from sweepwidth.solve.homotopy import _bfs_rank, construct_homotopy, homotopy_height
+from sweepwidth.solve.homotopy import bfs_rank, construct_homotopy, homotopy_height
 
 
 def _instances(full: bool):
@@ -48,7 +48,7 @@ def main() -> None:
     for name, P in _instances(args.full):
         H = HomotopyProblem.build(P)
         t = time.monotonic()
-        base = construct_homotopy(H, _bfs_rank(H))
+        base = construct_homotopy(H, bfs_rank(H))
         tb = time.monotonic() - t
         t = time.monotonic()
         r = homotopy_height(P, method="bounds", time_limit=args.time_limit)

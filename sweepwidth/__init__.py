@@ -21,6 +21,7 @@ _PUBLIC = {
     "cutwidth": "sweepwidth.solve",
     "homology_width": "sweepwidth.solve",
     "homotopy_height": "sweepwidth.solve",
+    "homotopy_width": "sweepwidth.solve.width",
     "draw": "sweepwidth.draw",
     "Result": "sweepwidth.result",
     "SweepwidthError": "sweepwidth.errors",

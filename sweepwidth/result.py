@@ -50,7 +50,7 @@ class Result:
     Attributes
     ----------
     parameter : str
-        'cutwidth', 'homology' or 'homotopy'.
+        'cutwidth', 'homology', 'homotopy' or 'width'.
     status : str
         'optimal', 'bounded' or 'infeasible' (see the module's status table).
     value : float or None
@@ -59,7 +59,7 @@ class Result:
         Proven bounds on the optimum (``upper`` is the witness's width).
     witness : object
         An ordering of the nodes (cutwidth), of the faces (homology), or a
-        list of moves (homotopy).  Replayed by :meth:`check`.
+        list of moves (homotopy, width).  Replayed by :meth:`check`.
     method : str
         The method that ran; for ``method='auto'`` it says what was chosen.
     seconds : float

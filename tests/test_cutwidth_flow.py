@@ -56,8 +56,11 @@ def _optimum(P: OrderingProblem) -> float:
 
 @settings(max_examples=150, deadline=None, suppress_health_check=[HealthCheck.too_slow])
 @given(multigraph_problems())
-# regression: a subnormal weight made every routed load vanish (division by zero)
+# regressions: a subnormal weight made every routed load vanish (division by zero) or, beside
+# ordinary weights, overflowed the load / weight ratios into a bound above the optimum
 @example(OrderingProblem(labels=(0, 1), edges=np.array([[0, 1]]), weights=np.array([5e-324]), first=frozenset(), last=frozenset()))
+@example(OrderingProblem(labels=(0, 1, 2), edges=np.array([[0, 1], [0, 2]]), weights=np.array([1.0, 5e-324]), first=frozenset(), last=frozenset()))
+@example(OrderingProblem(labels=(0, 1, 2), edges=np.array([[0, 1], [0, 2]]), weights=np.array([5e-324, 2.0]), first=frozenset(), last=frozenset()))
 def test_flow_bound_never_exceeds_optimum(P):
     lb = flow_bound(P)
     opt = _optimum(P)

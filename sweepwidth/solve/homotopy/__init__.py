@@ -103,6 +103,7 @@ __all__ = [
     "homotopy_bounds",
     "homotopy_classes_equal",
     "construct_homotopy",
+    "bfs_rank",
     "METHODS",
 ]
 
@@ -855,7 +856,7 @@ def _transport(H: HomotopyProblem, u: int, v: int) -> list | None:
     return moves
 
 
-def _bfs_rank(H: HomotopyProblem, seed: int | None = None) -> list[float]:
+def bfs_rank(H: HomotopyProblem, seed: int | None = None) -> list[float]:
     """Breadth-first order of the dual from the holes (random tie-breaking with a seed)."""
     import random
 
@@ -991,7 +992,7 @@ def construct_homotopy(
     --------
     >>> from sweepwidth.generators import triangulated_grid
     >>> H = HomotopyProblem.build(triangulated_grid(3))
-    >>> h, wit = construct_homotopy(H, _bfs_rank(H), greedy=True)
+    >>> h, wit = construct_homotopy(H, bfs_rank(H), greedy=True)
     >>> h >= H.length_of(H.start)
     True
     """
@@ -1181,7 +1182,7 @@ def homotopy_bounds(
         worker = threading.Thread(target=run_homology, daemon=True)
         worker.start()
     F = H.n_faces
-    bfs = _bfs_rank(H)
+    bfs = bfs_rank(H)
     # (name, rank, greedy, window); windows of 2 sqrt(F) faces beat strict orders on
     # Delaunay disks (benchmarks/homotopy_bounds.py); strict orders are kept on small inputs
     win = max(2, round(WINDOW_FACTOR * math.sqrt(F)))
@@ -1202,7 +1203,7 @@ def homotopy_bounds(
         orders.append(("homology order, window", None, False, win))
     orders.append(("breadth-first from the holes", bfs, False, 0))
     if seed is not None:
-        orders.append((f"greedy, random breadth-first ties (seed {seed})", _bfs_rank(H, seed), True, 0))
+        orders.append((f"greedy, random breadth-first ties (seed {seed})", bfs_rank(H, seed), True, 0))
     best: tuple[float, dict] | None = None
     best_name = None
     tried: dict = {}
@@ -1370,7 +1371,7 @@ def _method_search(st: _State) -> None:
     """The exact search, started from a quick constructed homotopy."""
     H, deadline = st.H, st.deadline
     quick = None if deadline is None else time.monotonic() + 0.15 * (deadline - time.monotonic())
-    got = construct_homotopy(H, _bfs_rank(H), greedy=True, deadline=quick)
+    got = construct_homotopy(H, bfs_rank(H), greedy=True, deadline=quick)
     if got is not None:
         st.upper, st.witness = got
         st.bounds["upper"] = "constructed homotopy (greedy by length)"

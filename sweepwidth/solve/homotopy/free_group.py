@@ -32,7 +32,7 @@ from typing import Sequence
 
 from ...problems.homotopy import HomotopyProblem
 
-__all__ = ["homotopy_classes_equal"]
+__all__ = ["FreeGroup", "homotopy_classes_equal"]
 
 
 def _reduce(word: list[int]) -> list[int]:
@@ -58,7 +58,7 @@ def _inverse(word: Sequence[int]) -> list[int]:
     return [-x for x in reversed(word)]
 
 
-class _FreeGroup:
+class FreeGroup:
     """Words of walks in the fundamental group of graph + non-hole faces (see module docstring)."""
 
     def __init__(self, problem: HomotopyProblem) -> None:
@@ -156,7 +156,7 @@ def homotopy_classes_equal(problem: HomotopyProblem) -> tuple[bool, str]:
             return False, "simple homotopy: the start curve is not a simple cycle or path"
         if problem.end is not None and problem.end.darts and not problem.is_simple(problem.end):
             return False, "simple homotopy: the end curve is not a simple cycle or path"
-    G = _FreeGroup(problem)
+    G = FreeGroup(problem)
     w0 = G.word(problem.start.darts)
     if problem.closed:
         w1 = [] if problem.end is None else G.word(problem.end.darts)

@@ -1,0 +1,268 @@
+"""Tests of the homotopy width (sweepwidth.solve.width, sweepwidth.problems.width, sweepwidth.verify.width).
+
+Independent references:
+
+* ``tests/reference_width.py``: a brute-force bottleneck search over exact
+  leash states with moves enumerated from the definition (flips by trying
+  every face, orientation, rotation and split; steps written from the rule);
+* ``sweepwidth.verify.width``: the replay checker, sharing no move code with
+  the solvers;
+* networkx's Dijkstra distances for the geodesic Fréchet bound (the
+  recurrence of Eiter and Mannila, TU Vienna report CD-TR 94/64, 1994).
+"""
+
+from __future__ import annotations
+
+import os
+import sys
+import time
+
+import networkx as nx
+import pytest
+from hypothesis import HealthCheck, given, settings
+from hypothesis import strategies as st
+
+import sweepwidth as sw
+from sweepwidth import generators
+from sweepwidth.errors import InvalidCurveError, ProblemTooLargeError, UnsupportedOptionError, WitnessError
+from sweepwidth.problems.width import WidthProblem
+from sweepwidth.solve.width.bounds import frechet_bound
+from sweepwidth.solve.width.exact import search_width
+from sweepwidth.verify.width import replay_width
+
+sys.path.insert(0, os.path.dirname(__file__))
+from reference_width import reference_width  # noqa: E402
+from strategies import triangulated_disks  # noqa: E402
+
+SLOW = settings(max_examples=25, deadline=None, suppress_health_check=[HealthCheck.too_slow])
+
+
+def _cycle(P):
+    return [P.tail(d) for d in P.face_darts(P.outer_face)]
+
+
+def _positive(draw, P, weighted):
+    """Weights 1..3: zero-weight edges make the sets of leashes of bounded length infinite."""
+    if not weighted:
+        return P
+    m = P.number_of_edges()
+    return P.with_weights(draw(st.lists(st.integers(1, 3), min_size=m, max_size=m)))
+
+
+@st.composite
+def boundary_instances(draw, max_faces=8, weighted=True):
+    """A small disk with A and B disjoint arcs of its boundary (default leashes)."""
+    P = _positive(draw, draw(triangulated_disks(max_faces)), weighted)
+    cyc = _cycle(P)
+    n = len(cyc)
+    k = draw(st.integers(0, n - 1))
+    if draw(st.booleans()):
+        cyc = cyc[::-1]
+    p = draw(st.integers(0, max(0, n - 3)))
+    q = draw(st.integers(0, max(0, n - 3 - p)))
+    g1 = draw(st.integers(1, n - 1 - p - q))
+    rot = cyc[k:] + cyc[:k]
+    a = rot[: p + 1]
+    b = rot[p + g1: p + g1 + q + 1][::-1]
+    return P, {"vertices": a}, {"vertices": b}
+
+
+@st.composite
+def interior_instances(draw, max_faces=5):
+    """Short random walks A and B anywhere, with shortest-path leashes."""
+    P = _positive(draw, draw(triangulated_disks(max_faces)), True)
+    G = P.to_simple_graph()
+    vs = sorted(G.nodes)
+
+    def walk(length):
+        v = draw(st.sampled_from(vs))
+        out = [v]
+        for _ in range(length):
+            v = draw(st.sampled_from(sorted(G[v])))
+            out.append(v)
+        return out
+
+    a = walk(draw(st.integers(0, 2)))
+    b = walk(draw(st.integers(0, 2)))
+
+    def leash(u, v):
+        if u == v:
+            return {"vertex": u, "darts": []}
+        return {"vertices": nx.shortest_path(G, u, v)}
+
+    return P, {"vertices": a}, {"vertices": b}, leash(a[0], b[0]), leash(a[-1], b[-1])
+
+
+def _check_all(P, a, b, **kw):
+    W = WidthProblem.build(P, a, b, **{k: v for k, v in kw.items() if k in ("start", "end", "backward", "spikes", "simple", "weight")})
+    exact = sw.homotopy_width(P, a, b, method="search", **kw)
+    assert exact.status == "optimal", exact.stats
+    assert exact.check(P) == exact.value
+    # the brute-force reference: nothing narrower than the value, and the value is attained
+    ref = reference_width(W, exact.value)
+    assert ref == exact.value
+    bnd = sw.homotopy_width(P, a, b, method="bounds", **kw)
+    assert bnd.lower <= exact.value + 1e-9
+    if bnd.upper is not None:
+        assert bnd.upper >= exact.value - 1e-9
+        assert bnd.check(P) == bnd.upper
+    return exact
+
+
+@SLOW
+@given(boundary_instances(), st.booleans(), st.booleans(), st.sampled_from(["weight", None, "vertices"]))
+def test_exact_matches_reference_on_boundary_arcs(inst, backward, spikes, weight):
+    P, a, b = inst
+    _check_all(P, a, b, backward=backward, spikes=spikes, weight=weight)
+
+
+@SLOW
+@given(interior_instances(), st.booleans())
+def test_exact_matches_reference_on_interior_walks(inst, backward):
+    P, a, b, s, e = inst
+    _check_all(P, a, b, start=s, end=e, backward=backward)
+
+
+@settings(max_examples=15, deadline=None, suppress_health_check=[HealthCheck.too_slow])
+@given(boundary_instances(max_faces=5, weighted=False))
+def test_simple_leashes_match_reference(inst):
+    P, a, b = inst
+    _check_all(P, a, b, simple=True, weight=None)
+
+
+@SLOW
+@given(boundary_instances(max_faces=8))
+def test_frechet_bound_against_networkx(inst):
+    # the geodesic Fréchet recurrence recomputed with networkx's Dijkstra
+    P, a, b = inst
+    W = WidthProblem.build(P, a, b)
+    G = nx.Graph()
+    for e in range(P.number_of_edges()):
+        u, v = P.edge_ends(e)
+        if not G.has_edge(u, v) or G[u][v]["weight"] > P.weight(e):
+            G.add_edge(u, v, weight=P.weight(e))
+    A, B = a["vertices"], b["vertices"]
+    d = [[nx.dijkstra_path_length(G, x, y) for y in B] for x in A]
+    F = {}
+    for i in range(len(A)):
+        for j in range(len(B)):
+            prev = [F[c] for c in ((i - 1, j), (i, j - 1)) if c in F]
+            F[i, j] = max(d[i][j], min(prev)) if prev else d[i][j]
+    ends = max(W.length_of(W.start.darts), W.length_of(W.end.darts))
+    assert frechet_bound(W)[0] == max(ends, F[len(A) - 1, len(B) - 1])
+
+
+def test_backward_bound_is_not_above_forward():
+    P = generators.delaunay(12, seed=4)
+    cyc = _cycle(P)
+    a, b = {"vertices": cyc[:4]}, {"vertices": cyc[8:5:-1]}
+    fwd = frechet_bound(WidthProblem.build(P, a, b))[0]
+    bwd = frechet_bound(WidthProblem.build(P, a, b, backward=True))[0]
+    assert bwd <= fwd
+
+
+# ----------------------------------------------------------------- infeasible, holes
+def _ring():
+    # a 3x3 grid of squares: the middle square is face `mid`
+    P = generators.grid(4, 4)
+    mid = P.find_face([(1, 1), (1, 2), (2, 2), (2, 1)])
+    return P, mid
+
+
+def test_leash_around_a_hole_is_infeasible():
+    P, mid = _ring()
+    a = {"vertices": [(0, 0), (0, 1), (0, 2), (0, 3)]}
+    b = {"vertices": [(3, 0), (3, 1), (3, 2), (3, 3)]}
+    start = {"vertices": [(0, 0), (1, 0), (2, 0), (3, 0)]}
+    right = {"vertices": [(0, 3), (1, 3), (2, 3), (3, 3)]}
+    # an end leash that keeps the middle square on its right: the sweep never crosses it
+    near = {"vertices": [(0, 3), (0, 2), (0, 1), (1, 1), (2, 1), (3, 1), (3, 2), (3, 3)]}
+    holes = {P.outer_face, mid}
+    ok = sw.homotopy_width(P, a, b, start=start, end=near, holes=holes)
+    assert ok.status == "optimal" and ok.check(P) == ok.value
+    # from the left column to the right column the leash must sweep over the hole
+    bad = sw.homotopy_width(P, a, b, start=start, end=right, holes=holes)
+    assert bad.status == "infeasible" and "homotopic" in bad.stats["reason"]
+    # without the hole the same leashes are fine
+    r = sw.homotopy_width(P, a, b, start=start, end=right)
+    assert r.status == "optimal" and r.check(P) == r.value
+
+
+# ----------------------------------------------------------------- bad input
+def test_bad_input_errors():
+    P = generators.grid(3, 3)
+    a = {"vertices": [(0, 0), (0, 1), (0, 2)]}
+    b = {"vertices": [(2, 0), (2, 1), (2, 2)]}
+    with pytest.raises(InvalidCurveError, match="walk a is empty"):
+        sw.homotopy_width(P, [], b)
+    with pytest.raises(InvalidCurveError, match="walk b is empty"):
+        sw.homotopy_width(P, a, {"vertices": []})
+    with pytest.raises(InvalidCurveError, match="walk a.*not adjacent"):
+        sw.homotopy_width(P, {"vertices": [(0, 0), (1, 1)]}, b)
+    with pytest.raises(InvalidCurveError, match="not a vertex"):
+        sw.homotopy_width(P, {"vertices": [(0, 0), (9, 9)]}, b)
+    with pytest.raises(InvalidCurveError, match="start leash runs from"):
+        sw.homotopy_width(P, a, b, start={"vertices": [(0, 1), (1, 1), (2, 1)]},
+                          end={"vertices": [(0, 2), (1, 2), (2, 2)]})
+    with pytest.raises(InvalidCurveError, match="end leash runs from"):
+        sw.homotopy_width(P, a, b, start={"vertices": [(0, 0), (1, 0), (2, 0)]},
+                          end={"vertices": [(0, 1), (1, 1), (2, 1)]})
+    with pytest.raises(InvalidCurveError, match="hole 99 is not a face"):
+        sw.homotopy_width(P, a, b, holes={99})
+    with pytest.raises(InvalidCurveError, match="default leashes"):
+        sw.homotopy_width(P, a, {"vertices": [(1, 0), (1, 1)]})
+    with pytest.raises(UnsupportedOptionError):
+        sw.homotopy_width(P, a, b, weight="length")
+    with pytest.raises(UnsupportedOptionError):
+        sw.homotopy_width(P, a, b, method="magic")
+    # errors derive from the matching builtin
+    with pytest.raises(ValueError):
+        sw.homotopy_width(P, [], b)
+
+
+def test_checker_rejects_tampered_witness():
+    P = generators.grid(3, 3)
+    a = {"vertices": [(0, 0), (0, 1), (0, 2)]}
+    b = {"vertices": [(2, 0), (2, 1), (2, 2)]}
+    r = sw.homotopy_width(P, a, b, weight="vertices")
+    assert r.check(P) == r.value
+    moves = list(r.witness["moves"])
+    bad = r.with_(witness={"start": r.witness["start"], "moves": moves[1:]})
+    with pytest.raises(WitnessError):
+        bad.check(P)
+    steps = [m for m in moves if m["op"] == "step"]
+    back = dict(steps[0], to=-1)
+    with pytest.raises(WitnessError, match="outside"):
+        r.with_(witness={"start": r.witness["start"], "moves": [back]}).check(P)
+    with pytest.raises(WitnessError, match="claims"):
+        r.with_(upper=r.value + 1).check(P)
+
+
+def test_memory_estimate_refuses_tiny_budget():
+    P = generators.grid(3, 3)
+    W = WidthProblem.build(P, {"vertices": [(0, 0), (0, 1), (0, 2)]}, {"vertices": [(2, 0), (2, 1), (2, 2)]})
+    with pytest.raises(ProblemTooLargeError, match="max_memory"):
+        search_width(W, max_memory=1000)
+
+
+def test_time_limit_returns_bounds():
+    P = generators.delaunay(60, seed=3)
+    cyc = _cycle(P)
+    n = len(cyc)
+    a = {"vertices": cyc[: n // 2 - 1]}
+    b = {"vertices": cyc[n // 2 + 1:][::-1]}
+    t = time.monotonic()
+    r = sw.homotopy_width(P, a, b, method="search", time_limit=1.0)
+    assert time.monotonic() - t < 2.5
+    assert r.status in ("optimal", "bounded")
+    assert r.lower <= (r.upper if r.upper is not None else float("inf"))
+    if r.witness is not None:
+        assert r.check(P) == r.upper
+
+
+def test_result_round_trip_and_json():
+    P = generators.grid(3, 4)
+    r = sw.homotopy_width(P, {"vertices": [(0, 0), (0, 1), (0, 2), (0, 3)]},
+                          {"vertices": [(2, 0), (2, 1), (2, 2), (2, 3)]})
+    r2 = sw.Result.from_dict(r.to_dict())
+    assert r2.parameter == "width" and r2.check(P) == r.value
