@@ -15,6 +15,7 @@ __all__ = [
     "CrossingEdgesError",
     "WeightError",
     "FileFormatError",
+    "MissingFileError",
     "UnsupportedOptionError",
     "InvalidArgumentError",
     "InvalidCurveError",
@@ -98,8 +99,11 @@ class FileFormatError(SweepwidthError, ValueError):
         self.reason = message
 
 
-class UnsupportedOptionError(SweepwidthError, ValueError):
-    """An unknown method, format or option value; the message lists the valid ones."""
+class UnsupportedOptionError(SweepwidthError, ValueError, TypeError):
+    """An unknown method, format, option value or keyword; the message lists the valid ones.
+
+    Also a TypeError, as Python raises for an unknown keyword argument.
+    """
 
     def __init__(self, what: str, value: object, valid: list | tuple | None = None) -> None:
         msg = f"unknown {what} {value!r}"
@@ -109,6 +113,10 @@ class UnsupportedOptionError(SweepwidthError, ValueError):
         self.what = what
         self.value = value
         self.valid = list(valid or [])
+
+
+class MissingFileError(FileFormatError, FileNotFoundError):
+    """A file that is not there (a FileNotFoundError, and a FileFormatError for handlers of unreadable files)."""
 
 
 class InvalidArgumentError(SweepwidthError, ValueError):

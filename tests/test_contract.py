@@ -201,3 +201,30 @@ def test_unknown_method_lists_the_registry():
         sw.homology_width(generators.grid(2, 3), method="nope")
     for name in methods("homology"):
         assert repr(name) in str(err.value)
+
+
+@pytest.mark.parametrize("name", ["cutwidth", "homology", "homotopy"])
+def test_unknown_keyword_is_a_clear_error_listing_the_valid_ones(name):
+    # regression: homotopy_height(T, spike=False) raised a bare TypeError
+    from sweepwidth import generators
+    from sweepwidth.errors import UnsupportedOptionError
+    from sweepwidth.registry import PARAMETERS
+
+    T = generators.triangulated_grid(2)
+    with pytest.raises(UnsupportedOptionError, match="spike") as info:
+        PARAMETERS[name].solver()(T, spike=False)
+    assert isinstance(info.value, TypeError) and isinstance(info.value, ValueError)
+    assert "valid:" in str(info.value)
+
+
+def test_a_missing_file_is_a_file_not_found_error(tmp_path):
+    # regression: a missing file raised a FileFormatError that no FileNotFoundError handler caught
+    import sweepwidth as sw
+    from sweepwidth.errors import FileFormatError, MissingFileError
+    from sweepwidth.io.saved import load_result, read_saved
+
+    for reader in (sw.read, read_saved, load_result):
+        with pytest.raises(FileNotFoundError) as info:
+            reader(str(tmp_path / "absent.json"))
+        assert isinstance(info.value, MissingFileError) and isinstance(info.value, FileFormatError)
+        assert "absent.json" in str(info.value)

@@ -37,14 +37,16 @@ def load_instance(path: str | os.PathLike) -> Any:
 
     Raises
     ------
+    MissingFileError
+        If the file is missing (a FileNotFoundError).
     FileFormatError
-        If the file is missing or malformed (raised by the reader).
+        If the file is malformed (raised by the reader).
     """
     p = os.fspath(path)
     if not os.path.exists(p):
-        from ..errors import FileFormatError
+        from ..errors import MissingFileError
 
-        raise FileFormatError("no such file", path=p)
+        raise MissingFileError("no such file", path=p)
     from ..io import read
 
     return read(p)

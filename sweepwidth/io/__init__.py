@@ -35,7 +35,7 @@ import os
 from typing import Any, Callable
 
 
-from ..errors import FileFormatError, SweepwidthError, UnsupportedOptionError
+from ..errors import FileFormatError, MissingFileError, SweepwidthError, UnsupportedOptionError
 from ..plane import PlaneGraph
 from ._common import path_name
 from ._json import dumps, from_document, loads, to_document
@@ -156,7 +156,7 @@ def _load(path: Any, format: str | None) -> tuple[bytes, str]:
         with open(path, "rb") as fh:
             data = fh.read()
     except FileNotFoundError:
-        raise FileFormatError("no such file", path=path_name(path)) from None
+        raise MissingFileError("no such file", path=path_name(path)) from None
     except IsADirectoryError:
         raise FileFormatError("is a directory, not a file", path=path_name(path)) from None
     except OSError as err:

@@ -43,7 +43,7 @@ import math
 import os
 from typing import Any, Mapping
 
-from ..errors import FileFormatError
+from ..errors import FileFormatError, MissingFileError
 
 __all__ = [
     "SAVED_FORMAT",
@@ -164,6 +164,8 @@ def read_saved(path: str) -> dict:
     try:
         with open(path, "r", encoding="utf-8") as fh:
             doc = json.load(fh)
+    except FileNotFoundError:
+        raise MissingFileError("no such file", path=path) from None
     except OSError as err:
         raise FileFormatError(f"cannot be read: {err.strerror}", path=path) from err
     except json.JSONDecodeError as err:
@@ -206,6 +208,8 @@ def load_result(path: str | os.PathLike) -> Any:
     try:
         with open(path, encoding="utf-8") as fh:
             doc = json.load(fh)
+    except FileNotFoundError:
+        raise MissingFileError("no such file", path=path) from None
     except OSError as err:
         raise FileFormatError(f"cannot read the result file: {err.strerror or err}", path=path) from err
     except json.JSONDecodeError as err:

@@ -54,6 +54,8 @@ from ..result import Result
 
 __all__ = [
     "MARGIN",
+    "method_label",
+    "reject_unknown_keywords",
     "die_with_parent",
     "isolated_context",
     "Deadline",
@@ -224,6 +226,45 @@ def resolve_weight(parameter: str, weight: Any, *, length: Any = _UNSET, allowed
 
 
 # ------------------------------------------------------------------ results
+def method_label(requested: str, used: str) -> str:
+    """``result.method``: what ran, as ``auto:NAME`` when ``method='auto'`` chose it.
+
+    Examples
+    --------
+    >>> method_label("auto", "subset-dp"), method_label("bounds", "bounds"), method_label("auto", "auto:dp")
+    ('auto:subset-dp', 'bounds', 'auto:dp')
+    """
+    if requested == "auto" and not str(used).startswith("auto"):
+        return f"auto:{used}"
+    return used
+
+
+def reject_unknown_keywords(fn: Any) -> Any:
+    """Wrap a public solver so that an unknown keyword raises UnsupportedOptionError listing the valid ones.
+
+    Functions with ``**options`` check their options themselves; this guards
+    the fixed keyword lists (a bare TypeError otherwise).
+    """
+    import functools
+    import inspect
+
+    sig = inspect.signature(fn)
+    if any(p.kind is inspect.Parameter.VAR_KEYWORD for p in sig.parameters.values()):
+        return fn
+    valid = [n for n, p in sig.parameters.items() if p.kind is inspect.Parameter.KEYWORD_ONLY]
+
+    @functools.wraps(fn)
+    def checked(*args: Any, **kwargs: Any) -> Any:
+        for k in kwargs:
+            if k not in valid:
+                from ..errors import UnsupportedOptionError
+
+                raise UnsupportedOptionError(f"keyword of {fn.__name__}()", k, valid)
+        return fn(*args, **kwargs)
+
+    return checked
+
+
 def make_result(
     parameter_name: str,
     *,

@@ -95,7 +95,7 @@ from typing import Any, Callable, Iterable, Sequence
 from ...errors import InvalidArgumentError, SweepwidthError
 from ...problems.homotopy import Curve, HomotopyProblem, apply_move
 from ...result import Result
-from ..contract import Deadline, builtin_names, check_seed, get_method, make_result, methods, resolve_weight
+from ..contract import Deadline, builtin_names, check_seed, get_method, make_result, method_label, methods, reject_unknown_keywords, resolve_weight
 from .free_group import homotopy_classes_equal
 
 __all__ = [
@@ -1442,6 +1442,7 @@ _METHODS: dict[str, Callable[[_State], None]] = {
 assert set(_METHODS) == builtin_names("homotopy"), "registry and dispatcher disagree"
 
 
+@reject_unknown_keywords
 def homotopy_height(
     P: Any,
     *,
@@ -1583,5 +1584,7 @@ def solve_problem(H: HomotopyProblem, *, method: str = "auto", deadline: Deadlin
     if upper is not None and lower > upper + _EPS:  # pragma: no cover - would be a bug in a bound
         stats["warning"] = f"lower bound {lower:g} above the witness height {upper:g}: lowered to it"
         lower = upper
-    return make_result("homotopy", lower=lower, upper=upper, witness=witness, method=used, seconds=seconds, stats=stats,
-                       optimal=upper is not None and upper - lower <= _EPS)
+    if method == "auto" and isinstance(stats.get("auto"), str):
+        stats["auto"] = {"choice": used, "reason": stats["auto"]}
+    return make_result("homotopy", lower=lower, upper=upper, witness=witness, method=method_label(method, used),
+                       seconds=seconds, stats=stats, optimal=upper is not None and upper - lower <= _EPS)

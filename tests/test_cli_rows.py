@@ -1,0 +1,132 @@
+"""Regression tests of ``sweepwidth solve`` over several files: rows kept, progress, time limit, Ctrl-C."""
+
+from __future__ import annotations
+
+import json
+import os
+import signal
+import subprocess
+import sys
+import time
+
+import pytest
+
+from sweepwidth.cli import DEFAULT_TIME_LIMIT, build_parser, main
+
+ROOT = os.path.dirname(os.path.dirname(os.path.abspath(__file__)))
+INST = os.path.join(ROOT, "instances")
+
+
+def _run(capsys, *argv):
+    capsys.readouterr()
+    try:
+        rc = main([str(a) for a in argv])
+    except SystemExit as exc:
+        rc = exc.code
+    cap = capsys.readouterr()
+    return rc, cap.out, cap.err
+
+
+def test_a_file_that_does_not_suit_the_parameter_becomes_a_row(capsys):
+    # regression: the torus error threw away the grid's finished result
+    grid = os.path.join(INST, "grids", "grid-04x04.json")
+    torus = os.path.join(INST, "tori", "torus-3x3.json")
+    rc, out, err = _run(capsys, "solve", grid, torus, os.path.join(INST, "nowhere.json"), "--param", "homology")
+    assert rc == 1  # something failed: documented in solve --help
+    rows = {l.split()[0]: l.split() for l in out.splitlines()[2:]}
+    # the homology sweep width of the 4 x 4 grid of squares from its boundary is 12 (instances/manifest.json)
+    assert rows["grid-04x04.json"][2:4] == ["optimal", "12"]
+    assert rows["torus-3x3.json"][2] == "error" and "plane graph" in " ".join(rows["torus-3x3.json"])
+    assert rows["nowhere.json"][2] == "error" and "no such file" in " ".join(rows["nowhere.json"])
+    assert err.count("sweepwidth: error: ") == 2
+
+
+def test_json_rows_for_failures_too(capsys):
+    torus = os.path.join(INST, "tori", "torus-3x3.json")
+    cube = os.path.join(INST, "platonic", "cube.json")
+    rc, out, _ = _run(capsys, "solve", torus, cube, "--param", "homology", "--json")
+    got = [json.loads(l) for l in out.splitlines()]
+    assert rc == 1 and [g["status"] for g in got] == ["error", "optimal"]
+    assert "plane graph" in got[0]["note"]
+
+
+def test_exit_codes_are_in_the_help(capsys):
+    with pytest.raises(SystemExit):
+        main(["solve", "--help"])
+    text = " ".join(capsys.readouterr().out.split())
+    assert "exit status: 0" in text and "130 interrupted" in text
+    assert f"default {DEFAULT_TIME_LIMIT:g}" in text and "'none'" in text
+
+
+def test_default_time_limit_and_none():
+    p = build_parser()
+    assert p.parse_args(["solve", "g.json", "--time-limit", "none"]).time_limit is None
+    assert p.parse_args(["solve", "g.json", "--time-limit", "2.5"]).time_limit == 2.5
+    for bad in ("0", "-1", "nan", "soon"):
+        with pytest.raises(SystemExit):
+            p.parse_args(["solve", "g.json", "--time-limit", bad])
+
+
+def test_default_time_limit_reaches_the_solver(capsys, monkeypatch):
+    import sweepwidth.bench.loading as loading
+
+    seen = []
+    real = loading.solve_object
+
+    def spy(*a, **kw):
+        seen.append(kw["time_limit"])
+        return real(*a, **kw)
+
+    monkeypatch.setattr(loading, "solve_object", spy)
+    cube = os.path.join(INST, "platonic", "cube.json")
+    assert _run(capsys, "solve", cube)[0] == 0
+    assert _run(capsys, "solve", cube, "--time-limit", "none")[0] == 0
+    assert seen == [DEFAULT_TIME_LIMIT, None]
+
+
+def test_progress_lines_on_request_and_quiet(capsys):
+    cube = os.path.join(INST, "platonic", "cube.json")
+    tet = os.path.join(INST, "platonic", "tetrahedron.json")
+    _, _, err = _run(capsys, "solve", cube, tet, "--progress")
+    lines = [l for l in err.splitlines() if l.strip()]
+    assert lines[0].startswith("[1/2] cube.json cutwidth optimal") and lines[1].startswith("[2/2] tetrahedron.json")
+    assert _run(capsys, "solve", cube, tet, "--progress", "--quiet")[2] == ""
+    assert _run(capsys, "solve", cube, tet)[2] == ""  # stderr is not a terminal here
+
+
+def test_ctrl_c_keeps_the_finished_rows_and_exits_130(tmp_path):
+    import sweepwidth as sw
+    from sweepwidth import generators
+
+    cube = os.path.join(INST, "platonic", "cube.json")
+    grid = str(tmp_path / "disk.json")  # 100 vertices: the prefix-set search does not finish in seconds
+    sw.write(generators.weighted_delaunay_disk(100, seed=3), grid)
+    cmd = [sys.executable, "-m", "sweepwidth", "solve", cube, grid, "--method", "bnb", "--time-limit", "none"]
+    p = subprocess.Popen(cmd, stdout=subprocess.PIPE, stderr=subprocess.PIPE, text=True, cwd=ROOT)
+    lines = []
+    assert p.stdout is not None
+    while True:
+        line = p.stdout.readline()
+        assert line, "the cube row never came"
+        lines.append(line)
+        if line.startswith("cube.json"):
+            break
+    time.sleep(1.5)  # the disk's prefix-set search is under way
+    p.send_signal(signal.SIGINT)
+    rest, err = p.communicate(timeout=60)
+    out = "".join(lines) + rest
+    assert p.returncode == 130, err
+    assert "Traceback" not in err and "internal error" not in err
+    assert "interrupted: 1 of 2 solve(s) finished" in err
+    row = [l for l in out.splitlines() if l.startswith("disk.json")][0].split()
+    assert row[2] == "interrupted" and "1 s re-solve" in " ".join(row)
+    lower, upper = float(row[4]), float(row[5])  # proven bounds of a 1 s re-solve
+    assert 0 < lower <= upper
+
+
+def test_broken_pipe_is_silent():
+    # regression: piping to head printed "Broken pipe"
+    files = [os.path.join(INST, "platonic", f) for f in sorted(os.listdir(os.path.join(INST, "platonic")))]
+    cmd = " ".join([f"'{sys.executable}' -m sweepwidth solve", *files, "| head -1"])
+    p = subprocess.run(["bash", "-o", "pipefail", "-c", cmd], capture_output=True, text=True, cwd=ROOT, timeout=120)
+    assert p.stdout.startswith("instance") and p.stderr == ""
