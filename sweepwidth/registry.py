@@ -68,6 +68,9 @@ class Parameter:
     options : tuple of str
         Keyword options the command line and the benchmark runner may pass
         (besides ``method``, ``time_limit`` and ``seed``).
+    measure : str
+        What the checker's number of a witness is called ('width' of an
+        ordering or sweep, 'height' of a homotopy).
     """
 
     name: str
@@ -76,6 +79,7 @@ class Parameter:
     checker: str
     problem: str
     options: tuple[str, ...] = ()
+    measure: str = "width"
 
     @property
     def module(self) -> str:
@@ -100,7 +104,8 @@ PARAMETERS: dict[str, Parameter] = {
                   "sweepwidth.verify.homology", "plane", ("start", "end", "holes", "monotone")),
         Parameter("homotopy", "homotopy height", "sweepwidth.solve.homotopy:homotopy_height",
                   "sweepwidth.verify.homotopy", "plane",
-                  ("start", "end", "spikes", "simple", "monotone", "weight", "length", "holes", "s", "t", "max_memory")),
+                  ("start", "end", "spikes", "simple", "monotone", "weight", "length", "holes", "s", "t", "max_memory"),
+                  measure="height"),
     )
 }
 

@@ -94,7 +94,7 @@ def test_solve_table_json_and_save_then_check(files, tmp_path, capsys):
     assert saved == ["wheel.cutwidth.json", "wheel.homology.json"]
     rc, out, err = run_here(capsys, "check", *(save / f for f in saved))
     assert rc == 0, err
-    assert out.count(": ok: ") == 2
+    assert out.count(": verified: ") == 2
 
 
 def _tamper(path, change, redigest):
@@ -128,8 +128,10 @@ def test_check_refuses_tampered_results(files, tmp_path, capsys):
     # 4. the right result against another instance
     rc, out, err = run("check", good, low, swapped, short)
     assert rc == 1
-    verdicts = {os.path.basename(l.split(":")[0]): l for l in out.splitlines()}
-    assert ": ok: " in verdicts["r.json"]
+    verdicts: dict = {}
+    for l in out.splitlines():
+        verdicts[os.path.basename(l.split(":")[0])] = verdicts.get(os.path.basename(l.split(":")[0]), "") + l
+    assert ": verified: " in verdicts["r.json"]
     assert "REFUSED" in verdicts["low.json"] and "width 4" in verdicts["low.json"]
     assert "REFUSED" in verdicts["swapped.json"] and "edited" in verdicts["swapped.json"]
     assert "REFUSED" in verdicts["short.json"]
