@@ -882,11 +882,31 @@ def cmd_dual(args: argparse.Namespace, out: Callable[[str], None]) -> int:
     return 0
 
 
+def _target_format(path: str, given: str | None) -> str | None:
+    from .io import FORMATS
+
+    if given:
+        return given
+    name = path.lower()
+    for fmt, exts in FORMATS.items():
+        if any(name.endswith(x) for x in exts):
+            return fmt
+    return None
+
+
 def cmd_convert(args: argparse.Namespace, out: Callable[[str], None]) -> int:
-    from .io import read, write
+    from .io import DOCUMENTARY, lost_in, read, write
 
     _refuse_overwrite(args.output, [args.input])
     obj = read(args.input, format=args.from_format) if args.from_format else read(args.input)
+    fmt = _target_format(args.output, args.to_format)
+    if fmt is not None:
+        lost = lost_in(obj, fmt)
+        if lost:
+            what = f"the {fmt} format cannot hold these parts of {args.input}: {', '.join(lost)}"
+            if not args.force and not all(x in DOCUMENTARY for x in lost):
+                raise CliError(f"{args.output}: {what}; give --force to write it without them")
+            sys.stderr.write(f"sweepwidth: warning: {args.output}: {what}; written without them\n")
     if args.to_format:
         write(obj, args.output, format=args.to_format)
     else:
@@ -1097,11 +1117,15 @@ def build_parser() -> argparse.ArgumentParser:
     d.add_argument("file", metavar="FILE")
     d.add_argument("-o", "--output", metavar="OUT", help="write the dual here (format from the extension); else describe it")
 
-    v = verb("convert", "convert between file formats", "sweepwidth convert mesh.off mesh.json")
+    v = verb("convert", "convert between file formats (refuses to drop data unless --force)",
+             "sweepwidth convert instances/platonic/cube.json cube.graphml")
     v.add_argument("input", metavar="IN")
     v.add_argument("output", metavar="OUT")
     v.add_argument("--from", dest="from_format", metavar="FORMAT", help="input format (default: from the extension or content)")
     v.add_argument("--to", dest="to_format", metavar="FORMAT", help="output format (default: from the extension)")
+    v.add_argument("--force", action="store_true", help="write even when the output format cannot hold the embedding, weights, names,"
+                   " positions, outer face, face names or edge data (a warning names what is lost; a graph's name,"
+                   " provenance and known values only ever get the warning)")
 
     w = verb("draw", "draw a plane graph, its dual, or a sweep", "sweepwidth draw instances/demo/pavilion.json --param homotopy -o sweep.png")
     w.add_argument("file", metavar="FILE")

@@ -222,7 +222,7 @@ def test_dual_and_convert(files, tmp_path, capsys):
     assert D.number_of_vertices() == P.number_of_faces() and D.number_of_edges() == P.number_of_edges()
     rc, out, err = run_here(capsys, "dual", files / "wheel.json")
     assert rc == 0 and "dual:" in out
-    rc, out, err = run("convert", files / "grid.json", tmp_path / "g.gr")
+    rc, out, err = run("convert", files / "grid.json", tmp_path / "g.gr", "--force")  # .gr holds no embedding
     assert rc == 0, err
     G = sw.read(str(tmp_path / "g.gr"), kind="graph")
     assert nx.is_isomorphic(nx.Graph(G), nx.grid_2d_graph(3, 4))  # networkx as the reference
