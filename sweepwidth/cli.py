@@ -46,6 +46,9 @@ __all__ = ["main", "build_parser"]
 EXIT_FAIL = 1
 EXIT_USAGE = 2
 
+#: the --start example of the help (tests/test_cli_rows.py runs it on instances/grids/grid-03x03.json)
+START_EXAMPLE = "'[[0,0],[0,1],[1,1],[1,0]]'"
+
 
 class CliError(Exception):
     """A failure to report as one line and exit status 1."""
@@ -236,7 +239,7 @@ def _curve_arg(text: str, obj: Any, what: str) -> Any:
     try:
         spec = json.loads(text)
     except json.JSONDecodeError as err:
-        raise CliError(f"--{what} takes a curve in JSON (e.g. '[0, 1, 2]' or '{{\"vertex\": 0, \"darts\": []}}'): {err.msg}") from None
+        raise CliError(f"--{what} takes a curve in JSON (e.g. {START_EXAMPLE} or '{{\"vertex\": 0, \"darts\": []}}'): {err.msg}") from None
 
     def lab(x: Any) -> Any:
         return _label(json.dumps(x) if not isinstance(x, str) else x, obj)
@@ -931,7 +934,15 @@ def cmd_draw(args: argparse.Namespace, out: Callable[[str], None]) -> int:
         raise CliError(f"{args.result}: no such result file")
     if not os.path.exists(args.file):
         raise CliError(f"{args.file}: no such file")
-    written = render(args.file, param=args.param, result=args.result, out=args.output, dual=args.dual, frames=args.frames)
+    if args.frames is not None and not (args.param or args.result):
+        raise CliError("--frames does not apply without a sweep: give --param or --result")
+    if args.time_limit is not _DEFAULT and not args.param:
+        raise CliError("--time-limit does not apply without --param (it limits the solve behind the picture)")
+    if args.time_limit is not _DEFAULT and args.result:
+        raise CliError("--time-limit does not apply with --result (the saved witness is drawn, nothing is solved)")
+    limit = 10.0 if args.time_limit is _DEFAULT else args.time_limit
+    written = render(args.file, param=args.param, result=args.result, out=args.output, dual=args.dual, frames=args.frames,
+                     time_limit=limit)
     out(f"picture written to {written or args.output}")
     return 0
 
@@ -992,7 +1003,8 @@ def _add_solver_options(p: argparse.ArgumentParser, *, per_instance: bool = True
     g.add_argument("--sat-solver", metavar="NAME", help="cutwidth: python-sat solver for the SAT method (e.g. cadical195, glucose4)")
     g.add_argument("--holes", metavar="F,F", help="homology/homotopy: face ids that may not be swept (default: the outer face)")
     if per_instance:
-        g.add_argument("--start", metavar="CURVE", help="homology/homotopy: start curve in JSON, e.g. '[0, 1, 2]' (default: the outer boundary)")
+        g.add_argument("--start", metavar="CURVE", help="homology/homotopy: start curve in JSON: a closed vertex walk, e.g. " + START_EXAMPLE
+                       + " (a square of a grid), or {\"vertex\": V, \"darts\": [...]} (default: the outer boundary)")
         g.add_argument("--end", metavar="CURVE", help="homology/homotopy: end curve in JSON (default: empty / a point)")
         g.add_argument("--ends", metavar="S,T", help="homotopy: sweep walks from S to T (the outer boundary one way to the other)")
     g.add_argument("--no-spikes", action="store_true", help="homotopy: forbid spikes and unspikes")
@@ -1133,7 +1145,9 @@ def build_parser() -> argparse.ArgumentParser:
     w.add_argument("--result", metavar="RESULT.json", help="draw the witness of a saved result")
     w.add_argument("-o", "--output", required=True, metavar="OUT", help="picture file: .png, .svg or .gif")
     w.add_argument("--dual", action="store_true", help="draw the dual graph too")
-    w.add_argument("--frames", type=int, metavar="N", help="number of frames for an animated sweep")
+    w.add_argument("--frames", type=int, metavar="N", help="number of frames for an animated sweep (with --param or --result)")
+    w.add_argument("--time-limit", type=_time_limit, default=_DEFAULT, metavar="SECONDS",
+                   help="seconds for the solve behind --param, or 'none' (default 10)")
 
     e = verb("export", "write a results database as CSV or JSON lines", "sweepwidth export --db runs.sqlite -o runs.csv")
     e.add_argument("--db", default="sweepwidth-runs.sqlite", metavar="FILE", help="results database")
@@ -1213,7 +1227,7 @@ def main(argv: Sequence[str] | None = None) -> int:
     except CliError as err:
         sys.stderr.write(f"sweepwidth: error: {err}\n")
     except SweepwidthError as err:
-        msg = " ".join(str(err).split("\n")[0].split())
+        msg = _cli_message(" ".join(str(err).split("\n")[0].split()))
         sys.stderr.write(f"sweepwidth: error: {msg}\n")
     except BrokenPipeError:
         # the reader went away (e.g. piped to head): stop quietly, and keep Python's exit flush quiet too

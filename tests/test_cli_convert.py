@@ -39,7 +39,8 @@ def test_convert_refuses_to_drop_data_without_force(tmp_path, capsys, ext, needl
     target = tmp_path / f"pavilion.{ext}"
     rc, out, err = _run(capsys, "convert", PAVILION, target)
     assert rc == 1 and not target.exists()
-    assert all(n in err for n in needles), err and "--force" in err
+    assert all(n in err for n in needles), err
+    assert "--force" in err
     rc, out, err = _run(capsys, "convert", PAVILION, target, "--force")
     assert rc == 0 and target.exists()
     assert err.startswith("sweepwidth: warning: ") and all(n in err for n in needles)

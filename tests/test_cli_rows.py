@@ -130,3 +130,45 @@ def test_broken_pipe_is_silent():
     cmd = " ".join([f"'{sys.executable}' -m sweepwidth solve", *files, "| head -1"])
     p = subprocess.run(["bash", "-o", "pipefail", "-c", cmd], capture_output=True, text=True, cwd=ROOT, timeout=120)
     assert p.stdout.startswith("instance") and p.stderr == ""
+
+
+def test_the_start_example_of_the_help_works_as_written(capsys):
+    # regression: the --start help example '[0, 1, 2]' failed as written
+    from sweepwidth.cli import START_EXAMPLE
+
+    grid = os.path.join(INST, "grids", "grid-03x03.json")
+    rc, out, err = _run(capsys, "solve", grid, "--param", "homology", "--start", START_EXAMPLE.strip("'"), "--json")
+    assert rc == 0, err
+    assert json.loads(out)["value"] == 4  # sweeping one unit square away: its 4 sides (and no fewer)
+
+
+def test_first_and_last_take_tuple_vertices_in_json(capsys):
+    # regression: --first '[0,0]' was split at the comma
+    grid = os.path.join(INST, "grids", "grid-03x03.json")
+    rc, out, err = _run(capsys, "solve", grid, "--first", "[0,0]", "--last", "[[2,2],[2,1]]", "--json")
+    assert rc == 0, err
+    order = json.loads(out)["witness"]
+    assert order[0] == [0, 0] and {tuple(order[-1]), tuple(order[-2])} == {(2, 2), (2, 1)}
+
+
+@pytest.mark.parametrize(
+    "argv, flag",
+    [
+        (["--param", "homology", "--ends", "[0,0],[2,2]"], "--ends"),
+        (["--param", "cutwidth", "--holes", "0"], "--holes"),
+        (["--param", "cutwidth", "--monotone"], "--monotone"),
+        (["--param", "homology", "--first", "[0,0]"], "--first"),
+    ],
+)
+def test_options_that_do_not_apply_are_refused(capsys, argv, flag):
+    # regression: such options were silently ignored
+    grid = os.path.join(INST, "grids", "grid-03x03.json")
+    rc, out, err = _run(capsys, "solve", grid, *argv)
+    assert rc == 1 and f"{flag} does not apply to" in err and out == ""
+
+
+def test_library_spelling_becomes_flags():
+    from sweepwidth.cli import _cli_message
+
+    assert _cli_message("time_limit must be >= 0") == "--time-limit must be >= 0"
+    assert _cli_message("raise max_memory or use method='bounds'") == "raise --memory or use --method bounds"

@@ -18,6 +18,34 @@ def _fmt_weight(w: float) -> str:
     return str(int(w)) if float(w).is_integer() else f"{w:.3g}"
 
 
+def face_names(P: Any) -> dict[int, str]:
+    """Names of faces stored with the instance: ``meta['face_names']`` (id -> name) or ``meta['rooms']`` (name -> id).
+
+    Examples
+    --------
+    >>> import networkx as nx, sweepwidth as sw
+    >>> P = sw.PlaneGraph.from_graph(nx.cycle_graph(3))
+    >>> P.meta["rooms"] = {"Hall": 0}
+    >>> face_names(P)
+    {0: 'Hall'}
+    """
+    meta = getattr(P, "meta", None) or {}
+    out: dict[int, str] = {}
+    given = meta.get("face_names")
+    if isinstance(given, dict):
+        for k, v in given.items():
+            try:
+                out[int(k)] = str(v)
+            except (TypeError, ValueError):
+                continue
+    rooms = meta.get("rooms")
+    if isinstance(rooms, dict):
+        for name, f in rooms.items():
+            if isinstance(f, int) and not isinstance(f, bool):
+                out.setdefault(f, str(name))
+    return out
+
+
 class Scene:
     """Layered drawing of a plane graph on one Axes; sweep pictures add layers on top.
 
@@ -199,12 +227,19 @@ class Scene:
                      color=PALETTE["label"], zorder=self.Z_TEXT)
 
     def face_labels(self) -> None:
+        """Each inner face's name where the instance names it (e.g. rooms of a floor plan), else ``f<id>``."""
+        names = face_names(self.P)
+        import matplotlib.patheffects as pe
+
+        halo = [pe.withStroke(linewidth=2.2, foreground="white")]
         for f in self.P.faces:
             if f == self.P.outer_face:
                 continue
             p = self.g.face_point(f)
-            self.ax.text(p[0], p[1], f"f{f}", fontsize=6.5, ha="center", va="center", color=PALETTE["dual"],
-                         zorder=self.Z_TEXT)
+            name = names.get(f)
+            txt = name.replace(" ", "\n") if name and len(name) > 10 else (name or f"f{f}")
+            self.ax.text(p[0], p[1], txt, fontsize=6.5 if name is None else 6.0, ha="center", va="center",
+                         color=PALETTE["dual"], zorder=self.Z_TEXT, clip_on=False, path_effects=halo)
 
     def dual_curve(self, e: int) -> np.ndarray:
         """The dual edge of primal edge ``e``: from the face on its left to the face on its right,
