@@ -957,7 +957,7 @@ def cmd_demo(args: argparse.Namespace, out: Callable[[str], None]) -> int:
     t0 = time.monotonic()
     current = None
     rows: list[list[str]] = []
-    headers = ["instance", "parameter", "status", "lower", "upper", "method", "seconds", "witness"]
+    headers = _solve_rows_headers()
     for ev in run_demo(args.out, time_limit=args.time_limit, pictures=not args.no_pictures):
         kind = ev["kind"]
         if kind == "instance":
@@ -968,16 +968,19 @@ def cmd_demo(args: argparse.Namespace, out: Callable[[str], None]) -> int:
             current = ev["name"]
             out(f"== {ev['name']}: {ev['description']}")
         elif kind == "result":
+            res = ev["result"]
             rows.append(
                 [
                     current or "",
-                    ev["label"],
-                    ev["status"],
-                    _num(ev["lower"]),
-                    _num(ev["upper"]),
-                    ev["method"],
-                    f"{ev['seconds']:.2f}",
+                    res.parameter,
+                    res.status,
+                    res.value,
+                    res.lower,
+                    res.upper,
+                    res.method or "-",
+                    res.seconds,
                     ev["checked"],
+                    ev["label"].partition("(")[2].rstrip(")") if "(" in ev["label"] else "",  # e.g. 'plan graph' 
                 ]
             )
         elif kind == "note":

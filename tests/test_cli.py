@@ -247,8 +247,15 @@ def test_demo_runs_and_finds_the_costly_spot(tmp_path):
     assert "keeping the cordon in one piece costs" in out
     assert "-> where: the separate-loops sweep splits its cordon" in out
     assert (tmp_path / "demo" / "pavilion.json").exists()
-    saved = json.loads((tmp_path / "demo" / "pavilion.homotopy.result.json").read_text())
-    assert saved["status"] == "optimal"
+    saved = json.loads((tmp_path / "demo" / "pavilion.homotopy.json").read_text())
+    assert saved["result"]["status"] == "optimal"
+    # regression: the demo's result files could not be read by check, and the demo did not mention them
+    assert "results saved in" in out and "sweepwidth check" in out
+    header = [l for l in out.splitlines() if l.startswith("instance")][0].split()
+    assert header == ["instance", "parameter", "status", "value", "lower", "upper", "method", "seconds", "checked", "note"]
+    for p in ("homology", "homotopy", "cutwidth"):
+        rc, text, err = run("check", tmp_path / "demo" / f"pavilion.{p}.json")
+        assert rc == 0 and ": verified: " in text, err
 
 
 def test_internal_errors_are_one_line_too(files, capsys, monkeypatch):
