@@ -795,28 +795,29 @@ def cmd_bench(args: argparse.Namespace, out: Callable[[str], None]) -> int:
                 [
                     str(r["name"]),
                     r["parameter"],
-                    r["method"],
                     r["status"],
-                    _num(r["lower"]),
-                    _num(r["upper"]),
-                    _num(round(r["seconds"], 2) if r.get("seconds") is not None else None),
+                    r.get("value"),
+                    r["lower"],
+                    r["upper"],
+                    r.get("result_method") or r["method"],  # what ran (auto:NAME), not only what was asked
+                    r.get("seconds"),
                     r.get("verdict") or "",
                     (r.get("message") or "")[:60],
                 ]
             )
-        out(_table(lines, ["instance", "param", "method", "status", "lower", "upper", "seconds", "known", "note"]))
+        out(_table(lines, ["instance", "parameter", "status", "value", "lower", "upper", "method", "seconds", "known", "note"]))
         out("")
     summary = summarize(report.rows)
     if summary:
         out(
             format_table(
                 summary,
-                ["parameter", "method", "tasks", "solved", "bounded", "failed", "conflicts", "median_s"],
-                ["param", "method", "tasks", "solved", "bounded", "failed", "conflicts", "median s"],
+                ["parameter", "method", "tasks", "solved", "bounded", "failed", "contradicted", "median_s"],
+                ["parameter", "method", "tasks", "solved", "bounded", "failed", "contradict known", "median seconds"],
             )
         )
     out(f"{report.finished} task(s) run, {report.skipped} skipped, in {report.seconds:.1f} s; results in {args.db}")
-    conflicts = sum(s["conflicts"] for s in summary)
+    conflicts = sum(s["contradicted"] for s in summary)
     if conflicts:
         out(f"warning: {conflicts} result(s) contradict a known value in the manifest")
     return EXIT_FAIL if (conflicts or report.interrupted) else 0

@@ -73,7 +73,7 @@ def seconds(x: Any) -> str:
 
 def cell(column: str, x: Any) -> str:
     """The text of value ``x`` in ``column`` (seconds, numbers, or text)."""
-    if column in ("seconds", "median seconds", "median_s"):
+    if column in ("seconds", "median seconds", "median_s", "median_solved_s"):
         return seconds(x)
     if x is None:
         return "-" if column not in ("note",) else ""
@@ -88,9 +88,14 @@ def _line(cells: Sequence[str], widths: Sequence[int]) -> str:
     return "  ".join(c.ljust(w) for c, w in zip(cells, widths)).rstrip()
 
 
-def format_table(rows: Iterable[Sequence[Any]], headers: Sequence[str]) -> str:
-    """A table: a header line, a rule, one line per row (cells formatted by :func:`cell`)."""
-    texts = [[cell(h, x) for h, x in zip(headers, r)] for r in rows]
+def format_table(rows: Iterable[Sequence[Any]], headers: Sequence[str], kinds: Sequence[str] | None = None) -> str:
+    """A table: a header line, a rule, one line per row (cells formatted by :func:`cell`).
+
+    ``kinds`` names the column of each cell for formatting when the headers
+    are other words (default: the headers).
+    """
+    names = list(kinds or headers)
+    texts = [[cell(h, x) for h, x in zip(names, r)] for r in rows]
     widths = [max([len(h)] + [len(r[i]) for r in texts]) for i, h in enumerate(headers)]
     lines = [_line(list(headers), widths), "  ".join("-" * w for w in widths)]
     lines += [_line(r, widths) for r in texts]

@@ -172,3 +172,34 @@ def test_library_spelling_becomes_flags():
 
     assert _cli_message("time_limit must be >= 0") == "--time-limit must be >= 0"
     assert _cli_message("raise max_memory or use method='bounds'") == "raise --memory or use --method bounds"
+
+
+def test_bench_table_shows_what_ran_with_the_columns_of_solve(tmp_path, capsys):
+    # regression: the bench table showed the requested 'auto', called its column 'conflicts' (a SAT word)
+    # and wrote seconds as '0' where solve writes '0.00'
+    cube = os.path.join(INST, "platonic", "cube.json")
+    rc, out, err = _run(capsys, "bench", cube, "--time-limit", "10", "--db", tmp_path / "r.sqlite")
+    assert rc == 0, err
+    lines = out.splitlines()
+    assert lines[0].split() == ["instance", "parameter", "status", "value", "lower", "upper", "method", "seconds", "known", "note"]
+    row = lines[2].split()
+    assert row[6].startswith("auto:") and "." in row[7] and len(row[7].split(".")[1]) == 2
+    assert "contradict known" in out and "conflicts" not in out
+
+
+@pytest.mark.parametrize("verb", ["solve", "bench"])
+def test_negative_memory_is_refused(verb, tmp_path, capsys):
+    cube = os.path.join(INST, "platonic", "cube.json")
+    argv = [verb, cube, "--memory", "-5"] + (["--time-limit", "1", "--db", str(tmp_path / "r.sqlite")] if verb == "bench" else [])
+    rc, out, err = _run(capsys, *argv)
+    assert rc == 2 and "--memory" in err
+
+
+def test_memory_reaches_the_exponential_methods(capsys, tmp_path):
+    import sweepwidth as sw
+    from sweepwidth import generators
+
+    path = tmp_path / "d.json"
+    sw.write(generators.delaunay(26, seed=2), str(path))
+    rc, out, err = _run(capsys, "solve", path, "--method", "dp", "--memory", "1")
+    assert rc == 1 and "--memory" in err and "max_memory" not in err  # the message names the flag
