@@ -20,7 +20,7 @@ from __future__ import annotations
 import math
 from typing import Any, Callable, Iterable, Sequence
 
-__all__ = ["RESULT_COLUMNS", "number", "seconds", "cell", "format_table", "StreamTable"]
+__all__ = ["RESULT_COLUMNS", "number", "seconds", "size", "cell", "format_table", "StreamTable"]
 
 #: the columns of every table of results, in this order (tables may omit some)
 RESULT_COLUMNS = ("instance", "parameter", "status", "value", "lower", "upper", "method", "seconds", "checked", "note")
@@ -53,6 +53,21 @@ def number(x: Any) -> str:
     if f.is_integer() and abs(f) < 1e15:
         return str(int(f))
     return f"{f:.6g}"
+
+
+def size(nbytes: float) -> str:
+    """A memory size in plain words: MiB or GiB with a few digits, powers of ten beyond a million GiB.
+
+    Examples
+    --------
+    >>> size(3 * 2**20), size(5.5 * 2**30), size(16 * 2**400)
+    ('3 MiB', '5.5 GiB', '3.8e+112 GiB')
+    """
+    x = float(nbytes)
+    if x < 2**30:
+        return f"{x / 2**20:.0f} MiB"
+    g = x / 2**30
+    return f"{g:.3g} GiB" if g < 1e6 else f"{g:.1e} GiB"
 
 
 def seconds(x: Any) -> str:

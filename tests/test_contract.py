@@ -228,3 +228,16 @@ def test_a_missing_file_is_a_file_not_found_error(tmp_path):
             reader(str(tmp_path / "absent.json"))
         assert isinstance(info.value, MissingFileError) and isinstance(info.value, FileFormatError)
         assert "absent.json" in str(info.value)
+
+
+def test_memory_figures_are_short():
+    # regression: a 100-digit GiB figure in the subset-search refusal
+    from sweepwidth import generators
+    from sweepwidth.errors import ProblemTooLargeError
+    from sweepwidth.solve.homology.face_sets import FaceSweep, monotone_sweep
+
+    P = generators.triangulated_grid(12)  # 288 faces
+    fs = FaceSweep.build(P, set(P.face_boundary_cycle(P.outer_face)), frozenset(f for f in P.faces if f != P.outer_face))
+    with pytest.raises(ProblemTooLargeError) as info:
+        monotone_sweep(fs)
+    assert max(len(w) for w in str(info.value).split()) < 12, str(info.value)

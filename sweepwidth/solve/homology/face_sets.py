@@ -31,6 +31,8 @@ References
 
 from __future__ import annotations
 
+from ...tables import size
+
 import heapq
 import math
 import time
@@ -259,12 +261,12 @@ def monotone_sweep(fs: FaceSweep, *, max_faces: int | None = None) -> tuple[floa
     cap = MAX_MONOTONE_FACES if max_faces is None else max_faces
     if 16 * 2**k > MAX_TABLE_BYTES:
         raise ProblemTooLargeError(
-            f"monotone subset search on {k} faces needs {16 * 2**k / 2**30:.1f} GiB of tables; "
-            f"the limit is {MAX_TABLE_BYTES / 2**30:.0f} GiB"
+            f"monotone subset search on {k} faces needs {size(16 * 2**k)} of tables; "
+            f"the limit is {size(MAX_TABLE_BYTES)}"
         )
     if k > cap:
         raise ProblemTooLargeError(
-            f"monotone subset search on {k} faces needs 2^{k} states ({16 * 2**k / 2**20:.0f} MiB); the limit is {cap} faces"
+            f"monotone subset search on {k} faces needs 2^{k} states ({size(16 * 2**k)}); the limit is {cap} faces"
         )
     if k == 0:
         return fs.start_weight, []
@@ -324,12 +326,12 @@ def toggle_search(
     cap = MAX_TOGGLE_FACES if max_faces is None else max_faces
     if 40 * 2**k > MAX_TABLE_BYTES:
         raise ProblemTooLargeError(
-            f"toggle search on {k} free faces needs about {40 * 2**k / 2**30:.1f} GiB; "
-            f"the limit is {MAX_TABLE_BYTES / 2**30:.0f} GiB"
+            f"toggle search on {k} free faces needs about {size(40 * 2**k)}; "
+            f"the limit is {size(MAX_TABLE_BYTES)}"
         )
     if k > cap:
         raise ProblemTooLargeError(
-            f"toggle search on {k} free faces needs 2^{k} states (about {25 * 2**k / 2**20:.0f} MiB); the limit is {cap} faces"
+            f"toggle search on {k} free faces needs 2^{k} states (about {size(25 * 2**k)}); the limit is {cap} faces"
         )
     masks = []
     for t in targets:
