@@ -20,7 +20,7 @@ from __future__ import annotations
 import math
 from typing import Any, Callable, Iterable, Sequence
 
-__all__ = ["RESULT_COLUMNS", "number", "seconds", "size", "cell", "format_table", "StreamTable"]
+__all__ = ["RESULT_COLUMNS", "number", "seconds", "size", "plain", "cell", "format_table", "StreamTable"]
 
 #: the columns of every table of results, in this order (tables may omit some)
 RESULT_COLUMNS = ("instance", "parameter", "status", "value", "lower", "upper", "method", "seconds", "checked", "note")
@@ -53,6 +53,24 @@ def number(x: Any) -> str:
     if f.is_integer() and abs(f) < 1e15:
         return str(int(f))
     return f"{f:.6g}"
+
+
+def plain(x: Any) -> str:
+    """A value for a message: its repr, with numpy scalars written as the Python number they hold.
+
+    Examples
+    --------
+    >>> import numpy as np
+    >>> plain(np.float64(-1.5)), plain("x"), plain(np.int64(3))
+    ('-1.5', "'x'", '3')
+    """
+    item = getattr(x, "item", None)
+    if callable(item) and type(x).__module__ == "numpy":
+        try:
+            return repr(item())
+        except (TypeError, ValueError):
+            pass
+    return repr(x)
 
 
 def size(nbytes: float) -> str:

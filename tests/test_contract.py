@@ -241,3 +241,20 @@ def test_memory_figures_are_short():
     with pytest.raises(ProblemTooLargeError) as info:
         monotone_sweep(fs)
     assert max(len(w) for w in str(info.value).split()) < 12, str(info.value)
+
+
+def test_numbers_in_messages_are_plain():
+    # regression: "np.float64(0.0)" in an error message
+    import numpy as np
+    import networkx as nx
+    import sweepwidth as sw
+    from sweepwidth.errors import InvalidArgumentError, WeightError
+
+    with pytest.raises(InvalidArgumentError) as info:
+        sw.cutwidth(nx.path_graph(3), time_limit=np.float64(-2.0))
+    assert "np." not in str(info.value) and "-2.0" in str(info.value)
+    G = nx.path_graph(3)
+    G.edges[0, 1]["weight"] = np.float64(-1.0)
+    with pytest.raises(WeightError) as info:
+        sw.cutwidth(G)
+    assert "np." not in str(info.value)

@@ -29,6 +29,8 @@ This module imports no solver, so every room may import it without a cycle.
 
 from __future__ import annotations
 
+from ..tables import plain
+
 import decimal
 import math
 import numbers
@@ -106,7 +108,7 @@ def check_time_limit(time_limit: Any) -> float | None:
         except (TypeError, ValueError, OverflowError):  # pragma: no cover - exotic Real subclasses
             ok = False
     if not ok or math.isnan(value) or value < 0:
-        raise InvalidArgumentError(f"time_limit must be a real number of seconds >= 0 or None, got {time_limit!r}")
+        raise InvalidArgumentError(f"time_limit must be a real number of seconds >= 0 or None, got {plain(time_limit)}")
     return None if math.isinf(value) else value
 
 
@@ -183,7 +185,7 @@ def check_seed(seed: Any) -> int | None:
     if seed is None:
         return None
     if isinstance(seed, bool) or not isinstance(seed, numbers.Integral) or int(seed) < 0:
-        raise InvalidArgumentError(f"seed must be a non-negative integer or None, got {seed!r}")
+        raise InvalidArgumentError(f"seed must be a non-negative integer or None, got {plain(seed)}")
     return int(seed)
 
 
