@@ -1047,7 +1047,7 @@ def build_parser() -> argparse.ArgumentParser:
         prog="sweepwidth",
         formatter_class=_formatter,
         description="Exact and bounded sweep parameters of plane graphs: cutwidth, homology sweep width, homotopy height.",
-        epilog="examples:\n  sweepwidth solve instances/grids/grid-04x04.json --param cutwidth --time-limit 30\n"
+        epilog="examples:\n  sweepwidth solve instances/grids/grid-03x04.json --param cutwidth --time-limit 30\n"
         "  sweepwidth demo\n\nrun 'sweepwidth VERB --help' for each verb's options.",
     )
     top.add_argument("--version", action="version", version=f"sweepwidth {__version__}")
@@ -1092,7 +1092,7 @@ def build_parser() -> argparse.ArgumentParser:
     b = verb(
         "bench",
         "run instance sets into a results database (pins and curves come per instance from a manifest's 'options' or the files)",
-        "sweepwidth bench instances/ --param homology --jobs 2 --time-limit 30 --db runs.sqlite --resume",
+        "sweepwidth bench instances/ --sets platonic --param homology --jobs 2 --time-limit 30 --db runs.sqlite --resume",
     )
     b.add_argument("paths", nargs="+", metavar="PATH", help="instance files, folders, or manifest.json files")
     b.add_argument("--param", action="append", metavar="P", help="parameters (repeat or comma list; default cutwidth)")

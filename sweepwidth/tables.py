@@ -26,7 +26,7 @@ __all__ = ["RESULT_COLUMNS", "number", "seconds", "size", "plain", "cell", "form
 RESULT_COLUMNS = ("instance", "parameter", "status", "value", "lower", "upper", "method", "seconds", "checked", "note")
 
 #: widths reserved up front for streamed tables (a longer cell just pushes its line)
-_MIN_WIDTH = {"parameter": 9, "status": 11, "value": 5, "lower": 5, "upper": 5, "method": 15, "seconds": 7, "checked": 8}
+_MIN_WIDTH = {"parameter": 9, "status": 11, "value": 5, "lower": 5, "upper": 5, "method": 18, "seconds": 7, "checked": 8}
 
 
 def number(x: Any) -> str:
