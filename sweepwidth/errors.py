@@ -18,6 +18,11 @@ __all__ = [
     "MissingFileError",
     "UnsupportedOptionError",
     "InvalidArgumentError",
+    "InputTypeError",
+    "NotInGraphError",
+    "MissingDependencyError",
+    "OperationError",
+    "StorageError",
     "InvalidCurveError",
     "ProblemTooLargeError",
     "WitnessError",
@@ -120,7 +125,30 @@ class MissingFileError(FileFormatError, FileNotFoundError):
 
 
 class InvalidArgumentError(SweepwidthError, ValueError):
-    """A bad value of an argument shared by every solver: ``time_limit``, ``seed`` or ``weight``."""
+    """A bad argument value: ``time_limit``, ``seed``, ``weight``, a size, an option, a graph a format cannot hold."""
+
+
+class InputTypeError(SweepwidthError, TypeError):
+    """An argument of the wrong type (e.g. a list where a PlaneGraph is expected)."""
+
+
+class NotInGraphError(InvalidArgumentError, LookupError):
+    """A vertex, edge or face that the graph does not have (also a LookupError)."""
+
+    def __str__(self) -> str:
+        return Exception.__str__(self)
+
+
+class MissingDependencyError(SweepwidthError, ImportError):
+    """An optional package that this feature needs is not installed (the message says which extra)."""
+
+
+class OperationError(SweepwidthError, RuntimeError):
+    """An operation that could not be carried out on valid input (a layout, a busy database, a lost state)."""
+
+
+class StorageError(SweepwidthError, OSError):
+    """A file that cannot be written or a service that cannot be reached."""
 
 
 class InvalidCurveError(SweepwidthError, ValueError):

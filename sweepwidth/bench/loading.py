@@ -12,7 +12,7 @@ import inspect
 import os
 from typing import Any, Callable, Mapping
 
-from ..errors import SweepwidthError, UnsupportedOptionError
+from ..errors import InputTypeError, SweepwidthError, UnsupportedOptionError
 from .. import registry
 
 __all__ = [
@@ -74,7 +74,7 @@ def _graph_for(parameter: str, obj: Any) -> Any:
             return obj.to_networkx()
         return obj
     if not is_plane(obj):
-        raise SweepwidthError(
+        raise InputTypeError(
             f"the {parameter} parameter needs a plane graph (an embedding), got {type(obj).__name__}; "
             "give a file with a rotation system, faces or positions"
         )

@@ -7,7 +7,7 @@ from typing import Any
 
 import networkx as nx
 
-from ..errors import SweepwidthError, UnsupportedOptionError
+from ..errors import InvalidArgumentError, SweepwidthError, UnsupportedOptionError
 from ..io.saved import load_result
 from ..plane import PlaneGraph
 from ..registry import PARAMETERS
@@ -28,7 +28,7 @@ def _solve(obj: Any, param: str, dual: bool, time_limit: float | None = QUICK_LI
         target = obj.dual() if (dual and isinstance(obj, PlaneGraph)) else obj
         return solve(target, time_limit=time_limit)
     if not isinstance(obj, PlaneGraph):
-        raise SweepwidthError(f"{param} needs a plane graph; the file holds a graph without an embedding")
+        raise InvalidArgumentError(f"{param} needs a plane graph; the file holds a graph without an embedding")
     return solve(obj, time_limit=time_limit)
 
 
@@ -106,14 +106,14 @@ def render_cli(
     res = load_result(result) if result is not None else None
     if res is not None:
         if param is not None and res.parameter != param:
-            raise SweepwidthError(f"the result is about {res.parameter!r}, not {param!r}")
+            raise InvalidArgumentError(f"the result is about {res.parameter!r}, not {param!r}")
         param = res.parameter
     n_frames = 12 if frames is True else (int(frames) if frames else 0)
     if param is None and n_frames:
-        raise SweepwidthError("frames show a sweep: give a parameter (--param) or a saved result (--result)")
+        raise InvalidArgumentError("frames show a sweep: give a parameter (--param) or a saved result (--result)")
     if param is None:
         if ext == ".gif":
-            raise SweepwidthError("an animation needs a sweep: give --param or --result")
+            raise InvalidArgumentError("an animation needs a sweep: give --param or --result")
         plain = obj if isinstance(obj, PlaneGraph) else PlaneGraph.from_graph(obj)
         from ._draw import draw
 
@@ -127,7 +127,7 @@ def render_cli(
     if res is None:
         res = _solve(obj, param, dual, time_limit)
     if res.witness is None:
-        raise SweepwidthError(f"the {param} result ({res.status}) has no witness to draw")
+        raise InvalidArgumentError(f"the {param} result ({res.status}) has no witness to draw")
     on = "faces" if (dual and param == "cutwidth") else "auto"
     if param == "cutwidth" and isinstance(obj, nx.Graph):
         try:
@@ -136,7 +136,7 @@ def render_cli(
             embedded = None
         if embedded is None:
             if ext == ".gif" or n_frames:
-                raise SweepwidthError("frames of a cutwidth ordering need a planar graph; write a .png profile")
+                raise InvalidArgumentError("frames of a cutwidth ordering need a planar graph; write a .png profile")
             from ._profile import width_profile
 
             ax = width_profile(res, obj)

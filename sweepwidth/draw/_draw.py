@@ -6,7 +6,7 @@ from typing import Any, Hashable, Iterable, Mapping, Sequence
 
 import numpy as np
 
-from ..errors import SweepwidthError
+from ..errors import InputTypeError, InvalidArgumentError, NotInGraphError, SweepwidthError
 from ..plane import PlaneGraph
 from ._layout import Geometry, _bezier2, _bezier3, _unit
 from ._style import LINES, PALETTE, new_figure, require_matplotlib
@@ -303,12 +303,12 @@ def _coerce_highlight(P: PlaneGraph, highlight: Any) -> set[int]:
     try:
         items = list(highlight)
     except TypeError:
-        raise SweepwidthError(f"highlight must be a collection of edge ids, got {highlight!r}") from None
+        raise InvalidArgumentError(f"highlight must be a collection of edge ids, got {highlight!r}") from None
     m = P.number_of_edges()
     out = set()
     for x in items:
         if isinstance(x, (bool, np.bool_)) or not isinstance(x, (int, np.integer)) or not 0 <= int(x) < m:
-            raise SweepwidthError(f"highlight names {x!r}, which is not an edge id in 0..{m - 1}")
+            raise InvalidArgumentError(f"highlight names {x!r}, which is not an edge id in 0..{m - 1}")
         out.add(int(x))
     return out
 
@@ -392,7 +392,7 @@ def draw(
     """
     require_matplotlib()
     if not isinstance(P, PlaneGraph):
-        raise SweepwidthError(f"draw expects a PlaneGraph, got {type(P).__name__}")
+        raise InputTypeError(f"draw expects a PlaneGraph, got {type(P).__name__}")
     hl = _coerce_highlight(P, highlight)
     F = P.number_of_faces()
     sh = set(shade or ())
@@ -400,7 +400,7 @@ def draw(
     for name, fs in (("shade", sh), ("holes", hs)):
         bad = [f for f in fs if not isinstance(f, (int, np.integer)) or not 0 <= f < F]
         if bad:
-            raise SweepwidthError(f"{name} names {bad[0]!r}, which is not a face id in 0..{F - 1}")
+            raise NotInGraphError(f"{name} names {bad[0]!r}, which is not a face id in 0..{F - 1}")
     if ax is None:
         fig = new_figure(figsize, dpi)
         ax = fig.add_axes((0.02, 0.02, 0.96, 0.9 if title else 0.96))

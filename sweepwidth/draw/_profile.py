@@ -7,7 +7,7 @@ from typing import Any, Hashable, Sequence
 import networkx as nx
 import numpy as np
 
-from ..errors import SweepwidthError, WitnessError
+from ..errors import InvalidArgumentError, SweepwidthError, WitnessError
 from ..plane import PlaneGraph
 from ._replay import as_result, peak_step, sweep_states
 from ._style import LINES, PALETTE, new_figure, require_matplotlib
@@ -118,7 +118,7 @@ def width_profile(
     result = as_result(result)
     lengths = step_lengths(result, obj, on=on)
     if not lengths:
-        raise SweepwidthError("the witness has no steps to plot")
+        raise InvalidArgumentError("the witness has no steps to plot")
     if ax is None:
         fig = new_figure(figsize, dpi)
         ax = fig.add_axes((0.11, 0.16, 0.86, 0.72))

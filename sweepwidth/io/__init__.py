@@ -35,7 +35,7 @@ import os
 from typing import Any, Callable
 
 
-from ..errors import FileFormatError, MissingFileError, SweepwidthError, UnsupportedOptionError
+from ..errors import FileFormatError, MissingFileError, StorageError, SweepwidthError, UnsupportedOptionError
 from ..plane import PlaneGraph
 from ._common import path_name
 from ._json import dumps, from_document, loads, to_document
@@ -291,7 +291,7 @@ def write(obj: Any, path: str | os.PathLike, *, format: str | None = None, **opt
         with open(path, "wb") as fh:
             fh.write(data)
     except OSError as err:
-        raise SweepwidthError(f"{path_name(path)}: cannot be written: {err.strerror}") from err
+        raise StorageError(f"{path_name(path)}: cannot be written: {err.strerror}") from err
 
 
 

@@ -85,7 +85,7 @@ import numbers
 import time
 from typing import Any, Callable
 
-from ...errors import ProblemTooLargeError, SweepwidthError, UnsupportedOptionError
+from ...errors import InvalidArgumentError, ProblemTooLargeError, SweepwidthError, UnsupportedOptionError
 from ...problems.cycles import FaceSweep, HomologyProblem, bounded_face_sets, cycle_weight
 from ...result import Result
 from ..contract import Deadline, builtin_names, check_seed, get_method, make_result, method_label, methods, resolve_weight
@@ -131,19 +131,19 @@ def _validate(method: Any, monotone: Any, options: dict) -> None:
     if entry.function is not None:
         return  # an added method checks its own options
     if not isinstance(monotone, bool):
-        raise SweepwidthError(f"monotone must be True or False, got {monotone!r}")
+        raise InvalidArgumentError(f"monotone must be True or False, got {monotone!r}")
     for k in options:
         if k not in OPTIONS:
             raise UnsupportedOptionError("homology_width option", k, sorted(OPTIONS))
     if not monotone and method not in ("auto", "face-sets"):
-        raise SweepwidthError(
+        raise InvalidArgumentError(
             f"method {method!r} sweeps each face once; use method='face-sets' (or 'auto') with monotone=False"
         )
     for k in ("dp_limit", "max_faces"):
         if k in options:
             v = options[k]
             if isinstance(v, bool) or not isinstance(v, numbers.Integral) or v < 0:
-                raise SweepwidthError(f"{k} must be a non-negative integer, got {v!r}")
+                raise InvalidArgumentError(f"{k} must be a non-negative integer, got {v!r}")
 
 
 class _Outcome:
@@ -490,7 +490,7 @@ def homology_width(
     resolve_weight("homology", weight, allowed=("weight",))
     _validate(method, monotone, options)
     if not isinstance(paths, bool):
-        raise SweepwidthError(f"paths must be True or False, got {paths!r}")
+        raise InvalidArgumentError(f"paths must be True or False, got {paths!r}")
     problem = HomologyProblem.build(P, start, end, holes, paths=paths)
     return solve_problem(problem, method=method, deadline=dl, seed=seed, monotone=monotone, options=options, started=t0)
 

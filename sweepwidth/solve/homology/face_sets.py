@@ -40,7 +40,7 @@ from typing import Any, Sequence
 
 import numpy as np
 
-from ...errors import ProblemTooLargeError, SweepwidthError
+from ...errors import InvalidArgumentError, OperationError, ProblemTooLargeError, SweepwidthError
 from ...problems.cycles import FaceSweep
 
 try:  # pragma: no cover - depends on the installation
@@ -340,7 +340,7 @@ def toggle_search(
             m |= 1 << i
         masks.append(m)
     if not masks:
-        raise SweepwidthError("toggle_search needs at least one target set")
+        raise InvalidArgumentError("toggle_search needs at least one target set")
     if 0 in masks or k == 0:
         return fs.start_weight, [], {"states": 1, "faces": k}
     W = _tables(fs)
@@ -349,7 +349,7 @@ def toggle_search(
     fn = _bottleneck if (HAVE_NUMBA and k > 10) else getattr(_bottleneck, "py_func", _bottleneck)
     width, path, popped = fn(k, W, t0, t1)
     if not math.isfinite(width):  # pragma: no cover - the hypercube is connected
-        raise SweepwidthError("no toggle sequence reaches the target")
+        raise OperationError("no toggle sequence reaches the target")
     return float(width), [fs.faces[int(i)] for i in path], {"states": int(popped), "faces": k}
 
 
@@ -554,7 +554,7 @@ def improve_sweep(
     """
     idx = np.array(fs.local(order), dtype=np.int64)
     if idx.shape[0] != fs.k or len(set(idx.tolist())) != fs.k:
-        raise SweepwidthError("improve_sweep needs every free face exactly once")
+        raise InvalidArgumentError("improve_sweep needs every free face exactly once")
     if fs.k < 2:
         return float(max(fs.profile(order))), list(order)
     indptr, indices, sw, lin, w0 = sweep_arrays(fs)

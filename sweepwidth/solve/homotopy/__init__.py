@@ -92,7 +92,7 @@ import time
 from collections import deque
 from typing import Any, Callable, Iterable, Sequence
 
-from ...errors import InvalidArgumentError, SweepwidthError
+from ...errors import InputTypeError, InvalidArgumentError, OperationError, SweepwidthError
 from ...problems.homotopy import Curve, HomotopyProblem, apply_move
 from ...result import Result
 from ..contract import Deadline, builtin_names, check_seed, get_method, make_result, method_label, methods, reject_unknown_keywords, resolve_weight
@@ -1308,7 +1308,7 @@ def _run_search(H: HomotopyProblem, deadline: float | None, upper: float | None,
 # ====================================================================== dispatcher
 def _validate(P: Any, method: str) -> None:
     if not hasattr(P, "face_darts") or not hasattr(P, "outer_face"):
-        raise SweepwidthError(f"homotopy_height needs a PlaneGraph, got {type(P).__name__}")
+        raise InputTypeError(f"homotopy_height needs a PlaneGraph, got {type(P).__name__}")
     get_method("homotopy", method)
 
 
@@ -1376,7 +1376,7 @@ def _method_search(st: _State) -> None:
         st.bounds["upper"] = "constructed homotopy (greedy by length)"
     out, note = _run_search(H, deadline, st.upper, st.witness, st.lower, max_memory=st.max_memory)
     if out is None:
-        raise SweepwidthError(f"method 'search': {note}")
+        raise OperationError(f"method 'search': {note}")
     reason = str(dict(out.stats).get("reason") or "")
     if not out.optimal and reason.startswith("memory limit"):
         from ...errors import ProblemTooLargeError
