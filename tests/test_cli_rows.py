@@ -203,3 +203,13 @@ def test_memory_reaches_the_exponential_methods(capsys, tmp_path):
     sw.write(generators.delaunay(26, seed=2), str(path))
     rc, out, err = _run(capsys, "solve", path, "--method", "dp", "--memory", "1")
     assert rc == 1 and "--memory" in err and "max_memory" not in err  # the message names the flag
+
+
+def test_an_infeasible_row_says_why(capsys):
+    # regression: an infeasible row gave no reason
+    grid = os.path.join(INST, "grids", "grid-03x03.json")
+    rc, out, err = _run(capsys, "solve", grid, "--param", "homotopy,homology", "--holes", "0,1,2,3,4")
+    rows = [l for l in out.splitlines() if l.startswith("grid-03x03.json")]
+    assert rc == 0 and len(rows) == 2
+    # every face is a hole, so the outer boundary cannot be swept to a point (neither homotopy nor homology)
+    assert all(" infeasible " in r and "infeasible: " in r for r in rows)
