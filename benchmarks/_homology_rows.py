@@ -74,7 +74,7 @@ def table_exact(quick):
         cases.append(("delaunay-12 boundary", generators.delaunay(12, seed=8)))
     for name, P in cases:
         rd, td = _timed(lambda P=P: sw.homology_width(P, method="subset-dp"), 3)
-        rc, tc = _timed(lambda P=P: sw.homology_width(P, method="cutwidth"), 1)
+        rc, tc = _timed(lambda P=P: sw.homology_width(P, method="dual-cutwidth"), 1)
         rd.check(P)
         rc.check(P)
         same = "ok" if rd.value == rc.value else "DIFFER"
@@ -170,7 +170,7 @@ def table_crossing(quick):
     _line("instance", "faces", "method", "status", "lower", "upper", "seconds", "ratio")
     for name, G, c0, c1 in _crossing_cases(2 if quick else 4):
         rd, td = _timed(lambda G=G, c0=c0, c1=c1: sw.homology_width(G, start=c0, end=c1, method="subset-dp"), 3)  # median: no compile
-        rc, tc = _timed(lambda G=G, c0=c0, c1=c1: sw.homology_width(G, start=c0, end=c1, method="cutwidth"), 3)
+        rc, tc = _timed(lambda G=G, c0=c0, c1=c1: sw.homology_width(G, start=c0, end=c1, method="dual-cutwidth"), 3)
         rd.check(G)
         rc.check(G)
         k = len(rd.stats["swept"])

@@ -13,6 +13,8 @@ Integers too large for a float (``10**400``) are refused, not rounded.
 
 from __future__ import annotations
 
+from .tables import plain
+
 import math
 import numbers
 from typing import Any, Callable
@@ -33,7 +35,7 @@ def check_weight(value: Any, where: str) -> float:
     Weights must be real numbers (bool excluded), finite and non-negative.
     """
     if isinstance(value, bool) or not isinstance(value, numbers.Real):
-        raise WeightError(f"weight of {where} is {value!r} ({type(value).__name__}); expected a real number")
+        raise WeightError(f"weight of {where} is {plain(value)} ({type(value).__name__}); expected a real number")
     try:
         x = float(value)
     except (OverflowError, ValueError, TypeError):
@@ -45,7 +47,7 @@ def check_weight(value: Any, where: str) -> float:
     if math.isinf(x):
         raise WeightError(f"weight of {where} is infinite; expected a finite non-negative number")
     if x < 0:
-        raise WeightError(f"weight of {where} is negative ({value!r}); weights must be >= 0")
+        raise WeightError(f"weight of {where} is negative ({plain(value)}); weights must be >= 0")
     if x > MAX_TOTAL_WEIGHT:
         raise WeightError(f"weight of {where} is {x:g}; weights must add up to at most {MAX_TOTAL_WEIGHT:g}")
     return x

@@ -37,6 +37,8 @@ from typing import Any, Iterator
 
 import networkx as nx
 
+from .errors import SweepwidthError
+
 __all__ = ["DISCLAIMER", "pavilion", "ROOMS", "demo_set", "run_demo", "first_split"]
 
 DISCLAIMER = (
@@ -144,7 +146,7 @@ def _result_event(label: str, res: Any, P: Any, obj: Any) -> dict:
     if res.witness is not None:
         try:
             w = res.check(obj)
-            checked = f"replays, {w:g}"
+            checked = "yes" if abs(float(w) - float(res.upper)) <= 1e-9 * max(1.0, abs(float(w))) else f"REFUSED (replays with {w:g})"
         except Exception as err:  # noqa: BLE001 - shown, not hidden
             checked = f"REFUSED ({err})"
     return {
@@ -314,12 +316,24 @@ def _pavilion_files(P: Any, results: dict, out_dir: str, pictures: bool) -> Iter
         yield {"kind": "note", "text": f"  floor plan written to {path}"}
     except Exception as err:  # noqa: BLE001
         yield {"kind": "note", "text": f"  floor plan not written ({type(err).__name__}: {err})"}
+    saved_names: list[str] = []
     for key, res in results.items():
+        # the format and names of 'sweepwidth solve --save', so that 'sweepwidth check' reads them
         try:
-            with open(os.path.join(out_dir, f"pavilion.{key}.result.json"), "w", encoding="utf-8") as fh:
-                fh.write(res.to_json(indent=1))
-        except OSError as err:
+            from .bench.hashing import instance_hash
+            from .io.saved import saved_result, write_saved
+
+            target = os.path.join(out_dir, f"pavilion.{key}.json")
+            write_saved(saved_result(path, instance_hash(path), res, {}), target, path)
+            saved_names.append(os.path.basename(target))
+        except (OSError, SweepwidthError) as err:
             yield {"kind": "note", "text": f"  result not saved: {err}"}
+    if saved_names:
+        yield {
+            "kind": "note",
+            "text": f"  results saved in {out_dir}/: {', '.join(saved_names)}"
+            f" (verify one: sweepwidth check {os.path.join(out_dir, saved_names[0])})",
+        }
     if not pictures:
         return
     try:

@@ -15,8 +15,14 @@ __all__ = [
     "CrossingEdgesError",
     "WeightError",
     "FileFormatError",
+    "MissingFileError",
     "UnsupportedOptionError",
     "InvalidArgumentError",
+    "InputTypeError",
+    "NotInGraphError",
+    "MissingDependencyError",
+    "OperationError",
+    "StorageError",
     "InvalidCurveError",
     "ProblemTooLargeError",
     "WitnessError",
@@ -98,8 +104,11 @@ class FileFormatError(SweepwidthError, ValueError):
         self.reason = message
 
 
-class UnsupportedOptionError(SweepwidthError, ValueError):
-    """An unknown method, format or option value; the message lists the valid ones."""
+class UnsupportedOptionError(SweepwidthError, ValueError, TypeError):
+    """An unknown method, format, option value or keyword; the message lists the valid ones.
+
+    Also a TypeError, as Python raises for an unknown keyword argument.
+    """
 
     def __init__(self, what: str, value: object, valid: list | tuple | None = None) -> None:
         msg = f"unknown {what} {value!r}"
@@ -111,8 +120,35 @@ class UnsupportedOptionError(SweepwidthError, ValueError):
         self.valid = list(valid or [])
 
 
+class MissingFileError(FileFormatError, FileNotFoundError):
+    """A file that is not there (a FileNotFoundError, and a FileFormatError for handlers of unreadable files)."""
+
+
 class InvalidArgumentError(SweepwidthError, ValueError):
-    """A bad value of an argument shared by every solver: ``time_limit``, ``seed`` or ``weight``."""
+    """A bad argument value: ``time_limit``, ``seed``, ``weight``, a size, an option, a graph a format cannot hold."""
+
+
+class InputTypeError(SweepwidthError, TypeError):
+    """An argument of the wrong type (e.g. a list where a PlaneGraph is expected)."""
+
+
+class NotInGraphError(InvalidArgumentError, LookupError):
+    """A vertex, edge or face that the graph does not have (also a LookupError)."""
+
+    def __str__(self) -> str:
+        return Exception.__str__(self)
+
+
+class MissingDependencyError(SweepwidthError, ImportError):
+    """An optional package that this feature needs is not installed (the message says which extra)."""
+
+
+class OperationError(SweepwidthError, RuntimeError):
+    """An operation that could not be carried out on valid input (a layout, a busy database, a lost state)."""
+
+
+class StorageError(SweepwidthError, OSError):
+    """A file that cannot be written or a service that cannot be reached."""
 
 
 class InvalidCurveError(SweepwidthError, ValueError):

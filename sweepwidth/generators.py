@@ -12,7 +12,7 @@ from typing import Hashable
 import networkx as nx
 import numpy as np
 
-from .errors import SweepwidthError
+from .errors import InvalidArgumentError, SweepwidthError
 from .plane import PlaneGraph
 
 __all__ = [
@@ -44,7 +44,7 @@ def grid(rows: int, cols: int, *, weights: tuple[int, int] | None = None, seed: 
     7
     """
     if rows < 1 or cols < 1:
-        raise SweepwidthError(f"grid needs rows, cols >= 1, got {rows} x {cols}")
+        raise InvalidArgumentError(f"grid needs rows, cols >= 1, got {rows} x {cols}")
     G = nx.grid_2d_graph(rows, cols)
     if weights is not None:
         rng = _rng(seed)
@@ -68,7 +68,7 @@ def triangulated_grid(k: int, *, diagonal: str = "main") -> PlaneGraph:
     8
     """
     if k < 1:
-        raise SweepwidthError(f"triangulated_grid needs k >= 1, got {k}")
+        raise InvalidArgumentError(f"triangulated_grid needs k >= 1, got {k}")
     if diagonal not in ("main", "alternate"):
         from .errors import UnsupportedOptionError
 
@@ -99,7 +99,7 @@ def delaunay(n: int, *, seed: int | np.random.Generator | None = None) -> PlaneG
     from scipy.spatial import Delaunay
 
     if n < 3:
-        raise SweepwidthError(f"delaunay needs n >= 3 points, got {n}")
+        raise InvalidArgumentError(f"delaunay needs n >= 3 points, got {n}")
     rng = _rng(seed)
     pts = rng.random((n, 2))
     tri = Delaunay(pts)
@@ -150,9 +150,9 @@ def weighted_delaunay_disk(n: int, *, seed: int | None = None, heavy: tuple[int,
     """
     lo, hi = heavy
     if isinstance(seed, np.random.Generator):
-        raise SweepwidthError("weighted_delaunay_disk needs an integer seed (points and weights use it twice)")
+        raise InvalidArgumentError("weighted_delaunay_disk needs an integer seed (points and weights use it twice)")
     if not (isinstance(lo, (int, np.integer)) and isinstance(hi, (int, np.integer)) and 0 <= lo <= hi):
-        raise SweepwidthError(f"heavy must be a range (lo, hi) of integers with 0 <= lo <= hi, got {heavy!r}")
+        raise InvalidArgumentError(f"heavy must be a range (lo, hi) of integers with 0 <= lo <= hi, got {heavy!r}")
     P = delaunay(n, seed=seed)
     outer = P.outer_face
     m = P.number_of_edges()
@@ -193,7 +193,7 @@ def random_plane_graph(
     from scipy.sparse.csgraph import minimum_spanning_tree
 
     if not 0 <= remove <= 1:
-        raise SweepwidthError(f"remove must be a fraction in [0, 1], got {remove!r}")
+        raise InvalidArgumentError(f"remove must be a fraction in [0, 1], got {remove!r}")
     rng = _rng(seed)
     T = delaunay(n, seed=rng)
     labels = T.vertices
@@ -229,7 +229,7 @@ def wheel(k: int) -> PlaneGraph:
     6
     """
     if k < 3:
-        raise SweepwidthError(f"wheel needs k >= 3 rim vertices, got {k}")
+        raise InvalidArgumentError(f"wheel needs k >= 3 rim vertices, got {k}")
     G = nx.wheel_graph(k + 1)
     pos = {0: (0.0, 0.0)}
     for i in range(1, k + 1):
@@ -247,7 +247,7 @@ def fan(k: int) -> PlaneGraph:
     4
     """
     if k < 2:
-        raise SweepwidthError(f"fan needs k >= 2 path vertices, got {k}")
+        raise InvalidArgumentError(f"fan needs k >= 2 path vertices, got {k}")
     G = nx.path_graph(range(1, k + 1))
     G.add_edges_from((0, i) for i in range(1, k + 1))
     pos = {0: (0.0, -1.0)}
@@ -268,7 +268,7 @@ def nested_triangles(k: int) -> PlaneGraph:
     8
     """
     if k < 1:
-        raise SweepwidthError(f"nested_triangles needs k >= 1, got {k}")
+        raise InvalidArgumentError(f"nested_triangles needs k >= 1, got {k}")
     G = nx.Graph()
     pos: dict[Hashable, tuple[float, float]] = {}
     for lv in range(k):
@@ -292,7 +292,7 @@ def cycle_with_chords(n: int, chords: int, *, seed: int | None = None) -> PlaneG
     11
     """
     if n < 3:
-        raise SweepwidthError(f"cycle_with_chords needs n >= 3, got {n}")
+        raise InvalidArgumentError(f"cycle_with_chords needs n >= 3, got {n}")
     rng = _rng(seed)
     G = nx.cycle_graph(n)
     pos = {i: (math.cos(2 * math.pi * i / n), math.sin(2 * math.pi * i / n)) for i in range(n)}
@@ -319,7 +319,7 @@ def random_tree(n: int, *, seed: int | None = None) -> PlaneGraph:
     1
     """
     if n < 1:
-        raise SweepwidthError(f"random_tree needs n >= 1, got {n}")
+        raise InvalidArgumentError(f"random_tree needs n >= 1, got {n}")
     rng = _rng(seed)
     if n == 1:
         T = nx.Graph()

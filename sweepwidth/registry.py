@@ -68,6 +68,9 @@ class Parameter:
     options : tuple of str
         Keyword options the command line and the benchmark runner may pass
         (besides ``method``, ``time_limit`` and ``seed``).
+    measure : str
+        What the checker's number of a witness is called ('width' of an
+        ordering or sweep, 'height' of a homotopy).
     """
 
     name: str
@@ -76,6 +79,7 @@ class Parameter:
     checker: str
     problem: str
     options: tuple[str, ...] = ()
+    measure: str = "width"
 
     @property
     def module(self) -> str:
@@ -95,12 +99,13 @@ PARAMETERS: dict[str, Parameter] = {
     p.name: p
     for p in (
         Parameter("cutwidth", "cutwidth", "sweepwidth.solve.ordering:cutwidth", "sweepwidth.verify.ordering", "graph",
-                  ("first", "last", "weight", "solver")),
+                  ("first", "last", "weight", "solver", "max_memory")),
         Parameter("homology", "homology sweep width", "sweepwidth.solve.homology:homology_width",
                   "sweepwidth.verify.homology", "plane", ("start", "end", "holes", "monotone")),
         Parameter("homotopy", "homotopy height", "sweepwidth.solve.homotopy:homotopy_height",
                   "sweepwidth.verify.homotopy", "plane",
-                  ("start", "end", "spikes", "simple", "monotone", "weight", "length", "holes", "s", "t")),
+                  ("start", "end", "spikes", "simple", "monotone", "weight", "length", "holes", "s", "t", "max_memory"),
+                  measure="height"),
     )
 }
 
@@ -165,7 +170,7 @@ _BUILTIN_METHODS: tuple[Method, ...] = (
     Method("cutwidth", "tree", "exact", "forests: recursive three-branch bound, then the prefix-set search", ("max_states",)),
     Method("cutwidth", "heuristic", "bounds", "constructions and local search with the lower bounds", ("improve", "effort")),
     Method("homology", "auto", "auto", "subset DP for small sweeps, else the pinned cutwidth of the dual", _HOM_OPTIONS),
-    Method("homology", "cutwidth", "exact", "nested sweeps as pinned cutwidth of the dual (a relaxation when crossing)", _HOM_OPTIONS),
+    Method("homology", "dual-cutwidth", "exact", "nested sweeps as pinned cutwidth of the dual (a relaxation when crossing)", _HOM_OPTIONS),
     Method("homology", "subset-dp", "exact", "dynamic programming over swept face sets", _HOM_OPTIONS),
     Method("homology", "face-sets", "exact", "bottleneck search over toggle states (non-monotone sweeps)", _HOM_OPTIONS),
     Method("homotopy", "auto", "auto", "bounds, then the exact search in the time left (small instances)"),
@@ -189,9 +194,22 @@ def method_names(parameter_name: str) -> list[str]:
     return list(methods(parameter_name))
 
 
+#: old method names still accepted (with a DeprecationWarning): (parameter, old name) -> new name
+DEPRECATED_NAMES: dict[tuple[str, str], str] = {("homology", "cutwidth"): "dual-cutwidth"}
+
+
 def get_method(parameter_name: str, name: Any) -> Method:
-    """The registered method; UnsupportedOptionError lists the valid names."""
+    """The registered method; UnsupportedOptionError lists the valid names.
+
+    A deprecated name (:data:`DEPRECATED_NAMES`) gives its new method with a DeprecationWarning.
+    """
     table = methods(parameter_name)
+    new = DEPRECATED_NAMES.get((parameter_name, name)) if isinstance(name, str) else None
+    if new is not None and name not in table:
+        import warnings
+
+        warnings.warn(f"the {parameter_name} method {name!r} is now called {new!r}", DeprecationWarning, stacklevel=3)
+        name = new
     if isinstance(name, str) and name in table:
         return table[name]
     raise UnsupportedOptionError(f"{parameter_name} method", name, list(table))

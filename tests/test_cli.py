@@ -73,10 +73,10 @@ def test_solve_table_json_and_save_then_check(files, tmp_path, capsys):
     rc, out, err = run("solve", files / "grid.json", files / "c6.json")
     assert rc == 0, err
     lines = out.splitlines()
-    assert lines[0].split()[:3] == ["instance", "param", "status"]
+    assert lines[0].split()[:3] == ["instance", "parameter", "status"]
     grid = [l for l in lines if l.startswith("grid.json")][0].split()
     assert grid[1:6] == ["cutwidth", "optimal", "4", "4", "4"]  # Rolim, Sykora, Vrto: m + 1
-    assert grid[-1] == "ok"  # witness replayed by the independent checker
+    assert grid[-1] == "yes"  # witness replayed by the independent checker
     c6 = [l for l in lines if l.startswith("c6.json")][0].split()
     assert c6[3] == "2"  # cw(C_n) = 2 (common practice)
 
@@ -94,7 +94,7 @@ def test_solve_table_json_and_save_then_check(files, tmp_path, capsys):
     assert saved == ["wheel.cutwidth.json", "wheel.homology.json"]
     rc, out, err = run_here(capsys, "check", *(save / f for f in saved))
     assert rc == 0, err
-    assert out.count(": ok: ") == 2
+    assert out.count(": verified: ") == 2
 
 
 def _tamper(path, change, redigest):
@@ -128,8 +128,10 @@ def test_check_refuses_tampered_results(files, tmp_path, capsys):
     # 4. the right result against another instance
     rc, out, err = run("check", good, low, swapped, short)
     assert rc == 1
-    verdicts = {os.path.basename(l.split(":")[0]): l for l in out.splitlines()}
-    assert ": ok: " in verdicts["r.json"]
+    verdicts: dict = {}
+    for l in out.splitlines():
+        verdicts[os.path.basename(l.split(":")[0])] = verdicts.get(os.path.basename(l.split(":")[0]), "") + l
+    assert ": verified: " in verdicts["r.json"]
     assert "REFUSED" in verdicts["low.json"] and "width 4" in verdicts["low.json"]
     assert "REFUSED" in verdicts["swapped.json"] and "edited" in verdicts["swapped.json"]
     assert "REFUSED" in verdicts["short.json"]
@@ -157,7 +159,7 @@ def test_bad_file_is_one_line(files, capsys):
     [
         (["solve", "{grid}", "--param", "width"], "unknown parameter 'width'", 1),
         (["solve", "{grid}", "--method", "magic"], "magic", 1),
-        (["solve", "{grid}", "--time-limit", "soon"], "invalid float value", 2),
+        (["solve", "{grid}", "--time-limit", "soon"], "takes seconds", 2),
         (["solve", "{c6}", "--param", "homology"], "plane graph", 1),
         (["solve", "{grid}", "--first", "[9, 9]"], "not a vertex", 1),
         (["bench", "{grid}", "--db", "{tmp}/x.sqlite"], "--time-limit", 1),
@@ -220,7 +222,7 @@ def test_dual_and_convert(files, tmp_path, capsys):
     assert D.number_of_vertices() == P.number_of_faces() and D.number_of_edges() == P.number_of_edges()
     rc, out, err = run_here(capsys, "dual", files / "wheel.json")
     assert rc == 0 and "dual:" in out
-    rc, out, err = run("convert", files / "grid.json", tmp_path / "g.gr")
+    rc, out, err = run("convert", files / "grid.json", tmp_path / "g.gr", "--force")  # .gr holds no embedding
     assert rc == 0, err
     G = sw.read(str(tmp_path / "g.gr"), kind="graph")
     assert nx.is_isomorphic(nx.Graph(G), nx.grid_2d_graph(3, 4))  # networkx as the reference
@@ -245,8 +247,15 @@ def test_demo_runs_and_finds_the_costly_spot(tmp_path):
     assert "keeping the cordon in one piece costs" in out
     assert "-> where: the separate-loops sweep splits its cordon" in out
     assert (tmp_path / "demo" / "pavilion.json").exists()
-    saved = json.loads((tmp_path / "demo" / "pavilion.homotopy.result.json").read_text())
-    assert saved["status"] == "optimal"
+    saved = json.loads((tmp_path / "demo" / "pavilion.homotopy.json").read_text())
+    assert saved["result"]["status"] == "optimal"
+    # regression: the demo's result files could not be read by check, and the demo did not mention them
+    assert "results saved in" in out and "sweepwidth check" in out
+    header = [l for l in out.splitlines() if l.startswith("instance")][0].split()
+    assert header == ["instance", "parameter", "status", "value", "lower", "upper", "method", "seconds", "checked", "note"]
+    for p in ("homology", "homotopy", "cutwidth"):
+        rc, text, err = run("check", tmp_path / "demo" / f"pavilion.{p}.json")
+        assert rc == 0 and ": verified: " in text, err
 
 
 def test_internal_errors_are_one_line_too(files, capsys, monkeypatch):

@@ -201,3 +201,60 @@ def test_unknown_method_lists_the_registry():
         sw.homology_width(generators.grid(2, 3), method="nope")
     for name in methods("homology"):
         assert repr(name) in str(err.value)
+
+
+@pytest.mark.parametrize("name", ["cutwidth", "homology", "homotopy"])
+def test_unknown_keyword_is_a_clear_error_listing_the_valid_ones(name):
+    # regression: homotopy_height(T, spike=False) raised a bare TypeError
+    from sweepwidth import generators
+    from sweepwidth.errors import UnsupportedOptionError
+    from sweepwidth.registry import PARAMETERS
+
+    T = generators.triangulated_grid(2)
+    with pytest.raises(UnsupportedOptionError, match="spike") as info:
+        PARAMETERS[name].solver()(T, spike=False)
+    assert isinstance(info.value, TypeError) and isinstance(info.value, ValueError)
+    assert "valid:" in str(info.value)
+
+
+def test_a_missing_file_is_a_file_not_found_error(tmp_path):
+    # regression: a missing file raised a FileFormatError that no FileNotFoundError handler caught
+    import sweepwidth as sw
+    from sweepwidth.errors import FileFormatError, MissingFileError
+    from sweepwidth.io.saved import load_result, read_saved
+
+    for reader in (sw.read, read_saved, load_result):
+        with pytest.raises(FileNotFoundError) as info:
+            reader(str(tmp_path / "absent.json"))
+        assert isinstance(info.value, MissingFileError) and isinstance(info.value, FileFormatError)
+        assert "absent.json" in str(info.value)
+
+
+def test_memory_figures_are_short():
+    # regression: a 100-digit GiB figure in the subset-search refusal
+    from sweepwidth import generators
+    from sweepwidth.errors import ProblemTooLargeError
+    from sweepwidth.solve.homology.face_sets import FaceSweep, monotone_sweep
+
+    P = generators.triangulated_grid(12)  # 288 faces
+    fs = FaceSweep.build(P, set(P.face_boundary_cycle(P.outer_face)), frozenset(f for f in P.faces if f != P.outer_face))
+    with pytest.raises(ProblemTooLargeError) as info:
+        monotone_sweep(fs)
+    assert max(len(w) for w in str(info.value).split()) < 12, str(info.value)
+
+
+def test_numbers_in_messages_are_plain():
+    # regression: "np.float64(0.0)" in an error message
+    import numpy as np
+    import networkx as nx
+    import sweepwidth as sw
+    from sweepwidth.errors import InvalidArgumentError, WeightError
+
+    with pytest.raises(InvalidArgumentError) as info:
+        sw.cutwidth(nx.path_graph(3), time_limit=np.float64(-2.0))
+    assert "np." not in str(info.value) and "-2.0" in str(info.value)
+    G = nx.path_graph(3)
+    G.edges[0, 1]["weight"] = np.float64(-1.0)
+    with pytest.raises(WeightError) as info:
+        sw.cutwidth(G)
+    assert "np." not in str(info.value)

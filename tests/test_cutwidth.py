@@ -511,7 +511,7 @@ BAD = [
         "too large for dp",
         lambda: sw.cutwidth(nx.cycle_graph(40), method="dp"),
         ProblemTooLargeError,
-        "MiB",
+        "GiB|MiB",
     ),
 ]
 

@@ -125,7 +125,7 @@ def test_boundary_sweep_equals_pinned_cutwidth_of_dual(P):
     if len(inner_faces(P)) > 12:
         return
     cw = sw.cutwidth(P.dual(), first=P.outer_face)
-    for method in ("subset-dp", "cutwidth"):
+    for method in ("subset-dp", "dual-cutwidth"):
         r = sw.homology_width(P, method=method)
         assert r.status == "optimal"
         assert r.value == pytest.approx(cw.value)
@@ -171,7 +171,7 @@ def sweep_instances(draw, max_vertices=8, max_faces=7):
 def test_curve_to_curve_against_brute_force(inst):
     P, c0, c1, holes = inst
     ref = brute_force(P, c0, c1, holes)
-    for method in ("auto", "subset-dp", "cutwidth"):
+    for method in ("auto", "subset-dp", "dual-cutwidth"):
         r = sw.homology_width(P, start=set(c0), end=set(c1), holes=holes, method=method)
         if ref is None:
             assert r.status == "infeasible"
@@ -180,7 +180,7 @@ def test_curve_to_curve_against_brute_force(inst):
             continue
         assert r.check(P) == pytest.approx(r.upper)
         assert r.lower <= ref + 1e-9 <= r.upper + 2e-9
-        if method != "cutwidth" or r.stats["nested"]:
+        if method != "dual-cutwidth" or r.stats["nested"]:
             # exact methods; 'cutwidth' is exact on nested sweeps only
             assert r.status == "optimal"
             assert r.value == pytest.approx(ref)
@@ -267,8 +267,8 @@ def test_crossing_sweep_exact_and_relaxed():
     ref = brute_force(P, c0, c1, {P.outer_face})
     r = sw.homology_width(P, start=set(c0), end=set(c1))
     assert r.value == pytest.approx(ref)
-    assert r.method == "subset-dp"
-    rc = sw.homology_width(P, start=set(c0), end=set(c1), method="cutwidth")
+    assert r.method == "auto:subset-dp"
+    rc = sw.homology_width(P, start=set(c0), end=set(c1), method="dual-cutwidth")
     assert rc.lower <= ref + 1e-9 <= rc.upper + 1e-9
     assert rc.check(P) == pytest.approx(rc.upper)
 
@@ -411,7 +411,7 @@ def test_regression_sw_cutwidth_stays_a_function_after_homology():
     import importlib
     import types
 
-    sw.homology_width(generators.delaunay(9, seed=1), method="cutwidth")
+    sw.homology_width(generators.delaunay(9, seed=1), method="dual-cutwidth")
     importlib.import_module("sweepwidth.solve.ordering")
     vars(sw).pop("cutwidth", None)  # forget the cached attribute: resolve afresh
     assert not isinstance(sw.cutwidth, types.ModuleType)
@@ -533,7 +533,7 @@ def test_large_crossing_sweep_gets_valid_bounds():
     r = sw.homology_width(P, start=c0, end=c1, time_limit=20, seed=0)
     assert not r.stats["nested"]
     assert len(r.stats["swept"]) == 24
-    assert r.method == "cutwidth"
+    assert r.method == "auto:dual-cutwidth"
     assert max(_w(P, c0), _w(P, c1)) <= r.lower <= r.upper
     assert r.check(P) == r.upper
 
@@ -542,7 +542,7 @@ def test_large_crossing_sweep_gets_valid_bounds():
 def test_large_crossing_sweep_against_the_exact_dp():
     P, c0, c1 = _two_blocks(4)
     exact = sw.homology_width(P, start=c0, end=c1, method="subset-dp", max_faces=24)
-    r = sw.homology_width(P, start=c0, end=c1, method="cutwidth")
+    r = sw.homology_width(P, start=c0, end=c1, method="dual-cutwidth")
     assert r.lower <= exact.value <= r.upper
 
 
@@ -560,3 +560,13 @@ def test_runs_inside_a_time_limited_child():
     assert done
     assert r.check(P) == r.upper
     assert "cutwidth_child" not in r.stats["parts"][0]
+
+
+def test_old_method_name_cutwidth_still_works_with_a_deprecation_warning():
+    # regression: the homology method 'cutwidth' read like a cutwidth value; it is now 'dual-cutwidth'
+    T = generators.triangulated_grid(2)
+    with pytest.warns(DeprecationWarning, match="dual-cutwidth"):
+        old = sw.homology_width(T, method="cutwidth")
+    new = sw.homology_width(T, method="dual-cutwidth")
+    assert old.method == new.method == "dual-cutwidth" and old.value == new.value
+    assert sw.homology_width(T).method.startswith("auto:")  # what auto chose, as for cutwidth

@@ -100,7 +100,7 @@ def test_bad_holes_method_options(square):
     with pytest.raises(UnsupportedOptionError, match="dp_limit"):
         sw.homology_width(square, colour=3)
     with pytest.raises(SweepwidthError, match="monotone=False"):
-        sw.homology_width(square, method="cutwidth", monotone=False)
+        sw.homology_width(square, method="dual-cutwidth", monotone=False)
     with pytest.raises(SweepwidthError, match="time_limit"):
         sw.homology_width(square, time_limit=-1)
     with pytest.raises(SweepwidthError, match="seed"):

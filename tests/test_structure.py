@@ -138,3 +138,20 @@ def test_the_repository_points_at_nothing_outside_it():
             if word in text:
                 bad.append(f"{path.relative_to(repo)}: {word}")
     assert not bad, "\n".join(bad)
+
+
+def test_every_error_raised_on_purpose_derives_from_a_builtin():
+    # regression: 113 raises of the bare SweepwidthError, which no ValueError/TypeError handler catches
+    import inspect
+    import pathlib
+
+    import sweepwidth.errors as errors
+
+    pkg = pathlib.Path(errors.__file__).parent
+    bare = [f"{p.relative_to(pkg)}:{i}" for p in pkg.rglob("*.py")
+            for i, line in enumerate(p.read_text(encoding="utf-8").splitlines(), 1) if "raise SweepwidthError(" in line]
+    assert bare == []
+    builtins_ = (ValueError, TypeError, LookupError, OSError, ImportError, RuntimeError, MemoryError)
+    for name, cls in inspect.getmembers(errors, inspect.isclass):
+        if issubclass(cls, errors.SweepwidthError) and cls is not errors.SweepwidthError:
+            assert issubclass(cls, builtins_), name

@@ -178,7 +178,7 @@ class ResultsDB:
         """
         import socket
 
-        from ..errors import SweepwidthError
+        from ..errors import OperationError, SweepwidthError
 
         me = json.dumps({"host": socket.gethostname(), "pid": os.getpid(), "since": time.time()})
         self.conn.execute("BEGIN IMMEDIATE")
@@ -187,7 +187,7 @@ class ResultsDB:
             if row is not None:
                 other = json.loads(row[0])
                 if not _stale(other):
-                    raise SweepwidthError(
+                    raise OperationError(
                         f"{self.path}: another benchmark run (process {other.get('pid')} on {other.get('host')}, since "
                         f"{time.strftime('%Y-%m-%d %H:%M:%S', time.localtime(other.get('since', 0)))}) is writing to this "
                         "database; wait for it to finish or use another --db"

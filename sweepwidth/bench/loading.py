@@ -12,7 +12,7 @@ import inspect
 import os
 from typing import Any, Callable, Mapping
 
-from ..errors import SweepwidthError, UnsupportedOptionError
+from ..errors import InputTypeError, SweepwidthError, UnsupportedOptionError
 from .. import registry
 
 __all__ = [
@@ -37,14 +37,16 @@ def load_instance(path: str | os.PathLike) -> Any:
 
     Raises
     ------
+    MissingFileError
+        If the file is missing (a FileNotFoundError).
     FileFormatError
-        If the file is missing or malformed (raised by the reader).
+        If the file is malformed (raised by the reader).
     """
     p = os.fspath(path)
     if not os.path.exists(p):
-        from ..errors import FileFormatError
+        from ..errors import MissingFileError
 
-        raise FileFormatError("no such file", path=p)
+        raise MissingFileError("no such file", path=p)
     from ..io import read
 
     return read(p)
@@ -72,7 +74,7 @@ def _graph_for(parameter: str, obj: Any) -> Any:
             return obj.to_networkx()
         return obj
     if not is_plane(obj):
-        raise SweepwidthError(
+        raise InputTypeError(
             f"the {parameter} parameter needs a plane graph (an embedding), got {type(obj).__name__}; "
             "give a file with a rotation system, faces or positions"
         )

@@ -22,7 +22,7 @@ import time
 from dataclasses import dataclass, field
 from typing import Any, Callable, Iterable, Mapping, Sequence, cast
 
-from ..errors import SweepwidthError, UnsupportedOptionError
+from ..errors import InvalidArgumentError, MissingDependencyError, StorageError, SweepwidthError, UnsupportedOptionError
 from .child import cancel_all, execute_task, reset_cancel
 from .db import ResultsDB
 from .meta import run_metadata
@@ -114,7 +114,7 @@ def make_executor(spec: Any = None, *, jobs: int = 1) -> _Owned:
         cannot be reached.
     """
     if jobs < 1:
-        raise SweepwidthError(f"jobs must be at least 1, got {jobs}")
+        raise InvalidArgumentError(f"jobs must be at least 1, got {jobs}")
     if spec is None or spec == "local":
         ex = cf.ThreadPoolExecutor(max_workers=jobs, thread_name_prefix="sweepwidth-task")
         return _Owned(ex, lambda: ex.shutdown(wait=True, cancel_futures=True))
@@ -124,7 +124,7 @@ def make_executor(spec: Any = None, *, jobs: int = 1) -> _Owned:
         try:
             from distributed import Client, LocalCluster
         except ImportError as err:
-            raise SweepwidthError(
+            raise MissingDependencyError(
                 "the dask executor needs dask.distributed (pip install 'sweepwidth[distributed]')"
             ) from err
         if spec.startswith("dask://"):
@@ -132,7 +132,7 @@ def make_executor(spec: Any = None, *, jobs: int = 1) -> _Owned:
             try:
                 client = Client(address, timeout=10)
             except (OSError, TimeoutError) as err:
-                raise SweepwidthError(f"cannot reach the dask scheduler at {address}: {err}") from err
+                raise StorageError(f"cannot reach the dask scheduler at {address}: {err}") from err
             return _Owned(client.get_executor(pure=False), client.close)
         cluster = LocalCluster(n_workers=1, threads_per_worker=jobs, processes=False, dashboard_address=None)
         client = Client(cluster)

@@ -44,7 +44,7 @@ def verdict(row: Mapping[str, Any], known: Mapping[str, Any] | None) -> str:
 
 
 def summarize(rows: Iterable[Mapping[str, Any]]) -> list[dict]:
-    """One line per (parameter, method): tasks, solved, bounded, failed, conflicts, median seconds.
+    """One line per (parameter, method): tasks, solved, bounded, failed, contradicted (a known value), median seconds.
 
     Examples
     --------
@@ -68,7 +68,7 @@ def summarize(rows: Iterable[Mapping[str, Any]]) -> list[dict]:
                 "solved": sum(r.get("status") in SOLVED for r in rs),
                 "bounded": sum(r.get("status") == "bounded" for r in rs),
                 "failed": sum(r.get("status") in FAILED for r in rs),
-                "conflicts": sum(r.get("verdict") == "CONFLICT" for r in rs),
+                "contradicted": sum(r.get("verdict") == "CONFLICT" for r in rs),
                 "refused": sum(bool(r.get("message", "") and str(r.get("message")).startswith("witness refused")) for r in rs),
                 "median_s": statistics.median(secs) if secs else None,
                 "median_solved_s": statistics.median(solved_secs) if solved_secs else None,
@@ -77,18 +77,8 @@ def summarize(rows: Iterable[Mapping[str, Any]]) -> list[dict]:
     return out
 
 
-def _cell(x: Any) -> str:
-    if x is None:
-        return "-"
-    if isinstance(x, float):
-        if x.is_integer() and abs(x) < 1e12:
-            return str(int(x))
-        return f"{x:.3g}" if abs(x) < 1000 else f"{x:.0f}"
-    return str(x)
-
-
 def format_table(rows: Iterable[Mapping[str, Any]], columns: list[str], headers: list[str] | None = None) -> str:
-    """Plain-text table with right-aligned numbers.
+    """Plain-text table of dict rows, by :func:`sweepwidth.tables.format_table` (the one table formatter).
 
     Examples
     --------
@@ -97,16 +87,6 @@ def format_table(rows: Iterable[Mapping[str, Any]], columns: list[str], headers:
     -  -
     1  x
     """
-    headers = headers or columns
-    body = [[_cell(r.get(c)) for c in columns] for r in rows]
-    widths = [max([len(h)] + [len(b[i]) for b in body]) for i, h in enumerate(headers)]
+    from ..tables import format_table as table
 
-    def line(cells: list[str]) -> str:
-        parts = []
-        for i, c in enumerate(cells):
-            parts.append(c.ljust(widths[i]) if i == len(cells) - 1 else c.ljust(widths[i]))
-        return "  ".join(parts).rstrip()
-
-    out = [line(headers), line(["-" * w for w in widths])]
-    out += [line(b) for b in body]
-    return "\n".join(out)
+    return table([[r.get(c) for c in columns] for r in rows], headers or columns, kinds=columns)

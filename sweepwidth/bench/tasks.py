@@ -14,7 +14,7 @@ import os
 from dataclasses import asdict, dataclass, field
 from typing import Any, Iterable, Mapping, Sequence
 
-from ..errors import FileFormatError, SweepwidthError, UnsupportedOptionError
+from ..errors import FileFormatError, InvalidArgumentError, SweepwidthError, UnsupportedOptionError
 from .hashing import config_hash, instance_hash
 from .. import registry
 from .loading import OPTIONS, PARAMETERS
@@ -332,7 +332,7 @@ def make_tasks(
                 registry.get_method(p, m)  # UnsupportedOptionError listing the registered methods
     opts = dict(options or {})
     if not parameters:
-        raise SweepwidthError("a benchmark run needs at least one parameter")
+        raise InvalidArgumentError("a benchmark run needs at least one parameter")
     tasks: list[Task] = []
     for e in entries:
         h = instance_hash(e.path)

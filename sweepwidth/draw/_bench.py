@@ -32,7 +32,7 @@ from typing import Any, Iterable
 
 import numpy as np
 
-from ..errors import FileFormatError, SweepwidthError
+from ..errors import FileFormatError, InvalidArgumentError, SweepwidthError
 from ._style import PALETTE, SERIES, new_figure, require_matplotlib
 
 __all__ = ["read_bench_rows", "bench_times", "bench_solved"]
@@ -214,7 +214,7 @@ def bench_times(
     rows = _filter(read_bench_rows(db), parameter)
     usable = [r for r in rows if r["size"] is not None and r["seconds"] is not None]
     if not usable:
-        raise SweepwidthError("no task in the database has both an instance size and a time")
+        raise InvalidArgumentError("no task in the database has both an instance size and a time")
     if ax is None:
         fig = new_figure(figsize, dpi)
         ax = fig.add_axes((0.14, 0.13, 0.82, 0.78))
@@ -285,7 +285,7 @@ def bench_solved(
     require_matplotlib()
     rows = _filter(read_bench_rows(db), parameter)
     if not rows:
-        raise SweepwidthError("the database has no tasks" + (f" for {parameter!r}" if parameter else ""))
+        raise InvalidArgumentError("the database has no tasks" + (f" for {parameter!r}" if parameter else ""))
     methods = _methods(rows)
     solved = [sum(1 for r in rows if r["method"] == m and r["status"] in SOLVED) for m in methods]
     bounded = [sum(1 for r in rows if r["method"] == m and r["status"] == "bounded") for m in methods]

@@ -7,7 +7,7 @@ from typing import Any
 
 import networkx as nx
 
-from ..errors import SweepwidthError, UnsupportedOptionError
+from ..errors import InvalidArgumentError, SweepwidthError, UnsupportedOptionError
 from ..io.saved import load_result
 from ..plane import PlaneGraph
 from ..registry import PARAMETERS
@@ -21,15 +21,15 @@ _PARAMS = tuple(PARAMETERS)
 _EXTS = (".png", ".svg", ".gif")
 
 
-def _solve(obj: Any, param: str, dual: bool) -> Any:
+def _solve(obj: Any, param: str, dual: bool, time_limit: float | None = QUICK_LIMIT) -> Any:
     entry = PARAMETERS[param]
     solve = entry.solver()
     if entry.problem == "graph":
         target = obj.dual() if (dual and isinstance(obj, PlaneGraph)) else obj
-        return solve(target, time_limit=QUICK_LIMIT)
+        return solve(target, time_limit=time_limit)
     if not isinstance(obj, PlaneGraph):
-        raise SweepwidthError(f"{param} needs a plane graph; the file holds a graph without an embedding")
-    return solve(obj, time_limit=QUICK_LIMIT)
+        raise InvalidArgumentError(f"{param} needs a plane graph; the file holds a graph without an embedding")
+    return solve(obj, time_limit=time_limit)
 
 
 def render_cli(
@@ -40,6 +40,7 @@ def render_cli(
     out: str | os.PathLike,
     dual: bool = False,
     frames: int | bool | None = False,
+    time_limit: float | None = QUICK_LIMIT,
 ) -> str:
     """Read an instance, get a sweep (saved or solved quickly) and write its picture.
 
@@ -64,6 +65,9 @@ def render_cli(
     frames : int or bool
         For stills, a sheet of this many frames instead of one picture
         (``True``: up to 12); for a GIF, at most this many frames.
+    time_limit : float or None
+        Seconds for the solve when no ``result`` is given (default
+        :data:`QUICK_LIMIT`; None: no limit).
 
     Returns
     -------
@@ -102,24 +106,28 @@ def render_cli(
     res = load_result(result) if result is not None else None
     if res is not None:
         if param is not None and res.parameter != param:
-            raise SweepwidthError(f"the result is about {res.parameter!r}, not {param!r}")
+            raise InvalidArgumentError(f"the result is about {res.parameter!r}, not {param!r}")
         param = res.parameter
     n_frames = 12 if frames is True else (int(frames) if frames else 0)
+    if param is None and n_frames:
+        raise InvalidArgumentError("frames show a sweep: give a parameter (--param) or a saved result (--result)")
     if param is None:
         if ext == ".gif":
-            raise SweepwidthError("an animation needs a sweep: give --param or --result")
+            raise InvalidArgumentError("an animation needs a sweep: give --param or --result")
         plain = obj if isinstance(obj, PlaneGraph) else PlaneGraph.from_graph(obj)
         from ._draw import draw
 
         holes = [f for f in (plain.meta.get("holes") or []) if isinstance(f, int) and 0 <= f < plain.number_of_faces()]
+        from ._draw import face_names
+
         ax = draw(plain, dual=dual, labels=plain.number_of_vertices() <= 40, holes=holes,
-                  title=plain.meta.get("name"))
+                  title=plain.meta.get("name"), face_labels=bool(face_names(plain)))
         ax.figure.savefig(out, dpi=ax.figure.dpi)
         return out
     if res is None:
-        res = _solve(obj, param, dual)
+        res = _solve(obj, param, dual, time_limit)
     if res.witness is None:
-        raise SweepwidthError(f"the {param} result ({res.status}) has no witness to draw")
+        raise InvalidArgumentError(f"the {param} result ({res.status}) has no witness to draw")
     on = "faces" if (dual and param == "cutwidth") else "auto"
     if param == "cutwidth" and isinstance(obj, nx.Graph):
         try:
@@ -128,7 +136,7 @@ def render_cli(
             embedded = None
         if embedded is None:
             if ext == ".gif" or n_frames:
-                raise SweepwidthError("frames of a cutwidth ordering need a planar graph; write a .png profile")
+                raise InvalidArgumentError("frames of a cutwidth ordering need a planar graph; write a .png profile")
             from ._profile import width_profile
 
             ax = width_profile(res, obj)
@@ -161,6 +169,7 @@ def render_cli(
     if dual:
         sc.dual()
     width_profile(res, P, ax=ax2, on=on)
-    fig.suptitle(_headline(res) + (f"  -  {P.meta['name']}" if P.meta.get("name") else ""), fontsize=11)
+    of_dual = "  (an ordering of the dual: faces of the plane graph)" if on == "faces" else ""
+    fig.suptitle(_headline(res) + of_dual + (f"  -  {P.meta['name']}" if P.meta.get("name") else ""), fontsize=11)
     fig.savefig(out, dpi=fig.dpi)
     return out

@@ -6,7 +6,7 @@ from typing import Any, Hashable, Iterable, Mapping, Sequence
 
 import numpy as np
 
-from ..errors import SweepwidthError
+from ..errors import InputTypeError, InvalidArgumentError, NotInGraphError, SweepwidthError
 from ..plane import PlaneGraph
 from ._layout import Geometry, _bezier2, _bezier3, _unit
 from ._style import LINES, PALETTE, new_figure, require_matplotlib
@@ -16,6 +16,34 @@ __all__ = ["draw", "Scene"]
 
 def _fmt_weight(w: float) -> str:
     return str(int(w)) if float(w).is_integer() else f"{w:.3g}"
+
+
+def face_names(P: Any) -> dict[int, str]:
+    """Names of faces stored with the instance: ``meta['face_names']`` (id -> name) or ``meta['rooms']`` (name -> id).
+
+    Examples
+    --------
+    >>> import networkx as nx, sweepwidth as sw
+    >>> P = sw.PlaneGraph.from_graph(nx.cycle_graph(3))
+    >>> P.meta["rooms"] = {"Hall": 0}
+    >>> face_names(P)
+    {0: 'Hall'}
+    """
+    meta = getattr(P, "meta", None) or {}
+    out: dict[int, str] = {}
+    given = meta.get("face_names")
+    if isinstance(given, dict):
+        for k, v in given.items():
+            try:
+                out[int(k)] = str(v)
+            except (TypeError, ValueError):
+                continue
+    rooms = meta.get("rooms")
+    if isinstance(rooms, dict):
+        for name, f in rooms.items():
+            if isinstance(f, int) and not isinstance(f, bool):
+                out.setdefault(f, str(name))
+    return out
 
 
 class Scene:
@@ -199,12 +227,19 @@ class Scene:
                      color=PALETTE["label"], zorder=self.Z_TEXT)
 
     def face_labels(self) -> None:
+        """Each inner face's name where the instance names it (e.g. rooms of a floor plan), else ``f<id>``."""
+        names = face_names(self.P)
+        import matplotlib.patheffects as pe
+
+        halo = [pe.withStroke(linewidth=2.2, foreground="white")]
         for f in self.P.faces:
             if f == self.P.outer_face:
                 continue
             p = self.g.face_point(f)
-            self.ax.text(p[0], p[1], f"f{f}", fontsize=6.5, ha="center", va="center", color=PALETTE["dual"],
-                         zorder=self.Z_TEXT)
+            name = names.get(f)
+            txt = name.replace(" ", "\n") if name and len(name) > 10 else (name or f"f{f}")
+            self.ax.text(p[0], p[1], txt, fontsize=6.5 if name is None else 6.0, ha="center", va="center",
+                         color=PALETTE["dual"], zorder=self.Z_TEXT, clip_on=False, path_effects=halo)
 
     def dual_curve(self, e: int) -> np.ndarray:
         """The dual edge of primal edge ``e``: from the face on its left to the face on its right,
@@ -268,12 +303,12 @@ def _coerce_highlight(P: PlaneGraph, highlight: Any) -> set[int]:
     try:
         items = list(highlight)
     except TypeError:
-        raise SweepwidthError(f"highlight must be a collection of edge ids, got {highlight!r}") from None
+        raise InvalidArgumentError(f"highlight must be a collection of edge ids, got {highlight!r}") from None
     m = P.number_of_edges()
     out = set()
     for x in items:
         if isinstance(x, (bool, np.bool_)) or not isinstance(x, (int, np.integer)) or not 0 <= int(x) < m:
-            raise SweepwidthError(f"highlight names {x!r}, which is not an edge id in 0..{m - 1}")
+            raise InvalidArgumentError(f"highlight names {x!r}, which is not an edge id in 0..{m - 1}")
         out.add(int(x))
     return out
 
@@ -357,7 +392,7 @@ def draw(
     """
     require_matplotlib()
     if not isinstance(P, PlaneGraph):
-        raise SweepwidthError(f"draw expects a PlaneGraph, got {type(P).__name__}")
+        raise InputTypeError(f"draw expects a PlaneGraph, got {type(P).__name__}")
     hl = _coerce_highlight(P, highlight)
     F = P.number_of_faces()
     sh = set(shade or ())
@@ -365,7 +400,7 @@ def draw(
     for name, fs in (("shade", sh), ("holes", hs)):
         bad = [f for f in fs if not isinstance(f, (int, np.integer)) or not 0 <= f < F]
         if bad:
-            raise SweepwidthError(f"{name} names {bad[0]!r}, which is not a face id in 0..{F - 1}")
+            raise NotInGraphError(f"{name} names {bad[0]!r}, which is not a face id in 0..{F - 1}")
     if ax is None:
         fig = new_figure(figsize, dpi)
         ax = fig.add_axes((0.02, 0.02, 0.96, 0.9 if title else 0.96))

@@ -13,7 +13,7 @@ from typing import Hashable
 import networkx as nx
 import numpy as np
 
-from ..errors import SweepwidthError
+from ..errors import InvalidArgumentError, OperationError, SweepwidthError
 from ..plane import PlaneGraph
 
 __all__ = ["layout_positions", "Geometry"]
@@ -135,7 +135,7 @@ def _tutte(
     if not inner:
         return pos
     if any(not rot[v] for v in inner):
-        raise SweepwidthError("an interior vertex has no neighbours")
+        raise InvalidArgumentError("an interior vertex has no neighbours")
     ni = len(inner)
     idx = {v: i for i, v in enumerate(inner)}
     fixed = [v for v in rot if v not in idx]
@@ -164,7 +164,7 @@ def _tutte(
             np.add.at(b, src_a[~to_inner], weights[~to_inner, None] * fxy[df[~to_inner]])
         sol = np.atleast_2d(spsolve(A, b)).reshape(ni, 2)
         if not np.all(np.isfinite(sol)):
-            raise SweepwidthError("singular barycentric system")
+            raise OperationError("singular barycentric system")
         xy = sol
         if r < rounds:
             other = np.where(to_inner[:, None], xy[np.maximum(di, 0)], fxy[np.maximum(df, 0)] if len(fxy) else 0.0)
@@ -189,7 +189,7 @@ def _framed_tutte(P: PlaneGraph, rot: dict[Hashable, list[Hashable]]) -> dict[Ha
     walk = P.face_darts(P.outer_face)
     k = len(walk)
     if k < 3:
-        raise SweepwidthError("outer face too short for a frame")
+        raise InvalidArgumentError("outer face too short for a frame")
     frame = [(_FRAME, i) for i in range(k)]
     frot = {v: list(nbrs) for v, nbrs in rot.items()}
     # the corner of the outer face at tail(d) follows head(d) counterclockwise
@@ -336,7 +336,7 @@ def _layout_simple(P: PlaneGraph) -> dict[Hashable, tuple[float, float]]:
         if sign:
             return {v: (float(sign * p[0]), float(p[1])) for v, p in pos.items()}
     # the grid drawing always realises the rotation; reaching here means a bug upstream
-    raise SweepwidthError("could not lay out the embedding without crossings")
+    raise OperationError("could not lay out the embedding without crossings")
 
 
 

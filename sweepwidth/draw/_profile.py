@@ -7,7 +7,7 @@ from typing import Any, Hashable, Sequence
 import networkx as nx
 import numpy as np
 
-from ..errors import SweepwidthError, WitnessError
+from ..errors import InvalidArgumentError, SweepwidthError, WitnessError
 from ..plane import PlaneGraph
 from ._replay import as_result, peak_step, sweep_states
 from ._style import LINES, PALETTE, new_figure, require_matplotlib
@@ -118,14 +118,15 @@ def width_profile(
     result = as_result(result)
     lengths = step_lengths(result, obj, on=on)
     if not lengths:
-        raise SweepwidthError("the witness has no steps to plot")
+        raise InvalidArgumentError("the witness has no steps to plot")
     if ax is None:
         fig = new_figure(figsize, dpi)
         ax = fig.add_axes((0.11, 0.16, 0.86, 0.72))
     x = np.arange(len(lengths))
+    quantity = "cut weight" if result.parameter == "cutwidth" else "length"  # one word for legend, axis and title
     ls, lw = LINES["profile"]
     ax.plot(x, lengths, color=PALETTE["curve"], linestyle=ls, linewidth=lw, marker="o",
-            markersize=3.5 if len(lengths) < 60 else 0, label="length at step", zorder=3)
+            markersize=3.5 if len(lengths) < 60 else 0, label=f"{quantity} at step", zorder=3)
     peak = peak_step(lengths)
     ax.scatter([peak], [lengths[peak]], s=90, marker="*", color=PALETTE["move"], edgecolors=PALETTE["ink"],
                linewidths=0.6, zorder=4, label=f"widest: {lengths[peak]:g} at step {peak}")
@@ -137,7 +138,7 @@ def width_profile(
         ax.axhline(float(val), color=PALETTE[key], linestyle=ls, linewidth=lw, label=f"{name} {float(val):g}",
                    zorder=2)
     ax.set_xlabel("step")
-    ax.set_ylabel("length" if result.parameter != "cutwidth" else "cut weight")
+    ax.set_ylabel(quantity)
     ax.set_xlim(-0.5, len(lengths) - 0.5)
     from matplotlib.ticker import MaxNLocator
 
@@ -150,6 +151,6 @@ def width_profile(
         ax.spines[side].set_visible(False)
     ax.legend(fontsize=7, loc="upper right", frameon=False, ncol=2)
     if title is None:
-        title = f"{result.parameter}: length along the sweep"
+        title = f"{result.parameter}: {quantity} along the " + ("ordering" if result.parameter == "cutwidth" else "sweep")
     ax.set_title(title, fontsize=9.5)
     return ax

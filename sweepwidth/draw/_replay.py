@@ -14,7 +14,7 @@ from typing import Any, Hashable, Mapping, Sequence
 
 import networkx as nx
 
-from ..errors import SweepwidthError, UnsupportedOptionError, WitnessError
+from ..errors import InputTypeError, SweepwidthError, UnsupportedOptionError, WitnessError
 from ..plane import PlaneGraph
 
 __all__ = ["SweepState", "sweep_states", "as_result", "peak_step"]
@@ -90,8 +90,8 @@ def as_result(result: Any) -> Any:
         try:
             return Result.from_dict(result)
         except (KeyError, TypeError, ValueError) as err:
-            raise SweepwidthError(f"not a result dictionary: {err}") from err
-    raise SweepwidthError(f"expected a Result or its to_dict() form, got {type(result).__name__}")
+            raise InputTypeError(f"not a result dictionary: {err}") from err
+    raise InputTypeError(f"expected a Result or its to_dict() form, got {type(result).__name__}")
 
 
 def _plane(obj: Any) -> PlaneGraph:
@@ -99,7 +99,7 @@ def _plane(obj: Any) -> PlaneGraph:
         return obj
     if isinstance(obj, nx.Graph):
         return PlaneGraph.from_graph(obj)
-    raise SweepwidthError(f"expected a PlaneGraph (or a planar networkx graph), got {type(obj).__name__}")
+    raise InputTypeError(f"expected a PlaneGraph (or a planar networkx graph), got {type(obj).__name__}")
 
 
 def _face_boundary(P: PlaneGraph, f: int) -> set[int]:

@@ -14,7 +14,7 @@ from __future__ import annotations
 
 from typing import Any
 
-from ..errors import SweepwidthError
+from ..errors import InvalidArgumentError, SweepwidthError
 
 __all__ = ["PALETTE", "LINES", "SERIES", "require_matplotlib", "new_figure", "lightness"]
 
@@ -85,7 +85,7 @@ def require_matplotlib() -> Any:
         import matplotlib
         from matplotlib.backends.backend_agg import FigureCanvasAgg  # noqa: F401
     except ImportError as err:  # pragma: no cover - depends on the environment
-        raise SweepwidthError(
+        raise InvalidArgumentError(
             "drawing needs matplotlib, which is not installed; install the 'plot' extra: "
             "pip install 'sweepwidth[plot]'"
         ) from err

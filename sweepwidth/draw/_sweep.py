@@ -8,7 +8,7 @@ from typing import Any, Sequence
 
 import numpy as np
 
-from ..errors import SweepwidthError
+from ..errors import InvalidArgumentError, MissingDependencyError, SweepwidthError
 from ..plane import PlaneGraph
 from ._draw import Scene
 from ._layout import Geometry
@@ -255,7 +255,7 @@ def sweep_frames(
         chosen = [int(s) for s in steps]
         bad = [s for s in chosen if not 0 <= s < len(states)]
         if bad:
-            raise SweepwidthError(f"step {bad[0]} is outside 0..{len(states) - 1}")
+            raise InvalidArgumentError(f"step {bad[0]} is outside 0..{len(states) - 1}")
     k = len(chosen)
     geom = Geometry(P)
     pw, ph = _panel_box(geom, panel_size)
@@ -348,10 +348,10 @@ def sweep_animation(
     try:
         from matplotlib.animation import PillowWriter
     except ImportError as err:  # pragma: no cover
-        raise SweepwidthError("GIF output needs Pillow (installed with matplotlib)") from err
+        raise MissingDependencyError("GIF output needs Pillow (installed with matplotlib)") from err
     path = os.fspath(path)
     if not path.lower().endswith(".gif"):
-        raise SweepwidthError(f"an animation is written as .gif, got {path!r}")
+        raise InvalidArgumentError(f"an animation is written as .gif, got {path!r}")
     result = as_result(result)
     P = _plane(P)
     states = sweep_states(P, result, on=on)

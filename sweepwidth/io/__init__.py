@@ -35,12 +35,12 @@ import os
 from typing import Any, Callable
 
 
-from ..errors import FileFormatError, SweepwidthError, UnsupportedOptionError
+from ..errors import FileFormatError, MissingFileError, StorageError, SweepwidthError, UnsupportedOptionError
 from ..plane import PlaneGraph
 from ._common import path_name
 from ._json import dumps, from_document, loads, to_document
 
-__all__ = ["read", "write", "read_all", "dumps", "loads", "to_document", "from_document", "FORMATS", "detect_format"]
+__all__ = ["read", "write", "read_all", "dumps", "loads", "to_document", "from_document", "FORMATS", "detect_format", "lost_in", "DOCUMENTARY"]
 
 #: format name -> file extensions (lower case, with the dot)
 FORMATS: dict[str, tuple[str, ...]] = {
@@ -156,7 +156,7 @@ def _load(path: Any, format: str | None) -> tuple[bytes, str]:
         with open(path, "rb") as fh:
             data = fh.read()
     except FileNotFoundError:
-        raise FileFormatError("no such file", path=path_name(path)) from None
+        raise MissingFileError("no such file", path=path_name(path)) from None
     except IsADirectoryError:
         raise FileFormatError("is a directory, not a file", path=path_name(path)) from None
     except OSError as err:
@@ -291,5 +291,144 @@ def write(obj: Any, path: str | os.PathLike, *, format: str | None = None, **opt
         with open(path, "wb") as fh:
             fh.write(data)
     except OSError as err:
-        raise SweepwidthError(f"{path_name(path)}: cannot be written: {err.strerror}") from err
+        raise StorageError(f"{path_name(path)}: cannot be written: {err.strerror}") from err
 
+
+
+def _edge_key(obj: Any, u: Any, v: Any) -> tuple:
+    a, b = str(u), str(v)
+    return (a, b) if a <= b else (b, a)
+
+
+def _vertex_names(vs: Any) -> list[str]:
+    """Vertex names as text; integers 0..n-1 and 1..n (a format's own numbering) count as the same names."""
+    vs = list(vs)
+    n = len(vs)
+    if all(isinstance(v, int) and not isinstance(v, bool) for v in vs):
+        if sorted(vs) in (list(range(n)), list(range(1, n + 1))):
+            return [f"#{i}" for i in range(n)]
+    return sorted(str(v) for v in vs)
+
+
+#: formats that store an embedding (the others get a new one from a planarity test when read)
+_EMBEDDED = ("json", "planar_code", "off", "obj", "graphml")
+
+
+def _plane_features(P: Any) -> dict[str, Any]:
+    """What a plane graph holds, in comparable form (names as text, edges by their ends)."""
+    edges = [(_edge_key(P, e.u, e.v), float(e.weight)) for e in P.edges]
+    outer = sorted(_edge_key(P, *P.edge_ends(e)) for e in P.face_edges(P.outer_face)) if hasattr(P, "face_edges") else None
+    meta = dict(P.meta or {})
+    return {
+        "vertices": _vertex_names(P.vertices),
+        "labels": sorted(str(v) for v in P.vertices),
+        "weights": sorted(edges),
+        "positions": bool(P.pos),
+        "outer": outer,
+        "faces": P.number_of_faces(),
+        "data": any(P.edge_data(e.id) for e in P.edges),
+        "meta": meta,
+    }
+
+
+#: what describes a graph without changing it (``convert`` warns about these but does not refuse)
+DOCUMENTARY = ("graph name", "provenance", "known values")
+
+#: metadata keys of a plane graph and how a refusal names them
+_META_WORDS = {
+    "name": "graph name",
+    "provenance": "provenance",
+    "known": "known values",
+    "rooms": "face names",
+    "face_names": "face names",
+    "holes": "holes",
+    "curves": "start/end curves",
+}
+
+
+def lost_in(obj: Any, format: str) -> list[str]:
+    """What writing ``obj`` in ``format`` would lose, found by writing it and reading it back.
+
+    Compared: the embedding (rotation system and faces), edge weights,
+    vertex names, vertex positions, the outer face (the hole swept around),
+    edge data and the metadata (name, face names, holes, curves, known
+    values).  An empty list: nothing is lost.
+
+    Raises
+    ------
+    SweepwidthError
+        When the object cannot be written in the format at all.
+
+    Examples
+    --------
+    >>> import sweepwidth as sw
+    >>> from sweepwidth import generators
+    >>> P = generators.triangulated_grid(1).with_weights([2, 1, 1, 1, 1])
+    >>> lost_in(P, "json"), "edge weights" in lost_in(P, "off")
+    ([], True)
+    """
+    from ..plane import PlaneGraph
+
+    if format not in FORMATS:
+        raise UnsupportedOptionError("format", format, list(FORMATS))
+    data = _writer(format)(obj)
+    back = _reader(format)(data, None)[0]
+    lost: list[str] = []
+    if not isinstance(obj, PlaneGraph):
+        import networkx as nx
+
+        if isinstance(back, PlaneGraph):
+            back = back.to_networkx()
+        if _vertex_names(obj.nodes()) != _vertex_names(back.nodes()):
+            lost.append("vertex names")
+        w0 = sorted(float(d.get("weight", 1)) for *_, d in obj.edges(data=True))
+        w1 = sorted(float(d.get("weight", 1)) for *_, d in back.edges(data=True))
+        if w0 != w1:
+            lost.append("edge weights")
+        if any(set(d) - {"weight"} for *_, d in obj.edges(data=True)):
+            if not any(set(d) - {"weight"} for *_, d in back.edges(data=True)):
+                lost.append("edge data")
+        del nx
+        return lost
+    if not isinstance(back, PlaneGraph) or format not in _EMBEDDED:
+        if isinstance(back, PlaneGraph):
+            back = back.to_networkx()
+        lost = ["the embedding (rotation system, faces and outer face)"]
+        if _vertex_names(obj.vertices) != _vertex_names(back.nodes()):
+            lost.append("vertex names")
+        if sorted(float(e.weight) for e in obj.edges) != sorted(float(d.get("weight", 1)) for *_, d in back.edges(data=True)):
+            lost.append("edge weights")
+        if any(obj.edge_data(e.id) for e in obj.edges) and not any(set(d) - {"weight", "id"} for *_, d in back.edges(data=True)):
+            lost.append("edge data")
+        return lost + _lost_plane(_plane_features(obj), None)
+    return _lost_plane(_plane_features(obj), _plane_features(back))
+
+
+def _lost_plane(a: dict, b: dict | None) -> list[str]:
+    lost: list[str] = []
+    if b is None:
+        if a["positions"]:
+            lost.append("vertex positions")
+        for key, word in _META_WORDS.items():
+            if a["meta"].get(key):
+                lost.append(word)
+        return lost
+    if a["vertices"] != b["vertices"]:
+        lost.append("vertex names")
+    names_kept = a["labels"] == b["labels"]  # the same labels: edges and faces can be compared by their ends
+    if sorted(w for _, w in a["weights"]) != sorted(w for _, w in b["weights"]):
+        lost.append("edge weights")
+    elif names_kept and a["weights"] != b["weights"] and len({w for _, w in a["weights"]}) > 1:
+        lost.append("which edge has which weight")
+    if a["faces"] != b["faces"]:
+        lost.append("the embedding (rotation system and faces)")
+    elif (names_kept and a["outer"] != b["outer"]) or len(a["outer"] or ()) != len(b["outer"] or ()):
+        lost.append("the choice of outer face")
+    if a["positions"] and not b["positions"]:
+        lost.append("vertex positions")
+    if a["data"] and not b["data"]:
+        lost.append("edge data")
+    for key, word in _META_WORDS.items():
+        if a["meta"].get(key) and a["meta"].get(key) != b["meta"].get(key) and word not in lost:
+            lost.append(word)
+    return lost

@@ -7,7 +7,7 @@ import math
 import os
 from typing import Any, Hashable, NoReturn
 
-from ..errors import FileFormatError, SweepwidthError
+from ..errors import FileFormatError, InvalidArgumentError, SweepwidthError
 
 __all__ = [
     "MAX_VERTICES",
@@ -70,10 +70,10 @@ def encode_label(v: Hashable, where: str = "vertex label", _depth: int = 0) -> A
     """
     if isinstance(v, tuple):
         if _depth >= MAX_LABEL_DEPTH:
-            raise SweepwidthError(f"{where} nests tuples more than {MAX_LABEL_DEPTH} deep")
+            raise InvalidArgumentError(f"{where} nests tuples more than {MAX_LABEL_DEPTH} deep")
         return [encode_label(x, where, _depth + 1) for x in v]
     if isinstance(v, float) and not math.isfinite(v):
-        raise SweepwidthError(f"{where} {v!r} is not finite and cannot be written to JSON")
+        raise InvalidArgumentError(f"{where} {v!r} is not finite and cannot be written to JSON")
     if isinstance(v, _SCALARS):
         return v
     try:
@@ -85,7 +85,7 @@ def encode_label(v: Hashable, where: str = "vertex label", _depth: int = 0) -> A
             return encode_label(float(v), where)
     except ImportError:  # pragma: no cover
         pass
-    raise SweepwidthError(
+    raise InvalidArgumentError(
         f"{where} {v!r} of type {type(v).__name__} cannot be written; labels must be str, int, float, "
         "bool, None or tuples of these"
     )

@@ -24,7 +24,7 @@ import networkx as nx
 import numpy as np
 
 from .._weights import MAX_TOTAL_WEIGHT, check_weight
-from ..errors import InvalidEmbeddingError, NonPlanarError, SweepwidthError
+from ..errors import InputTypeError, InvalidEmbeddingError, NonPlanarError, SweepwidthError
 from ..plane import PlaneGraph
 from ._common import MAX_EDGES, MAX_VERTICES, fail, located
 
@@ -293,7 +293,7 @@ def write_gr(obj: PlaneGraph | nx.Graph, *, weight_column: bool | None = None, *
         ]
         name = obj.graph.get("name")
     else:
-        raise SweepwidthError(f"cannot write a {type(obj).__name__} as .gr; expected a PlaneGraph or a networkx graph")
+        raise InputTypeError(f"cannot write a {type(obj).__name__} as .gr; expected a PlaneGraph or a networkx graph")
     use_w = any(w != 1 for *_, w in edges) if weight_column is None else bool(weight_column)
     out = ["c written by sweepwidth"]
     if name:

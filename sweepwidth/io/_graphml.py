@@ -31,7 +31,7 @@ from typing import Any
 import networkx as nx
 
 from .._weights import check_weight
-from ..errors import FileFormatError, NonPlanarError, SweepwidthError
+from ..errors import FileFormatError, InputTypeError, NonPlanarError, SweepwidthError
 from ..plane import PlaneGraph
 from ._common import MAX_EDGES, MAX_VERTICES, decode_label, encode_label, fail, located
 
@@ -234,7 +234,7 @@ def write_graphml(obj: PlaneGraph | nx.Graph, **_: Any) -> bytes:
             rest = _scalars({k: x for k, x in d.items() if k != "weight"}, f"edge ({u!r}, {v!r})")
             H.add_edge(f"n{index[u]}", f"n{index[v]}", weight=float(w), **rest)
     else:
-        raise SweepwidthError(f"cannot write a {type(obj).__name__} as GraphML; expected a PlaneGraph or a networkx graph")
+        raise InputTypeError(f"cannot write a {type(obj).__name__} as GraphML; expected a PlaneGraph or a networkx graph")
     buf = io.BytesIO()
     nx.write_graphml(H, buf)
     return buf.getvalue()
@@ -246,5 +246,5 @@ def _scalars(d: dict, where: str) -> dict:
         if isinstance(x, (str, int, float, bool)):
             out[str(k)] = x
         else:
-            raise SweepwidthError(f"attribute {k!r} of {where} is a {type(x).__name__}; GraphML holds strings and numbers")
+            raise InputTypeError(f"attribute {k!r} of {where} is a {type(x).__name__}; GraphML holds strings and numbers")
     return out

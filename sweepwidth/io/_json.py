@@ -27,7 +27,7 @@ import networkx as nx
 import numpy as np
 
 from .._weights import check_weight
-from ..errors import FileFormatError, InvalidCurveError, InvalidEmbeddingError, SweepwidthError
+from ..errors import FileFormatError, InputTypeError, InvalidArgumentError, InvalidCurveError, InvalidEmbeddingError, SweepwidthError
 from ..plane import PlaneGraph
 from ._common import MAX_EDGES, MAX_VERTICES, decode_label, encode_label, fail, located
 
@@ -50,7 +50,7 @@ def _jsonable(value: Any, where: str) -> Any:
     try:
         json.dumps(value, allow_nan=False)
     except (TypeError, ValueError) as err:
-        raise SweepwidthError(f"{where} cannot be written to JSON: {err}") from err
+        raise InvalidArgumentError(f"{where} cannot be written to JSON: {err}") from err
     return value
 
 
@@ -60,11 +60,11 @@ def _dart(d: int) -> list[int]:
 
 def _curve_out(P: PlaneGraph, name: str, c: Any) -> dict:
     if not isinstance(c, Mapping):
-        raise SweepwidthError(f"curve {name!r} in meta must be a dict with 'vertex' and 'darts', or 'edges'")
+        raise InvalidArgumentError(f"curve {name!r} in meta must be a dict with 'vertex' and 'darts', or 'edges'")
     if "edges" in c:
         return {"edges": [int(e) for e in c["edges"]]}
     if "vertex" not in c or "darts" not in c:
-        raise SweepwidthError(f"curve {name!r} in meta needs 'vertex' and 'darts', or 'edges'")
+        raise InvalidArgumentError(f"curve {name!r} in meta needs 'vertex' and 'darts', or 'edges'")
     return {"vertex": encode_label(c["vertex"], f"vertex of curve {name!r}"), "darts": [_dart(d) for d in c["darts"]]}
 
 
@@ -100,7 +100,7 @@ def to_document(obj: PlaneGraph | nx.Graph) -> dict:
         return _plane_document(obj)
     if isinstance(obj, nx.Graph):
         return _graph_document(obj)
-    raise SweepwidthError(f"cannot write a {type(obj).__name__}; expected a PlaneGraph or a networkx graph")
+    raise InputTypeError(f"cannot write a {type(obj).__name__}; expected a PlaneGraph or a networkx graph")
 
 
 def _plane_document(P: PlaneGraph) -> dict:
@@ -139,7 +139,7 @@ def _plane_document(P: PlaneGraph) -> dict:
         for f in meta["holes"]:
             darts = P.face_darts(int(f))
             if not darts:
-                raise SweepwidthError(f"hole {f!r} is a face without boundary darts")
+                raise InvalidArgumentError(f"hole {f!r} is a face without boundary darts")
             holes.append(_dart(darts[0]))
         doc["holes"] = holes
     if meta.get("known"):
@@ -152,7 +152,7 @@ def _plane_document(P: PlaneGraph) -> dict:
 
 def _graph_document(G: nx.Graph) -> dict:
     if G.is_directed():
-        raise SweepwidthError("directed graphs are not supported; pass G.to_undirected()")
+        raise InvalidArgumentError("directed graphs are not supported; pass G.to_undirected()")
     doc: dict[str, Any] = {"format": GRAPH_FORMAT, "version": VERSION}
     name = G.graph.get("name")
     if name:

@@ -42,7 +42,7 @@ from typing import Any
 
 import numpy as np
 
-from ..errors import InvalidEmbeddingError, SweepwidthError
+from ..errors import InputTypeError, InvalidArgumentError, InvalidEmbeddingError, SweepwidthError
 from ..plane import PlaneGraph
 from ._common import MAX_EDGES, MAX_VERTICES, fail, located
 
@@ -116,7 +116,7 @@ def read_mesh(data: bytes, fmt: str, *, path: Any = None, outer: int | None = No
     elif fmt == "obj":
         xyz, faces, lines, base = _parse_obj(L, path)
     else:  # pragma: no cover - dispatch guarantees the name
-        raise SweepwidthError(f"unknown mesh format {fmt!r}")
+        raise InvalidArgumentError(f"unknown mesh format {fmt!r}")
     nv = len(xyz)
     if not faces:
         fail("the mesh has no faces", path=path)
@@ -304,19 +304,19 @@ def write_mesh(P: PlaneGraph, fmt: str, **_: Any) -> bytes:
     ['OFF', '# written by sweepwidth', '# @no-positions']
     """
     if not isinstance(P, PlaneGraph):
-        raise SweepwidthError(f"cannot write a {type(P).__name__} as a mesh; expected a PlaneGraph")
+        raise InputTypeError(f"cannot write a {type(P).__name__} as a mesh; expected a PlaneGraph")
     seen: set[tuple[int, int]] = set()
     for e in P.edges:
         iu, iv = P.index(e.u), P.index(e.v)
         if iu == iv:
-            raise SweepwidthError(f"edge {e.id} is a loop at {e.u!r}; OFF and OBJ cannot hold loops")
+            raise InvalidArgumentError(f"edge {e.id} is a loop at {e.u!r}; OFF and OBJ cannot hold loops")
         key = (min(iu, iv), max(iu, iv))
         if key in seen:
-            raise SweepwidthError(f"edge {e.id} is parallel to another edge; OFF and OBJ cannot hold parallel edges")
+            raise InvalidArgumentError(f"edge {e.id} is parallel to another edge; OFF and OBJ cannot hold parallel edges")
         seen.add(key)
     n = P.number_of_vertices()
     if P.number_of_edges() == 0:
-        raise SweepwidthError("a plane graph without edges has no face boundary to write as a mesh")
+        raise InvalidArgumentError("a plane graph without edges has no face boundary to write as a mesh")
     walks = {f: [P.tail_index(d) for d in P.face_darts(f)] for f in P.faces}
     ow = walks[P.outer_face]
     simple_outer = len(ow) >= 3 and len(set(ow)) == len(ow)
@@ -327,7 +327,7 @@ def write_mesh(P: PlaneGraph, fmt: str, **_: Any) -> bytes:
         order = list(P.faces)
         outer_k = order.index(P.outer_face)
     if not order:  # pragma: no cover - a simple outer cycle always leaves an inner face
-        raise SweepwidthError("no face to write")
+        raise InvalidArgumentError("no face to write")
     head = ["# written by sweepwidth"]
     if P.pos is None:
         head.append("# @no-positions")
@@ -346,7 +346,7 @@ def write_mesh(P: PlaneGraph, fmt: str, **_: Any) -> bytes:
         out = head + [f"v {_c(x)} {_c(y)} 0" for x, y in xy]
         out += ["f " + " ".join(str(i + 1) for i in walks[f]) for f in order]
     else:
-        raise SweepwidthError(f"unknown mesh format {fmt!r}")
+        raise InvalidArgumentError(f"unknown mesh format {fmt!r}")
     return ("\n".join(out) + "\n").encode("utf-8")
 
 

@@ -30,7 +30,7 @@ from __future__ import annotations
 
 from typing import Any, Literal, Sequence, cast
 
-from ..errors import InvalidEmbeddingError, SweepwidthError
+from ..errors import InputTypeError, InvalidArgumentError, InvalidEmbeddingError, SweepwidthError
 from ..plane import PlaneGraph
 from ._common import fail, located
 
@@ -202,10 +202,10 @@ def write_planar_code(
     import networkx as nx
 
     if isinstance(obj, nx.Graph):
-        raise SweepwidthError("planar_code holds plane graphs; build one first with PlaneGraph.from_graph(G)")
+        raise InvalidArgumentError("planar_code holds plane graphs; build one first with PlaneGraph.from_graph(G)")
     graphs = [obj] if isinstance(obj, PlaneGraph) else list(obj)
     if not graphs:
-        raise SweepwidthError("planar_code needs at least one graph to write")
+        raise InvalidArgumentError("planar_code needs at least one graph to write")
     if endian not in (None, "little", "big"):
         from ..errors import UnsupportedOptionError
 
@@ -215,10 +215,10 @@ def write_planar_code(
     any_wide = False
     for k, P in enumerate(graphs):
         if not isinstance(P, PlaneGraph):
-            raise SweepwidthError(f"item {k} is a {type(P).__name__}; planar_code holds PlaneGraphs")
+            raise InputTypeError(f"item {k} is a {type(P).__name__}; planar_code holds PlaneGraphs")
         n = P.number_of_vertices()
         if n > 65535:
-            raise SweepwidthError(f"graph {k} has {n} vertices; planar_code holds at most 65535")
+            raise InvalidArgumentError(f"graph {k} has {n} vertices; planar_code holds at most 65535")
         use_wide = bool(wide) or n >= 256
         any_wide |= use_wide
         out = bytearray()
@@ -227,9 +227,9 @@ def write_planar_code(
             v = P.label(i)
             nbrs = [P.head_index(d) + 1 for d in P.darts_at(v)]
             if i + 1 in nbrs:
-                raise SweepwidthError(f"graph {k} has a loop at {v!r}; planar_code cannot hold loops")
+                raise InvalidArgumentError(f"graph {k} has a loop at {v!r}; planar_code cannot hold loops")
             if len(set(nbrs)) != len(nbrs):
-                raise SweepwidthError(
+                raise InvalidArgumentError(
                     f"graph {k} has parallel edges at {v!r}; planar_code cannot hold parallel edges"
                 )
             seq = nbrs if mirror else ([nbrs[0]] + nbrs[1:][::-1] if nbrs else [])

@@ -43,7 +43,7 @@ import math
 import os
 from typing import Any, Mapping
 
-from ..errors import FileFormatError
+from ..errors import FileFormatError, MissingFileError
 
 __all__ = [
     "SAVED_FORMAT",
@@ -56,6 +56,7 @@ __all__ = [
     "digest_matches",
     "instance_candidates",
     "load_result",
+    "validated_result",
 ]
 
 SAVED_FORMAT = "sweepwidth-saved-result"
@@ -164,6 +165,8 @@ def read_saved(path: str) -> dict:
     try:
         with open(path, "r", encoding="utf-8") as fh:
             doc = json.load(fh)
+    except FileNotFoundError:
+        raise MissingFileError("no such file", path=path) from None
     except OSError as err:
         raise FileFormatError(f"cannot be read: {err.strerror}", path=path) from err
     except json.JSONDecodeError as err:
@@ -206,6 +209,8 @@ def load_result(path: str | os.PathLike) -> Any:
     try:
         with open(path, encoding="utf-8") as fh:
             doc = json.load(fh)
+    except FileNotFoundError:
+        raise MissingFileError("no such file", path=path) from None
     except OSError as err:
         raise FileFormatError(f"cannot read the result file: {err.strerror or err}", path=path) from err
     except json.JSONDecodeError as err:
@@ -219,3 +224,90 @@ def load_result(path: str | os.PathLike) -> Any:
         return Result.from_dict(body)
     except (KeyError, TypeError, ValueError) as err:
         raise FileFormatError(f"not a valid result: {err}", path=path) from err
+
+
+_STATUSES = ("optimal", "bounded", "infeasible")
+_EPS = 1e-9
+
+
+def _bound(body: Mapping[str, Any], key: str, path: str | None) -> float | None:
+    x = body.get(key)
+    if x is None:
+        return None
+    if x in ("inf", "-inf"):
+        return math.inf if x == "inf" else -math.inf
+    if isinstance(x, bool) or not isinstance(x, (int, float)):
+        raise FileFormatError(f"the result's {key!r} is {x!r}, not a number", path=path)
+    if math.isnan(x):
+        raise FileFormatError(f"the result's {key!r} is NaN, not a number", path=path)
+    return float(x)
+
+
+def validated_result(doc: Mapping[str, Any], path: str | None = None) -> Any:
+    """The Result of a saved document, after checking that its fields make sense.
+
+    Checks: ``parameter`` is a parameter of the library, ``status`` is
+    'optimal', 'bounded' or 'infeasible', the bounds are numbers (not NaN),
+    ``lower <= upper``, an 'optimal' result has equal bounds and its value,
+    and a feasible result has both bounds.
+
+    Raises
+    ------
+    FileFormatError
+        Naming the first field at fault.
+
+    Examples
+    --------
+    >>> doc = {"result": {"parameter": "cutwidth", "status": "optimal", "value": 2, "lower": 2, "upper": 2}}
+    >>> validated_result(doc).value
+    2.0
+    >>> validated_result({"result": {"parameter": "cutwidth", "status": "optimal", "lower": 3, "upper": 2}})
+    Traceback (most recent call last):
+    ...
+    sweepwidth.errors.FileFormatError: the result's lower bound 3 is above its upper bound 2
+    """
+    from ..registry import PARAMETERS
+    from ..result import Result
+
+    body = doc.get("result")
+    if not isinstance(body, Mapping):
+        raise FileFormatError("the saved result has no 'result' object", path=path)
+    for key in ("parameter", "status"):
+        if key not in body:
+            raise FileFormatError(f"the result has no {key!r} field", path=path)
+    param, status = body["parameter"], body["status"]
+    if not isinstance(param, str) or param not in PARAMETERS:
+        raise FileFormatError(f"the result's parameter {param!r} is none of {', '.join(PARAMETERS)}", path=path)
+    if status not in _STATUSES:
+        raise FileFormatError(f"the result's status {status!r} is none of {', '.join(_STATUSES)}", path=path)
+    lower, upper, value = (_bound(body, k, path) for k in ("lower", "upper", "value"))
+    if status != "infeasible":
+        for key, x in (("lower", lower), ("upper", upper)):
+            if x is None:
+                raise FileFormatError(f"the {status} result has no {key!r} bound", path=path)
+        assert lower is not None and upper is not None
+        if lower > upper + _EPS:
+            raise FileFormatError(f"the result's lower bound {lower:g} is above its upper bound {upper:g}", path=path)
+        if status == "optimal":
+            if upper - lower > _EPS * max(1.0, abs(upper)):
+                raise FileFormatError(f"the result says 'optimal' but its bounds differ: [{lower:g}, {upper:g}]", path=path)
+            if value is not None and abs(value - upper) > _EPS * max(1.0, abs(upper)):
+                raise FileFormatError(f"the result says 'optimal' with value {value:g} but bounds [{lower:g}, {upper:g}]", path=path)
+    for key in ("witness", "stats"):
+        if key in body and body[key] is not None and not isinstance(body[key], (list, dict)):
+            raise FileFormatError(f"the result's {key!r} is {type(body[key]).__name__}, not a list or object", path=path)
+    try:
+        seconds = float(body.get("seconds", 0.0))
+    except (TypeError, ValueError):
+        raise FileFormatError(f"the result's 'seconds' is {body.get('seconds')!r}, not a number", path=path) from None
+    return Result(
+        parameter=param,
+        status=status,
+        value=value,
+        lower=lower,
+        upper=upper,
+        witness=body.get("witness"),
+        method=str(body.get("method") or ""),
+        seconds=seconds,
+        stats=dict(body.get("stats") or {}),
+    )

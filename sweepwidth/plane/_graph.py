@@ -24,7 +24,7 @@ import networkx as nx
 import numpy as np
 
 from .._weights import check_total, check_weight, check_weight_array, weight_function
-from ..errors import InvalidEmbeddingError, NonPlanarError, SweepwidthError
+from ..errors import InputTypeError, InvalidEmbeddingError, NonPlanarError, NotInGraphError, SweepwidthError
 from . import _arrays
 
 __all__ = ["PlaneGraph", "Edge"]
@@ -440,7 +440,7 @@ class PlaneGraph:
         try:
             return self._index[v]
         except (KeyError, TypeError):
-            raise SweepwidthError(f"{v!r} is not a vertex of this plane graph") from None
+            raise NotInGraphError(f"{v!r} is not a vertex of this plane graph") from None
 
     def label(self, i: int) -> Hashable:
         return self._labels[i]
@@ -503,7 +503,7 @@ class PlaneGraph:
         for d in self._out[iu]:
             if self.head_index(d) == iv:
                 return d
-        raise SweepwidthError(f"no edge joins {u!r} and {v!r}")
+        raise NotInGraphError(f"no edge joins {u!r} and {v!r}")
 
     def darts_between(self, u: Hashable, v: Hashable) -> list[int]:
         iu, iv = self.index(u), self.index(v)
@@ -534,12 +534,12 @@ class PlaneGraph:
     def edge_faces(self, e: int) -> tuple[int, int]:
         """``(left, right)``: the faces on the left of dart ``2e`` and of dart ``2e + 1``."""
         if not 0 <= e < len(self._eu):
-            raise SweepwidthError(f"edge id {e} does not exist (0..{len(self._eu) - 1})")
+            raise NotInGraphError(f"edge id {e} does not exist (0..{len(self._eu) - 1})")
         return self._dface[2 * e], self._dface[2 * e + 1]
 
     def _check_face(self, f: int) -> None:
         if not (isinstance(f, (int, np.integer)) and 0 <= f < len(self._faces)):
-            raise SweepwidthError(f"face id {f!r} does not exist (0..{len(self._faces) - 1})")
+            raise NotInGraphError(f"face id {f!r} does not exist (0..{len(self._faces) - 1})")
 
     def face_boundary_cycle(self, f: int) -> frozenset[int]:
         """The Z2 boundary of face ``f``: edges appearing an odd number of times on its walk."""
@@ -1045,7 +1045,7 @@ class PlaneGraph:
         sweepwidth.errors.NonPlanarError: graph is not planar: a Kuratowski subgraph has 10 edges ...
         """
         if not isinstance(G, nx.Graph):
-            raise SweepwidthError(f"expected a networkx graph, got {type(G).__name__}")
+            raise InputTypeError(f"expected a networkx graph, got {type(G).__name__}")
         if G.number_of_nodes() == 0:
             raise InvalidEmbeddingError("a plane graph needs at least one vertex")
         if not nx.is_connected(G.to_undirected() if G.is_directed() else G):
@@ -1370,7 +1370,7 @@ class PlaneGraph:
         from ._geometry import drawing_rotation
 
         if not isinstance(G, nx.Graph):
-            raise SweepwidthError(f"expected a networkx graph, got {type(G).__name__}")
+            raise InputTypeError(f"expected a networkx graph, got {type(G).__name__}")
         if pos is None:
             pos = {}
             for v, d in G.nodes(data=True):

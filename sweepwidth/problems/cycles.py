@@ -45,7 +45,7 @@ from collections import deque
 from dataclasses import dataclass
 from typing import Any, Hashable, Iterable, Mapping, Sequence
 
-from ..errors import InvalidCurveError, SweepwidthError
+from ..errors import InputTypeError, InvalidArgumentError, InvalidCurveError, NotInGraphError, SweepwidthError
 
 __all__ = [
     "cycle_edges",
@@ -61,7 +61,7 @@ __all__ = [
 
 def _plane(P: Any) -> None:
     if not (hasattr(P, "face_darts") and hasattr(P, "edge_faces") and hasattr(P, "outer_face")):
-        raise SweepwidthError(f"expected a PlaneGraph, got {type(P).__name__}")
+        raise InputTypeError(f"expected a PlaneGraph, got {type(P).__name__}")
 
 
 def _is_int(x: Any) -> bool:
@@ -350,7 +350,7 @@ def parse_holes(P: Any, holes: Any) -> frozenset[int]:
     out = set()
     for h in holes:
         if not _is_int(h) or not 0 <= int(h) < F:
-            raise SweepwidthError(f"hole {h!r} is not a face id (face ids are 0..{F - 1})")
+            raise NotInGraphError(f"hole {h!r} is not a face id (face ids are 0..{F - 1})")
         out.add(int(h))
     return frozenset(out)
 
@@ -645,7 +645,7 @@ class FaceSweep:
         try:
             return [loc[int(f)] for f in faces]
         except KeyError as err:
-            raise SweepwidthError(f"face {err.args[0]} is not a free face of this sweep") from None
+            raise NotInGraphError(f"face {err.args[0]} is not a free face of this sweep") from None
 
     def weight_of(self, toggled: Iterable[int]) -> float:
         """Weight of ``c0 + dT`` for the face ids ``T`` (each toggled once)."""
@@ -695,7 +695,7 @@ class FaceSweep:
         import networkx as nx
 
         if not drop_anti and not self.nested:
-            raise SweepwidthError("a crossing sweep (anti pairs) is not an ordering problem; use drop_anti=True")
+            raise InvalidArgumentError("a crossing sweep (anti pairs) is not an ordering problem; use drop_anti=True")
         first: Hashable = ("pin", "first")
         last: Hashable = ("pin", "last")
         G = nx.Graph()

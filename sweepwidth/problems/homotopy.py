@@ -68,7 +68,7 @@ from __future__ import annotations
 from dataclasses import dataclass, field
 from typing import Any, Iterable, Mapping, NamedTuple, Sequence, cast
 
-from ..errors import InvalidCurveError, SweepwidthError, UnsupportedOptionError
+from ..errors import InvalidArgumentError, InvalidCurveError, NotInGraphError, SweepwidthError, UnsupportedOptionError
 
 __all__ = [
     "Curve",
@@ -367,7 +367,7 @@ class HomotopyProblem:
             raise UnsupportedOptionError("length", length, list(LENGTHS))
         for name, val in (("spikes", spikes), ("simple", simple), ("monotone", monotone)):
             if not isinstance(val, bool):
-                raise SweepwidthError(f"option {name} must be True or False, got {val!r}")
+                raise InvalidArgumentError(f"option {name} must be True or False, got {val!r}")
         F = P.number_of_faces()
         if holes is None:
             hole_set = frozenset({P.outer_face})
@@ -377,7 +377,7 @@ class HomotopyProblem:
             hs = []
             for h in holes:
                 if isinstance(h, bool) or not isinstance(h, int) or not 0 <= h < F:
-                    raise SweepwidthError(f"hole {h!r} is not a face id in 0..{F - 1}")
+                    raise NotInGraphError(f"hole {h!r} is not a face id in 0..{F - 1}")
                 hs.append(int(h))
             hole_set = frozenset(hs)
         m = P.number_of_edges()

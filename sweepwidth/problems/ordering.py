@@ -28,7 +28,7 @@ import scipy.sparse  # noqa: F401 - imported up front: its first import costs ~1
 import scipy.sparse.csgraph  # noqa: F401
 
 from .._weights import check_total, check_weight, weight_function
-from ..errors import SweepwidthError, UnsupportedOptionError
+from ..errors import InputTypeError, InvalidArgumentError, NotInGraphError, SweepwidthError, UnsupportedOptionError
 
 __all__ = ["OrderingProblem", "PinContraction"]
 
@@ -41,7 +41,7 @@ def _as_set(x: Any, G: nx.Graph, what: str) -> frozenset:
     out = []
     for v in x:
         if v not in G:
-            raise SweepwidthError(f"{what} vertex {v!r} is not a node of the graph")
+            raise NotInGraphError(f"{what} vertex {v!r} is not a node of the graph")
         out.append(v)
     return frozenset(out)
 
@@ -111,7 +111,7 @@ class OrderingProblem:
         if hasattr(G, "to_networkx") and not isinstance(G, nx.Graph):
             G = G.to_networkx()
         if not isinstance(G, nx.Graph):
-            raise SweepwidthError(f"expected a networkx graph or a PlaneGraph, got {type(G).__name__}")
+            raise InputTypeError(f"expected a networkx graph or a PlaneGraph, got {type(G).__name__}")
         if G.is_directed():
             # every arc is an edge (u -> v and v -> u both cross the cuts between them)
             M = nx.MultiGraph()
@@ -137,7 +137,7 @@ class OrderingProblem:
         L = _as_set(last, G, "last")
         if F & L:
             both = sorted(map(repr, F & L))
-            raise SweepwidthError(f"vertices {', '.join(both)} are pinned both first and last")
+            raise InvalidArgumentError(f"vertices {', '.join(both)} are pinned both first and last")
         keys = sorted(acc)
         edges = np.array(keys, dtype=np.int64).reshape(-1, 2)
         weights = np.array([acc[k] for k in keys], dtype=np.float64)

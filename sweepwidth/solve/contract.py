@@ -29,6 +29,8 @@ This module imports no solver, so every room may import it without a cycle.
 
 from __future__ import annotations
 
+from ..tables import plain
+
 import decimal
 import math
 import numbers
@@ -54,6 +56,8 @@ from ..result import Result
 
 __all__ = [
     "MARGIN",
+    "method_label",
+    "reject_unknown_keywords",
     "die_with_parent",
     "isolated_context",
     "Deadline",
@@ -104,7 +108,7 @@ def check_time_limit(time_limit: Any) -> float | None:
         except (TypeError, ValueError, OverflowError):  # pragma: no cover - exotic Real subclasses
             ok = False
     if not ok or math.isnan(value) or value < 0:
-        raise InvalidArgumentError(f"time_limit must be a real number of seconds >= 0 or None, got {time_limit!r}")
+        raise InvalidArgumentError(f"time_limit must be a real number of seconds >= 0 or None, got {plain(time_limit)}")
     return None if math.isinf(value) else value
 
 
@@ -181,7 +185,7 @@ def check_seed(seed: Any) -> int | None:
     if seed is None:
         return None
     if isinstance(seed, bool) or not isinstance(seed, numbers.Integral) or int(seed) < 0:
-        raise InvalidArgumentError(f"seed must be a non-negative integer or None, got {seed!r}")
+        raise InvalidArgumentError(f"seed must be a non-negative integer or None, got {plain(seed)}")
     return int(seed)
 
 
@@ -224,6 +228,45 @@ def resolve_weight(parameter: str, weight: Any, *, length: Any = _UNSET, allowed
 
 
 # ------------------------------------------------------------------ results
+def method_label(requested: str, used: str) -> str:
+    """``result.method``: what ran, as ``auto:NAME`` when ``method='auto'`` chose it.
+
+    Examples
+    --------
+    >>> method_label("auto", "subset-dp"), method_label("bounds", "bounds"), method_label("auto", "auto:dp")
+    ('auto:subset-dp', 'bounds', 'auto:dp')
+    """
+    if requested == "auto" and not str(used).startswith("auto"):
+        return f"auto:{used}"
+    return used
+
+
+def reject_unknown_keywords(fn: Any) -> Any:
+    """Wrap a public solver so that an unknown keyword raises UnsupportedOptionError listing the valid ones.
+
+    Functions with ``**options`` check their options themselves; this guards
+    the fixed keyword lists (a bare TypeError otherwise).
+    """
+    import functools
+    import inspect
+
+    sig = inspect.signature(fn)
+    if any(p.kind is inspect.Parameter.VAR_KEYWORD for p in sig.parameters.values()):
+        return fn
+    valid = [n for n, p in sig.parameters.items() if p.kind is inspect.Parameter.KEYWORD_ONLY]
+
+    @functools.wraps(fn)
+    def checked(*args: Any, **kwargs: Any) -> Any:
+        for k in kwargs:
+            if k not in valid:
+                from ..errors import UnsupportedOptionError
+
+                raise UnsupportedOptionError(f"keyword of {fn.__name__}()", k, valid)
+        return fn(*args, **kwargs)
+
+    return checked
+
+
 def make_result(
     parameter_name: str,
     *,

@@ -11,7 +11,7 @@ from __future__ import annotations
 import math
 from typing import Any, Iterable
 
-from ..errors import SweepwidthError, WitnessError
+from ..errors import InputTypeError, SweepwidthError, WitnessError
 from . import register_checker
 
 __all__ = ["sweep_profile", "check_homology"]
@@ -124,7 +124,7 @@ def check_homology(result: Any, P: Any, **options: Any) -> float:
     end_spec = options.pop("end", stats.get("end"))
     holes_spec = options.pop("holes", stats.get("holes"))
     if options:
-        raise SweepwidthError(f"unknown checker option(s) {sorted(options)}; valid: start, end, holes, tol")
+        raise InputTypeError(f"unknown checker option(s) {sorted(options)}; valid: start, end, holes, tol")
     if not (hasattr(P, "face_darts") and hasattr(P, "outer_face")):
         raise WitnessError(f"a homology result is checked against a PlaneGraph, got {type(P).__name__}")
     closed = not stats.get("paths", False)

@@ -28,7 +28,7 @@ from __future__ import annotations
 
 from typing import Any, Mapping, Sequence
 
-from ..errors import SweepwidthError, WitnessError
+from ..errors import InvalidArgumentError, SweepwidthError, WitnessError
 from . import register_checker
 
 __all__ = ["replay_homotopy", "check_homotopy"]
@@ -248,7 +248,7 @@ def replay_homotopy(
     sweepwidth.errors.WitnessError: the homotopy ends at a walk of 4 darts, not at the point 0
     """
     if length not in ("weight", "vertices"):
-        raise SweepwidthError(f"unknown length convention {length!r}; valid: 'weight', 'vertices'")
+        raise InvalidArgumentError(f"unknown length convention {length!r}; valid: 'weight', 'vertices'")
     if not isinstance(witness, Mapping) or "start" not in witness or "moves" not in witness:
         raise WitnessError("a homotopy witness is {'start': walk, 'moves': [...]}")
     hole_set = {P.outer_face} if holes is None else {int(h) for h in holes}
@@ -385,7 +385,7 @@ def check_homotopy(result: Any, obj: Any, **options: Any) -> float:
     valid = ("start", "end", "closed", "holes", "spikes", "simple", "monotone", "length", "s", "t")
     unknown = sorted(set(options) - set(valid))
     if unknown:
-        raise SweepwidthError(f"unknown checker option(s) {unknown}; valid: {', '.join(valid)}, tol")
+        raise InvalidArgumentError(f"unknown checker option(s) {unknown}; valid: {', '.join(valid)}, tol")
     kw = {k: recorded[k] for k in valid if k in recorded}
     kw.update(options)
     if result.witness is None:

@@ -13,7 +13,7 @@ from typing import Any, Callable, Hashable, Sequence
 
 import networkx as nx
 
-from ..errors import SweepwidthError, WitnessError
+from ..errors import InvalidArgumentError, SweepwidthError, WitnessError
 from . import register_checker
 
 __all__ = ["ordering_width", "ordering_cuts", "check_cutwidth"]
@@ -211,9 +211,9 @@ def check_cutwidth(result: Any, G: Any, **options: Any) -> float:
     weight = options.pop("weight", recorded.get("weight", "weight"))
     tol = float(options.pop("tol", 1e-9))
     if options:
-        raise SweepwidthError(f"unknown checker option(s) {sorted(options)}; valid: first, last, weight, tol")
+        raise InvalidArgumentError(f"unknown checker option(s) {sorted(options)}; valid: first, last, weight, tol")
     if weight == "<callable>":
-        raise SweepwidthError("the result was computed with a weight function; pass it again: result.check(G, weight=fn)")
+        raise InvalidArgumentError("the result was computed with a weight function; pass it again: result.check(G, weight=fn)")
     if result.witness is None:
         raise WitnessError("result has no witness ordering to check")
     G = _graph(G)

@@ -44,9 +44,9 @@ Methods
 -------
 =============  ============================================================
 'auto'         per swept set: nothing to sweep -> trivial; nested with at
-               most ``dp_limit`` (16) faces -> 'subset-dp'; nested -> 'cutwidth';
+               most ``dp_limit`` (16) faces -> 'subset-dp'; nested -> 'dual-cutwidth';
                crossing and the subset tables fit the memory and time ->
-               'subset-dp'; crossing otherwise -> 'cutwidth' (bounded).
+               'subset-dp'; crossing otherwise -> 'dual-cutwidth' (bounded).
                ``monotone=False`` -> 'face-sets'.
 'cutwidth'     the reduction to pinned cutwidth, solved by
                :func:`sweepwidth.cutwidth` (the cutwidth engine) under the
@@ -85,10 +85,10 @@ import numbers
 import time
 from typing import Any, Callable
 
-from ...errors import ProblemTooLargeError, SweepwidthError, UnsupportedOptionError
+from ...errors import InvalidArgumentError, ProblemTooLargeError, SweepwidthError, UnsupportedOptionError
 from ...problems.cycles import FaceSweep, HomologyProblem, bounded_face_sets, cycle_weight
 from ...result import Result
-from ..contract import Deadline, builtin_names, check_seed, get_method, make_result, methods, resolve_weight
+from ..contract import Deadline, builtin_names, check_seed, get_method, make_result, method_label, methods, resolve_weight
 from .face_sets import (
     MAX_MONOTONE_FACES,
     MAX_TABLE_BYTES,
@@ -131,19 +131,19 @@ def _validate(method: Any, monotone: Any, options: dict) -> None:
     if entry.function is not None:
         return  # an added method checks its own options
     if not isinstance(monotone, bool):
-        raise SweepwidthError(f"monotone must be True or False, got {monotone!r}")
+        raise InvalidArgumentError(f"monotone must be True or False, got {monotone!r}")
     for k in options:
         if k not in OPTIONS:
             raise UnsupportedOptionError("homology_width option", k, sorted(OPTIONS))
     if not monotone and method not in ("auto", "face-sets"):
-        raise SweepwidthError(
+        raise InvalidArgumentError(
             f"method {method!r} sweeps each face once; use method='face-sets' (or 'auto') with monotone=False"
         )
     for k in ("dp_limit", "max_faces"):
         if k in options:
             v = options[k]
             if isinstance(v, bool) or not isinstance(v, numbers.Integral) or v < 0:
-                raise SweepwidthError(f"{k} must be a non-negative integer, got {v!r}")
+                raise InvalidArgumentError(f"{k} must be a non-negative integer, got {v!r}")
 
 
 class _Outcome:
@@ -170,12 +170,12 @@ def _by_cutwidth(fs: FaceSweep, deadline: float | None, seed: int | None, floor:
     if left <= 0.05:
         info["bounds"] = {"lower": "weights of start and end", "upper": "greedy sweep"}
         info["cutwidth"] = "skipped: no time left"
-        return _Outcome(floor, gw, gorder, "cutwidth", info)
+        return _Outcome(floor, gw, gorder, "dual-cutwidth", info)
     G, first, last = fs.ordering_graph(drop_anti=not nested)
     up_how = "greedy sweep"
     if gw <= floor + _EPS * max(1.0, floor):
         info["bounds"] = {"lower": "weights of start and end", "upper": "greedy sweep (meets the lower bound)"}
-        return _Outcome(floor, gw, gorder, "cutwidth", info)
+        return _Outcome(floor, gw, gorder, "dual-cutwidth", info)
     kw = {"weight": "weight", "seed": seed, "method": options.get("cutwidth_method", "auto")}
     r = _run_engine(G, first, last, kw, deadline, info)
     if r is None:
@@ -185,7 +185,7 @@ def _by_cutwidth(fs: FaceSweep, deadline: float | None, seed: int | None, floor:
             "lower": "degree/pin bounds of the pinned reduction + constant" + ("" if nested else " (relaxed)"),
             "upper": up_how,
         }
-        return _Outcome(max(floor, fs.const + lb), gw, gorder, "cutwidth", info)
+        return _Outcome(max(floor, fs.const + lb), gw, gorder, "dual-cutwidth", info)
     order = [v for v in r.witness if v != first and v != last]
     prof = fs.profile(order)
     width = max(prof)
@@ -222,7 +222,7 @@ def _by_cutwidth(fs: FaceSweep, deadline: float | None, seed: int | None, floor:
     else:
         low_how = "weights of start and end"
     info["bounds"] = {"lower": low_how, "upper": up_how}
-    return _Outcome(lower, width, order, "cutwidth", info)
+    return _Outcome(lower, width, order, "dual-cutwidth", info)
 
 
 def _run_engine(G: Any, first: Any, last: Any, kw: dict, deadline: float | None, info: dict) -> Result | None:
@@ -311,12 +311,12 @@ def _solve_swept(
         if fs.nested and k <= dp_limit and fits:
             method, auto = "subset-dp", {"choice": "subset-dp", "reason": f"nested sweep of {k} faces (<= {dp_limit})"}
         elif fs.nested:
-            method, auto = "cutwidth", {"choice": "cutwidth", "reason": f"nested sweep of {k} faces: pinned cutwidth of the dual"}
+            method, auto = "dual-cutwidth", {"choice": "dual-cutwidth", "reason": f"nested sweep of {k} faces: pinned cutwidth of the dual"}
         elif fits:
             method, auto = "subset-dp", {"choice": "subset-dp", "reason": f"crossing sweep of {k} faces: exact subset DP fits"}
         else:
-            method, auto = "cutwidth", {
-                "choice": "cutwidth",
+            method, auto = "dual-cutwidth", {
+                "choice": "dual-cutwidth",
                 "reason": f"crossing sweep of {k} faces, too many for the subset DP: relaxed cutwidth bounds",
             }
     if method == "subset-dp":
@@ -406,7 +406,7 @@ def homology_width(
     holes : collection of face ids, optional
         Faces that are never swept; default ``{P.outer_face}``; ``()`` for
         none (the sweep may then cover either side of ``start + end``).
-    method : {'auto', 'cutwidth', 'subset-dp', 'face-sets'}
+    method : {'auto', 'dual-cutwidth' ('cutwidth', deprecated), 'subset-dp', 'face-sets'}
         See the module docstring.
     time_limit : float, optional
         Seconds; when it runs out the result is 'bounded' with the best face
@@ -490,7 +490,7 @@ def homology_width(
     resolve_weight("homology", weight, allowed=("weight",))
     _validate(method, monotone, options)
     if not isinstance(paths, bool):
-        raise SweepwidthError(f"paths must be True or False, got {paths!r}")
+        raise InvalidArgumentError(f"paths must be True or False, got {paths!r}")
     problem = HomologyProblem.build(P, start, end, holes, paths=paths)
     return solve_problem(problem, method=method, deadline=dl, seed=seed, monotone=monotone, options=options, started=t0)
 
@@ -520,6 +520,7 @@ def solve_problem(
     at: float | None = dl.at  # the monotonic value for the stages below
     P = problem.graph
     entry = get_method("homology", method)
+    method = entry.name  # a deprecated name resolved to the method it names
     stats: dict[str, Any] = problem.summary()
     stats["monotone"] = monotone
     stats["seed"] = seed
@@ -549,7 +550,7 @@ def solve_problem(
         status = "optimal" if _close(lo, up) else "bounded"
         S = _final_set(problem, toggles)
         stats["swept"] = sorted(S)
-        return make_result("homology", lower=lo, upper=up, witness=list(toggles), method=st.get("method", "face-sets"),
+        return make_result("homology", lower=lo, upper=up, witness=list(toggles), method=method_label(method, st.get("method", "face-sets")),
                            seconds=time.monotonic() - t0, stats=stats, optimal=status == "optimal")
     outcomes = []
     for idx, S in enumerate(problem.swept):
@@ -572,7 +573,7 @@ def solve_problem(
     ]
     if method == "auto":
         stats["auto"] = best_auto
-    return make_result("homology", lower=lower, upper=upper, witness=list(best.order), method=best.method,
+    return make_result("homology", lower=lower, upper=upper, witness=list(best.order), method=method_label(method, best.method),
                        seconds=time.monotonic() - t0, stats=stats, optimal=status == "optimal")
 
 

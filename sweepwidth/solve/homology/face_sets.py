@@ -31,6 +31,8 @@ References
 
 from __future__ import annotations
 
+from ...tables import size
+
 import heapq
 import math
 import time
@@ -38,7 +40,7 @@ from typing import Any, Sequence
 
 import numpy as np
 
-from ...errors import ProblemTooLargeError, SweepwidthError
+from ...errors import InvalidArgumentError, OperationError, ProblemTooLargeError, SweepwidthError
 from ...problems.cycles import FaceSweep
 
 try:  # pragma: no cover - depends on the installation
@@ -259,12 +261,12 @@ def monotone_sweep(fs: FaceSweep, *, max_faces: int | None = None) -> tuple[floa
     cap = MAX_MONOTONE_FACES if max_faces is None else max_faces
     if 16 * 2**k > MAX_TABLE_BYTES:
         raise ProblemTooLargeError(
-            f"monotone subset search on {k} faces needs {16 * 2**k / 2**30:.1f} GiB of tables; "
-            f"the limit is {MAX_TABLE_BYTES / 2**30:.0f} GiB"
+            f"monotone subset search on {k} faces needs {size(16 * 2**k)} of tables; "
+            f"the limit is {size(MAX_TABLE_BYTES)}"
         )
     if k > cap:
         raise ProblemTooLargeError(
-            f"monotone subset search on {k} faces needs 2^{k} states ({16 * 2**k / 2**20:.0f} MiB); the limit is {cap} faces"
+            f"monotone subset search on {k} faces needs 2^{k} states ({size(16 * 2**k)}); the limit is {cap} faces"
         )
     if k == 0:
         return fs.start_weight, []
@@ -324,12 +326,12 @@ def toggle_search(
     cap = MAX_TOGGLE_FACES if max_faces is None else max_faces
     if 40 * 2**k > MAX_TABLE_BYTES:
         raise ProblemTooLargeError(
-            f"toggle search on {k} free faces needs about {40 * 2**k / 2**30:.1f} GiB; "
-            f"the limit is {MAX_TABLE_BYTES / 2**30:.0f} GiB"
+            f"toggle search on {k} free faces needs about {size(40 * 2**k)}; "
+            f"the limit is {size(MAX_TABLE_BYTES)}"
         )
     if k > cap:
         raise ProblemTooLargeError(
-            f"toggle search on {k} free faces needs 2^{k} states (about {25 * 2**k / 2**20:.0f} MiB); the limit is {cap} faces"
+            f"toggle search on {k} free faces needs 2^{k} states (about {size(25 * 2**k)}); the limit is {cap} faces"
         )
     masks = []
     for t in targets:
@@ -338,7 +340,7 @@ def toggle_search(
             m |= 1 << i
         masks.append(m)
     if not masks:
-        raise SweepwidthError("toggle_search needs at least one target set")
+        raise InvalidArgumentError("toggle_search needs at least one target set")
     if 0 in masks or k == 0:
         return fs.start_weight, [], {"states": 1, "faces": k}
     W = _tables(fs)
@@ -347,7 +349,7 @@ def toggle_search(
     fn = _bottleneck if (HAVE_NUMBA and k > 10) else getattr(_bottleneck, "py_func", _bottleneck)
     width, path, popped = fn(k, W, t0, t1)
     if not math.isfinite(width):  # pragma: no cover - the hypercube is connected
-        raise SweepwidthError("no toggle sequence reaches the target")
+        raise OperationError("no toggle sequence reaches the target")
     return float(width), [fs.faces[int(i)] for i in path], {"states": int(popped), "faces": k}
 
 
@@ -552,7 +554,7 @@ def improve_sweep(
     """
     idx = np.array(fs.local(order), dtype=np.int64)
     if idx.shape[0] != fs.k or len(set(idx.tolist())) != fs.k:
-        raise SweepwidthError("improve_sweep needs every free face exactly once")
+        raise InvalidArgumentError("improve_sweep needs every free face exactly once")
     if fs.k < 2:
         return float(max(fs.profile(order))), list(order)
     indptr, indices, sw, lin, w0 = sweep_arrays(fs)

@@ -92,10 +92,10 @@ import time
 from collections import deque
 from typing import Any, Callable, Iterable, Sequence
 
-from ...errors import InvalidArgumentError, SweepwidthError
+from ...errors import InputTypeError, InvalidArgumentError, OperationError, SweepwidthError
 from ...problems.homotopy import Curve, HomotopyProblem, apply_move
 from ...result import Result
-from ..contract import Deadline, builtin_names, check_seed, get_method, make_result, methods, resolve_weight
+from ..contract import Deadline, builtin_names, check_seed, get_method, make_result, method_label, methods, reject_unknown_keywords, resolve_weight
 from .free_group import homotopy_classes_equal
 
 __all__ = [
@@ -1309,7 +1309,7 @@ def _run_search(H: HomotopyProblem, deadline: float | None, upper: float | None,
 # ====================================================================== dispatcher
 def _validate(P: Any, method: str) -> None:
     if not hasattr(P, "face_darts") or not hasattr(P, "outer_face"):
-        raise SweepwidthError(f"homotopy_height needs a PlaneGraph, got {type(P).__name__}")
+        raise InputTypeError(f"homotopy_height needs a PlaneGraph, got {type(P).__name__}")
     get_method("homotopy", method)
 
 
@@ -1377,7 +1377,7 @@ def _method_search(st: _State) -> None:
         st.bounds["upper"] = "constructed homotopy (greedy by length)"
     out, note = _run_search(H, deadline, st.upper, st.witness, st.lower, max_memory=st.max_memory)
     if out is None:
-        raise SweepwidthError(f"method 'search': {note}")
+        raise OperationError(f"method 'search': {note}")
     reason = str(dict(out.stats).get("reason") or "")
     if not out.optimal and reason.startswith("memory limit"):
         from ...errors import ProblemTooLargeError
@@ -1443,6 +1443,7 @@ _METHODS: dict[str, Callable[[_State], None]] = {
 assert set(_METHODS) == builtin_names("homotopy"), "registry and dispatcher disagree"
 
 
+@reject_unknown_keywords
 def homotopy_height(
     P: Any,
     *,
@@ -1584,5 +1585,7 @@ def solve_problem(H: HomotopyProblem, *, method: str = "auto", deadline: Deadlin
     if upper is not None and lower > upper + _EPS:  # pragma: no cover - would be a bug in a bound
         stats["warning"] = f"lower bound {lower:g} above the witness height {upper:g}: lowered to it"
         lower = upper
-    return make_result("homotopy", lower=lower, upper=upper, witness=witness, method=used, seconds=seconds, stats=stats,
-                       optimal=upper is not None and upper - lower <= _EPS)
+    if method == "auto" and isinstance(stats.get("auto"), str):
+        stats["auto"] = {"choice": used, "reason": stats["auto"]}
+    return make_result("homotopy", lower=lower, upper=upper, witness=witness, method=method_label(method, used),
+                       seconds=seconds, stats=stats, optimal=upper is not None and upper - lower <= _EPS)

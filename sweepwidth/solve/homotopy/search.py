@@ -93,7 +93,7 @@ from collections.abc import Callable
 from dataclasses import dataclass, field
 from typing import Any
 
-from ...errors import InvalidCurveError, ProblemTooLargeError, SweepwidthError
+from ...errors import InputTypeError, InvalidArgumentError, InvalidCurveError, OperationError, ProblemTooLargeError, SweepwidthError
 from .walks import WalkSpace, find_rotation, least_rotation
 
 __all__ = ["SearchOutcome", "WalkSpec", "search_homotopy"]
@@ -188,7 +188,7 @@ def spec_from_problem(problem: Any) -> WalkSpec:
         if P is not None:
             break
     if P is None:
-        raise SweepwidthError(f"expected a HomotopyProblem, got {type(problem).__name__}")
+        raise InputTypeError(f"expected a HomotopyProblem, got {type(problem).__name__}")
     sd, sv = _walk_from(P, problem.start, "start")
     end = getattr(problem, "end", None)
     if end is None:
@@ -522,7 +522,7 @@ def _witness(search: _Search, parent: dict, state: Any) -> dict:
             L = len(key)
             r = find_rotation(A, key)
             if r < 0:  # pragma: no cover - internal consistency
-                raise SweepwidthError("internal error: witness walk lost track of its state")
+                raise OperationError("internal error: witness walk lost track of its state")
             mv["pos"] = (move[1] - r) % L
         if "put" in mv:
             mv["put"] = list(mv["put"])
@@ -694,7 +694,7 @@ def search_homotopy(
     search = _Search(spec, sp)
     if max_repeated_faces is not None:
         if isinstance(max_repeated_faces, bool) or not isinstance(max_repeated_faces, int) or max_repeated_faces < 0:
-            raise SweepwidthError(f"max_repeated_faces must be a non-negative integer, got {max_repeated_faces!r}")
+            raise InvalidArgumentError(f"max_repeated_faces must be a non-negative integer, got {max_repeated_faces!r}")
         search.max_repeated = max_repeated_faces
     stats: dict = {"states": 0, "generated": 0, "stored": 0, "dive_states": 0}
     ok, reason, complete = _invariant_check(search)
@@ -730,7 +730,7 @@ def search_homotopy(
                 return SearchOutcome(lower=float("inf"), upper=None, witness=None, optimal=False, stats=stats)
     if max_memory is not None:
         if isinstance(max_memory, bool) or not isinstance(max_memory, int) or max_memory <= 0:
-            raise SweepwidthError(f"max_memory must be a positive number of bytes or None, got {max_memory!r}")
+            raise InvalidArgumentError(f"max_memory must be a positive number of bytes or None, got {max_memory!r}")
         # a homotopy flips every face at least |w_start(f) - w_end(f)| times and each flip
         # stores at least one new state; the walks are at least as long as the start walk
         need_flips, _ = search.potential_and_winding(search.start_key)

@@ -33,7 +33,7 @@ from collections.abc import Iterator, Sequence
 from dataclasses import dataclass, field
 from typing import Any
 
-from ...errors import SweepwidthError, UnsupportedOptionError
+from ...errors import NotInGraphError, SweepwidthError, UnsupportedOptionError
 
 __all__ = ["LENGTH_MODES", "WalkSpace", "find_rotation", "least_rotation"]
 
@@ -193,7 +193,7 @@ class WalkSpace:
             hole_set = set()
             for h in holes:
                 if not (isinstance(h, int) and 0 <= h < F):
-                    raise SweepwidthError(f"hole {h!r} is not a face id in 0..{F - 1}")
+                    raise NotInGraphError(f"hole {h!r} is not a face id in 0..{F - 1}")
                 hole_set.add(int(h))
         hole = [f in hole_set for f in range(F)]
         out = [tuple(P.darts_at(P.label(v))) for v in range(n)]

@@ -56,7 +56,7 @@ from typing import Any, Callable
 
 import numpy as np
 
-from ...errors import ProblemTooLargeError, SweepwidthError, UnsupportedOptionError
+from ...errors import InvalidArgumentError, ProblemTooLargeError, SweepwidthError, UnsupportedOptionError
 from ...problems.ordering import OrderingProblem
 from ...result import Result
 from ..contract import Deadline, builtin_names, check_options, check_seed, get_method, make_result, methods, resolve_weight
@@ -220,7 +220,7 @@ def _validate(options: dict) -> None:
     if "max_memory" in options:
         mm = options["max_memory"]
         if isinstance(mm, bool) or not isinstance(mm, numbers.Real) or mm <= 0:
-            raise SweepwidthError(f"max_memory must be a positive number of bytes, got {mm!r}")
+            raise InvalidArgumentError(f"max_memory must be a positive number of bytes, got {mm!r}")
     if "solver" in options:
         from .sat import SOLVERS
 
@@ -251,7 +251,7 @@ def _solve_part(P: OrderingProblem, method: Any, deadline: float | None, seed: i
             p.method = "dp"
             return p
     if method == "tree" and not P.is_forest():
-        raise SweepwidthError("method 'tree' needs a forest (a graph without cycles after merging parallel edges)")
+        raise InvalidArgumentError("method 'tree' needs a forest (a graph without cycles after merging parallel edges)")
     # bounds and a heuristic ordering for everything else, cheapest first:
     # stop as soon as the two meet
     name = method if isinstance(method, str) else "callable"

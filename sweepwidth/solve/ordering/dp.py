@@ -14,6 +14,8 @@ only adds and compares them.
 
 from __future__ import annotations
 
+from ...tables import size
+
 import time
 from typing import Any
 
@@ -97,8 +99,8 @@ def solve_dp(
     nbytes, _ = dp_estimate(problem)
     if nbytes > max_memory:
         raise ProblemTooLargeError(
-            f"subset DP over {k} free vertices needs about {nbytes / 2**20:.0f} MiB, "
-            f"more than the limit of {max_memory / 2**20:.0f} MiB; use method='sat' or 'bnb', "
+            f"subset DP over {k} free vertices needs about {size(nbytes)}, "
+            f"more than the limit of {size(max_memory)}; use method='sat' or 'bnb', "
             "or raise max_memory"
         )
     local = {v: i for i, v in enumerate(free)}

@@ -76,7 +76,7 @@ from typing import Any, Callable, Sequence, cast
 
 import numpy as np
 
-from ...errors import SweepwidthError, UnsupportedOptionError, WeightError
+from ...errors import InputTypeError, InvalidArgumentError, OperationError, SweepwidthError, UnsupportedOptionError, WeightError
 from ...problems.ordering import OrderingProblem
 from .._deadline import BUDGET_SOLVERS, run_limited, sat_call
 
@@ -154,10 +154,10 @@ def _check_order(problem: OrderingProblem, order: Sequence[int], what: str) -> l
     order = [int(v) for v in order]
     n = problem.n
     if sorted(order) != list(range(n)):
-        raise SweepwidthError(f"{what} is not an ordering of the vertices 0..{n - 1}")
+        raise InvalidArgumentError(f"{what} is not an ordering of the vertices 0..{n - 1}")
     f, l = len(problem.first), len(problem.last)
     if set(order[:f]) != set(problem.first) or set(order[n - l:] if l else []) != set(problem.last):
-        raise SweepwidthError(f"{what} does not respect the pinned first/last vertices")
+        raise InvalidArgumentError(f"{what} does not respect the pinned first/last vertices")
     return order
 
 
@@ -862,7 +862,7 @@ class _LevelProbe:
 
 def _validate(problem: Any, lower: int, upper: int | None, solver: str, options: dict) -> dict:
     if not isinstance(problem, OrderingProblem):
-        raise SweepwidthError(f"solve_sat expects an OrderingProblem, got {type(problem).__name__}")
+        raise InputTypeError(f"solve_sat expects an OrderingProblem, got {type(problem).__name__}")
     if solver not in SOLVERS:
         raise UnsupportedOptionError("SAT solver", solver, SOLVERS)
     opts = {k: v[0] for k, v in _OPTIONS.items()}
@@ -875,9 +875,9 @@ def _validate(problem: Any, lower: int, upper: int | None, solver: str, options:
             raise UnsupportedOptionError(f"value for option {k!r}", v, _OPTIONS[k])
         opts[k] = v
     if isinstance(lower, bool) or not isinstance(lower, (int, np.integer)) or lower < 0:
-        raise SweepwidthError(f"lower must be a non-negative integer, got {lower!r}")
+        raise InvalidArgumentError(f"lower must be a non-negative integer, got {lower!r}")
     if upper is not None and (isinstance(upper, bool) or not isinstance(upper, (int, np.integer))):
-        raise SweepwidthError(f"upper must be an integer or None, got {upper!r}")
+        raise InvalidArgumentError(f"upper must be an integer or None, got {upper!r}")
     return opts
 
 
@@ -990,7 +990,7 @@ def solve_sat(
     lower = int(lower)
     stats: dict = {"solver": solver, "options": dict(opts), "calls": []}
     if lower > upper:
-        raise SweepwidthError(f"lower bound {lower} exceeds upper bound {upper}")
+        raise InvalidArgumentError(f"lower bound {lower} exceeds upper bound {upper}")
     best = SatOutcome(lower, upper, best_order, lower >= upper, stats)
     if best.optimal or n <= 1:
         best.optimal = True
@@ -1085,7 +1085,7 @@ def solve_sat(
                 order = F.decode(S.get_model())
                 w = int(round(problem.width(order)))
                 if w > k:  # pragma: no cover - would be an encoding bug
-                    raise SweepwidthError(f"internal error: SAT ordering has width {w} > {k}")
+                    raise OperationError(f"internal error: SAT ordering has width {w} > {k}")
                 best.order, best.upper = order, w
                 if opts["phases"]:
                     S.set_phases(F.phases(F.canonical(order)))

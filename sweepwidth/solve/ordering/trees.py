@@ -78,7 +78,7 @@ from typing import Any
 
 import numpy as np
 
-from ...errors import SweepwidthError
+from ...errors import InvalidArgumentError, SweepwidthError
 from ...problems.ordering import OrderingProblem
 from .windows import OnImprove, pinned_order
 
@@ -87,11 +87,11 @@ __all__ = ["block_layout", "branch_bound", "tree_cutwidth", "TreeOutcome"]
 
 def _check_unit_forest(problem: OrderingProblem, what: str) -> None:
     if not problem.is_forest():
-        raise SweepwidthError(f"{what} needs a forest; this graph has a cycle (after merging parallel edges)")
+        raise InvalidArgumentError(f"{what} needs a forest; this graph has a cycle (after merging parallel edges)")
     if problem.m and not np.all(problem.weights == 1.0):
         bad = int(np.flatnonzero(problem.weights != 1.0)[0])
         u, v = problem.edges[bad].tolist()
-        raise SweepwidthError(
+        raise InvalidArgumentError(
             f"{what} needs unit weights (weighted trees are NP-hard; use sweepwidth.cutwidth); "
             f"edge ({problem.labels[u]!r}, {problem.labels[v]!r}) has weight {problem.weights[bad]} "
             "(parallel edges add up)"

@@ -43,7 +43,7 @@ from typing import Callable, Sequence
 
 import numpy as np
 
-from ...errors import SweepwidthError
+from ...errors import InvalidArgumentError, SweepwidthError
 from ...problems.ordering import OrderingProblem
 from . import kernels
 
@@ -60,7 +60,7 @@ def pinned_order(problem: OrderingProblem, order: Sequence[int]) -> list[int]:
     F, L = problem.first, problem.last
     order = [int(v) for v in order]
     if sorted(order) != list(range(problem.n)):
-        raise SweepwidthError(f"an ordering must list each of the {problem.n} vertices 0..{problem.n - 1} once")
+        raise InvalidArgumentError(f"an ordering must list each of the {problem.n} vertices 0..{problem.n - 1} once")
     if not F and not L:
         return order
     return [v for v in order if v in F] + [v for v in order if v not in F and v not in L] + [v for v in order if v in L]
@@ -97,7 +97,7 @@ class MergedPins:
 
 def _check_window(window: int) -> None:
     if isinstance(window, bool) or not isinstance(window, (int, np.integer)) or not 2 <= window <= _MAX_WINDOW:
-        raise SweepwidthError(f"window must be an integer in 2..{_MAX_WINDOW}, got {window!r}")
+        raise InvalidArgumentError(f"window must be an integer in 2..{_MAX_WINDOW}, got {window!r}")
 
 
 def _run(
