@@ -21,6 +21,8 @@ _PUBLIC = {
     "cutwidth": "sweepwidth.solve",
     "homology_width": "sweepwidth.solve",
     "homotopy_height": "sweepwidth.solve",
+    "project_homotopy": "sweepwidth.solve.homotopy.projection",
+    "solve_parameters": "sweepwidth.solve.joint",
     "draw": "sweepwidth.draw",
     "Result": "sweepwidth.result",
     "SweepwidthError": "sweepwidth.errors",

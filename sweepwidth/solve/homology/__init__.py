@@ -100,7 +100,7 @@ from .face_sets import (
     toggle_search,
 )
 
-__all__ = ["homology_width", "solve_problem", "METHODS", "OPTIONS"]
+__all__ = ["homology_width", "solve_problem", "validate_arguments", "METHODS", "OPTIONS"]
 
 #: the built-in method names (from the method registry, :mod:`sweepwidth.solve.contract`)
 METHODS = tuple(sorted(builtin_names("homology"), key=list(methods("homology")).index))
@@ -144,6 +144,19 @@ def _validate(method: Any, monotone: Any, options: dict) -> None:
             v = options[k]
             if isinstance(v, bool) or not isinstance(v, numbers.Integral) or v < 0:
                 raise SweepwidthError(f"{k} must be a non-negative integer, got {v!r}")
+
+
+def validate_arguments(method: Any, monotone: Any, options: dict) -> None:
+    """Check a method name, the ``monotone`` flag and the options as :func:`homology_width` does.
+
+    Raises
+    ------
+    UnsupportedOptionError
+        An unknown method or option.
+    SweepwidthError
+        A ``monotone`` that is not a bool, a method that cannot honour it, a bad option value.
+    """
+    _validate(method, monotone, options)
 
 
 class _Outcome:
