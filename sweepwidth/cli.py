@@ -262,7 +262,7 @@ def _save_names(files: Sequence[str]) -> dict[str, str]:
 # -------------------------------------------------------------------- solve
 def cmd_solve(args: argparse.Namespace, out: Callable[[str], None]) -> int:
     from .bench.hashing import instance_hash
-    from .bench.loading import check_object, is_plane, solve_object
+    from .bench.loading import check_object, is_plane, solve_objects
     from .io.saved import saved_result
 
     params = _params(args.param)
@@ -284,8 +284,13 @@ def cmd_solve(args: argparse.Namespace, out: Callable[[str], None]) -> int:
         for p in params:
             if PARAMETERS[p].problem == "plane" and not is_plane(obj):
                 raise CliError(f"{path}: {p} needs a plane graph, but the file holds a graph without an embedding")
-            opts = _solver_options(args, p, obj)
-            res = solve_object(obj, p, method=args.method, time_limit=args.time_limit, seed=args.seed, options=opts)
+        all_opts = {p: _solver_options(args, p, obj) for p in params}
+        # homology and homotopy together share bounds and witnesses (sweepwidth.solve_parameters)
+        solved = solve_objects(obj, params, method=args.method, time_limit=args.time_limit, seed=args.seed,
+                               options=all_opts)
+        for p in params:
+            opts = all_opts[p]
+            res = solved[p]
             checked: float | None = None
             note = ""
             if not args.no_check and res.witness is not None:

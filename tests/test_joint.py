@@ -187,3 +187,20 @@ def test_joint_seeds_random_weights():
     P = generators.triangulated_grid(3)
     P = P.with_weights([rng.randint(0, 4) for _ in range(P.number_of_edges())])
     _consistent(P, sw.solve_parameters(P, ["homology", "homotopy"], time_limit=3))
+
+
+def test_cli_solves_homology_and_homotopy_together(tmp_path, capsys):
+    import json
+
+    from sweepwidth.cli import main
+
+    P = generators.weighted_delaunay_disk(25, seed=4)
+    path = tmp_path / "disk.json"
+    sw.write(P, str(path))
+    capsys.readouterr()
+    assert main(["solve", str(path), "--param", "homology,homotopy", "--time-limit", "2", "--json"]) == 0
+    rows = {r["parameter"]: r for r in map(json.loads, capsys.readouterr().out.splitlines())}
+    assert rows["homology"]["stats"]["joint"]["comparable"] is True  # the joint path ran
+    assert rows["homology"]["upper"] <= rows["homotopy"]["upper"] + 1e-9
+    assert rows["homology"]["lower"] <= rows["homotopy"]["lower"] + 1e-9
+    assert rows["homology"]["checked"] is not None and rows["homotopy"]["checked"] is not None
