@@ -204,3 +204,24 @@ def test_cli_solves_homology_and_homotopy_together(tmp_path, capsys):
     assert rows["homology"]["upper"] <= rows["homotopy"]["upper"] + 1e-9
     assert rows["homology"]["lower"] <= rows["homotopy"]["lower"] + 1e-9
     assert rows["homology"]["checked"] is not None and rows["homotopy"]["checked"] is not None
+
+
+@settings(max_examples=30, deadline=None)
+@given(plane_graphs(min_vertices=3, max_vertices=6, weighted=True, max_weight=3), st.integers(1, 40))
+def test_search_levels_are_lower_bounds_when_stopped_early(P, budget):
+    # the exact search's settled bottleneck levels (the homotopy lower bound beyond homology that
+    # 'auto' and solve_parameters keep when the search stops) never exceed the brute-force optimum
+    from sweepwidth.solve.homotopy.search import search_homotopy
+
+    P = P.with_weights([P.weight(e) + 1 for e in range(P.number_of_edges())])  # brute force needs > 0
+    H = HomotopyProblem.build(P)
+    ub = sw.homotopy_height(P, method="bounds").upper
+    ref = reference_height(H, ub)[0]
+    assert ref is not None
+    try:
+        out = search_homotopy(H, max_states=budget, use_homology=False, dive=0)
+    except sw.ProblemTooLargeError:
+        return
+    assert out.lower <= ref + 1e-9
+    if out.optimal:
+        assert out.upper == pytest.approx(ref)

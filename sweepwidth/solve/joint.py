@@ -26,8 +26,10 @@ When the homology width compared is a lower bound of the homotopy height
 point), the results satisfy ``homology.lower <= homotopy.lower`` and
 ``homology.upper <= homotopy.upper`` (``stats['joint']['comparable']`` is
 True).  Between interior curves the monotone width (face orders) can exceed
-the homotopy height, so with ``monotone=True`` there nothing is shared but
-the face order as a construction order (``comparable`` False).
+the homotopy height, so with ``monotone=True`` there the homotopy solver
+computes its own non-monotone homology bound and only a face order read off
+the projected homotopy can improve the homology result (``comparable``
+False).
 
 Witness of a projected homology upper bound
 -------------------------------------------
@@ -198,7 +200,7 @@ def solve_parameters(
         elif p == "homotopy":
             out[p] = homotopy_height(P, start=start, end=end, holes=holes, time_limit=lim, seed=seed, **htp_opts)
         else:  # a parameter added to the registry later: its public function with the shared limit
-            fn = PARAMETERS[p].load()
+            fn = PARAMETERS[p].solver()
             out[p] = fn(P, time_limit=lim, seed=seed)
     if pair:
         hom, htp = _solve_pair(P, share(k_left), seed, start, end, holes, hom_opts, htp_opts)
@@ -247,17 +249,18 @@ def _solve_pair(P: Any, limit: float | None, seed: int | None, start: Any, end: 
     h_dl = dl if limit is None else Deadline.from_limit(HOMOLOGY_SHARE * dl.remaining())
     r1 = solve_homology(problem, method=method, deadline=h_dl, seed=seed, monotone=monotone, options=hom_opts)
     order = list(r1.witness) if isinstance(r1.witness, list) and r1.stats.get("monotone", True) else None
-    hint: tuple[float | None, dict, list | None]
-    if r1.status == "infeasible" or r1.lower is None:
+    hint: tuple[float | None, dict, list | None] | None
+    if not comparable:
+        hint = None  # the homotopy solver computes its own (non-monotone) homology bound
+    elif r1.status == "infeasible" or r1.lower is None:
         hint = (None, {"homology": "infeasible or no bound"}, order)
     else:
-        hint = (float(r1.lower) if comparable else None,
+        hint = (float(r1.lower),
                 {"homology": {"status": r1.status, "lower": r1.lower, "upper": r1.upper, "method": r1.method,
                               "seconds": round(r1.seconds, 3), "monotone": monotone, "from": "solve_parameters"}},
                 order)
     h_method = htp_opts.get("method", "auto")
-    rest = Deadline.at_time(dl.at)
-    r2 = solve_homotopy(H, method=h_method, deadline=rest, seed=seed, max_memory=htp_opts.get("max_memory"),
+    r2 = solve_homotopy(H, method=h_method, deadline=Deadline.at_time(dl.at), seed=seed, max_memory=htp_opts.get("max_memory"),
                         homology=hint)
     joint: dict[str, Any] = {"comparable": comparable, "homology_to_homotopy": "none", "homotopy_to_homology": "none"}
     # homotopy lower bound >= homology lower bound (when comparable)
@@ -268,8 +271,8 @@ def _solve_pair(P: Any, limit: float | None, seed: int | None, start: Any, end: 
                              seconds=r2.seconds, stats={**r2.stats, "bounds": {**dict(r2.stats.get("bounds") or {}),
                                                                                  "lower": "homology sweep width (joint solve)"}})
         joint["homology_to_homotopy"] = f"lower bound {r1.lower:g} and face order ({len(order or [])} faces)"
-    elif order:
-        joint["homology_to_homotopy"] = f"face order ({len(order)} faces) as a construction order"
+    else:
+        joint["homology_to_homotopy"] = "none: the monotone width is no homotopy bound between interior curves"
     # homology upper bound <= homotopy upper bound, through the projection (when comparable)
     if r2.witness is not None and r1.status != "infeasible":
         proj = project_homotopy(P, r2.witness)
@@ -288,9 +291,10 @@ def _solve_pair(P: Any, limit: float | None, seed: int | None, start: Any, end: 
             new = (pw, list(proj["toggles"]), False, "projected homotopy (toggle sequence)")
         if new is not None:
             w, wit, mono, how = new
-            st = {**r1.stats, "monotone": mono if monotone else False,
-                  "bounds": {**(r1.stats.get("bounds") if isinstance(r1.stats.get("bounds"), dict) else
-                                {"lower": r1.stats.get("bounds")}), "upper": how}}
+            old_bounds = r1.stats.get("bounds")
+            bounds = dict(old_bounds) if isinstance(old_bounds, dict) else {"lower": old_bounds}
+            bounds["upper"] = how
+            st = {**r1.stats, "monotone": mono if monotone else False, "bounds": bounds}
             st["swept"] = sorted(_odd(wit))
             lo1 = float(r1.lower) if r1.lower is not None else 0.0
             r1 = make_result("homology", lower=lo1, upper=w, witness=wit, method=r1.method + "+projection",

@@ -62,6 +62,15 @@ Methods
                the monotone methods (equal by Brightwell and Winkler).
 =============  ============================================================
 
+Homotopy witnesses
+------------------
+Every homotopy of the same curves reduces mod 2 to a toggle sequence no
+wider than its height (:func:`sweepwidth.project_homotopy`);
+:func:`sweepwidth.solve_parameters` uses that projection as an upper bound
+here when it is better (as a face order read off it when one is no wider,
+else as a non-monotone witness, which from a disk's boundary is the same
+width by Brightwell and Winkler).
+
 Performance
 -----------
 Measured by ``benchmarks/_homology_rows.py``; the last run is in

@@ -18,7 +18,11 @@ Methods
     may toggle a face more than once, so the bound is the *non-monotone*
     homology width, except from the outer boundary to a point with only the
     outer face as a hole, where face orders are optimal (Brightwell and
-    Winkler) and the faster monotone width is used.  (From an interior curve a
+    Winkler) and the faster monotone width is used.  A lone call gives the
+    homology bound only a share of its time, so its lower bound can be below
+    what :func:`sweepwidth.homology_width` proves in the same time; solved
+    together (:func:`sweepwidth.solve_parameters`) the homotopy lower bound is
+    at least the homology one by construction.  (From an interior curve a
     homotopy can beat every face order: see ``test_interior_start_beats_face_orders``.)  Upper bound: an
     explicit homotopy, built by sweeping faces one at a time (below) for
     several face orders, keeping the best.
@@ -27,7 +31,14 @@ Methods
 'auto'
     'bounds' first; when a gap remains, the exact search (given the
     constructed homotopy as its upper bound) in the time left (without a time
-    limit only up to ``AUTO_SEARCH_FACES`` sweepable faces).
+    limit only up to ``AUTO_SEARCH_FACES`` sweepable faces).  When the search
+    stops early its settled level is kept as the lower bound: the search is a
+    bottleneck Dijkstra over walk states with keys clamped at the proven lower
+    bound, so when it pops a state of key ``h`` every homotopy of height
+    below ``h`` would have reached an end state earlier; none has, so the
+    height is at least ``h`` (``stats['bounds']['lower']`` says "exact search
+    (bottleneck levels settled)"; tested against the brute force in
+    ``tests/test_joint.py``).
     ``stats['auto']`` says what ran and why.
 
 Constructing a homotopy
