@@ -225,3 +225,21 @@ def test_search_levels_are_lower_bounds_when_stopped_early(P, budget):
     assert out.lower <= ref + 1e-9
     if out.optimal:
         assert out.upper == pytest.approx(ref)
+
+
+def test_bench_runs_a_paired_task(tmp_path):
+    # a benchmark task with the paired solver: one child solves both, the row is the asked parameter
+    from sweepwidth.bench import Task, execute_task, instance_hash
+
+    P = generators.weighted_delaunay_disk(20, seed=2)
+    path = tmp_path / "disk.json"
+    sw.write(P, str(path))
+    rows = {}
+    for p in ("homology", "homotopy"):
+        task = Task(instance=str(path), instance_hash=instance_hash(path), parameter=p, time_limit=4.0,
+                    solver=f"sweepwidth.solve.joint:paired_{p}")
+        rows[p] = execute_task(task)
+        assert rows[p]["check_error"] is None and rows[p]["checked"] is not None
+        assert rows[p]["result"]["stats"]["paired_with"]["parameter"] != p
+    assert rows["homology"]["upper"] <= rows["homotopy"]["upper"] + 1e-9
+    assert rows["homology"]["lower"] <= rows["homotopy"]["lower"] + 1e-9

@@ -42,6 +42,16 @@ homology checker as such); its width is the same parameter there by
 Brightwell and Winkler's theorem.  ``stats['joint']['homology_upper']``
 says which.
 
+Benchmark tasks
+---------------
+A benchmark task is one (instance, parameter) row with its own child process
+and hard limit, so a pair is run as two tasks with the solvers
+:func:`paired_homology` and :func:`paired_homotopy`
+(``sweepwidth bench DIR --param homology --solver sweepwidth.solve.joint:paired_homology``):
+each task solves the pair in its limit and records its own parameter, with
+the other's bounds in ``stats['paired_with']``.  The guarantees above hold
+within a task; two rows of separate tasks come from separate runs.
+
 References
 ----------
 .. [1] G. Brightwell and P. Winkler, "Submodular percolation", SIAM J.
@@ -71,7 +81,7 @@ from ..registry import PARAMETERS
 from ..result import Result
 from .contract import Deadline, check_seed, make_result
 
-__all__ = ["solve_parameters", "HOMOLOGY_SHARE"]
+__all__ = ["solve_parameters", "paired_homology", "paired_homotopy", "HOMOLOGY_SHARE"]
 
 #: share of the pair's time given to the homology width (the homotopy solver gets the rest and
 #: does not compute the homology bound again)
@@ -321,3 +331,54 @@ def _ends_at(P: Any, z0: set[int], faces: Iterable[int], z1: set[int]) -> bool:
             odd ^= {int(d) >> 1}
         cur ^= odd
     return cur == set(z1)
+
+
+def _paired(parameter: str, obj: Any, method: str, time_limit: float | None, seed: int | None,
+            options: dict) -> Result:
+    hom_opts = {k: v for k, v in options.items() if k not in ("start", "end", "holes")} if parameter == "homology" else {}
+    htp_opts = {k: v for k, v in options.items() if k not in ("start", "end", "holes")} if parameter == "homotopy" else {}
+    if method != "auto":
+        (hom_opts if parameter == "homology" else htp_opts)["method"] = method
+    res = solve_parameters(obj, ["homology", "homotopy"], time_limit=time_limit, seed=seed,
+                           start=options.get("start"), end=options.get("end"), holes=options.get("holes"),
+                           homology_options=hom_opts, homotopy_options=htp_opts)
+    other = "homotopy" if parameter == "homology" else "homology"
+    r = res[parameter]
+    o = res[other]
+    return _replace(r, stats={**r.stats, "paired_with": {"parameter": other, "lower": o.lower, "upper": o.upper}})
+
+
+def paired_homology(obj: Any, *, method: str = "auto", time_limit: float | None = None, seed: int | None = None,
+                    progress: Any = None, **options: Any) -> Result:
+    """A benchmark-task solver: the homology result of :func:`solve_parameters` on the pair.
+
+    For ``sweepwidth bench DIR --param homology --solver
+    sweepwidth.solve.joint:paired_homology`` (see :class:`sweepwidth.bench.tasks.Task`):
+    the whole time limit goes to the pair (the task's child is killed at
+    its limit plus a grace), and the homotopy result it was paired with is
+    in ``stats['paired_with']``.  ``method`` and ``options`` apply to the
+    homology side; ``progress`` is not used.
+
+    Examples
+    --------
+    >>> from sweepwidth import generators
+    >>> paired_homology(generators.grid(3, 3), time_limit=5).stats["paired_with"]["parameter"]
+    'homotopy'
+    """
+    return _paired("homology", obj, method, time_limit, seed, options)
+
+
+def paired_homotopy(obj: Any, *, method: str = "auto", time_limit: float | None = None, seed: int | None = None,
+                    progress: Any = None, **options: Any) -> Result:
+    """A benchmark-task solver: the homotopy result of :func:`solve_parameters` on the pair.
+
+    As :func:`paired_homology`, for ``--param homotopy``; ``method`` and
+    ``options`` apply to the homotopy side.
+
+    Examples
+    --------
+    >>> from sweepwidth import generators
+    >>> paired_homotopy(generators.grid(3, 3), time_limit=5).value
+    8.0
+    """
+    return _paired("homotopy", obj, method, time_limit, seed, options)
