@@ -53,6 +53,12 @@ def test_projected_constructed_homotopy_is_a_sweep_no_wider(P):
     assert width == pytest.approx(proj["width"])
     assert width <= r.upper + 1e-9  # reduction mod 2 (definitions)
     assert width >= sw.homology_width(P, monotone=False).lower - 1e-9  # any sweep is at least the optimum
+    # the full homology checker accepts it as a non-monotone sweep result
+    from sweepwidth.solve.contract import make_result
+
+    res = make_result("homology", lower=0.0, upper=width, witness=proj["toggles"], method="projection", seconds=0.0,
+                      stats={"start": proj["start"], "end": [], "holes": [P.outer_face], "monotone": False})
+    assert res.check(P) == pytest.approx(width)
 
 
 @settings(max_examples=25, deadline=None)
