@@ -249,3 +249,10 @@ def test_bench_runs_a_paired_task(tmp_path):
         assert rows[p]["result"]["stats"]["paired_with"]["parameter"] != p
     assert rows["homology"]["upper"] <= rows["homotopy"]["upper"] + 1e-9
     assert rows["homology"]["lower"] <= rows["homotopy"]["lower"] + 1e-9
+
+
+def test_regression_boundary_edge_ids_that_also_read_as_a_walk():
+    # regression: the joint solve passed the boundary's edge ids as a sorted list, which on this dual also
+    # reads as a closed walk through vertices (InvalidCurveError); it now passes an edge-id set
+    P = generators.delaunay(5, seed=4).dual()
+    _consistent(P, sw.solve_parameters(P, ["homology", "homotopy"], time_limit=3))

@@ -255,7 +255,8 @@ def _solve_pair(P: Any, limit: float | None, seed: int | None, start: Any, end: 
     from .homology import validate_arguments as validate_homology
 
     validate_homology(method, monotone, hom_opts)
-    problem = HomologyProblem.build(P, sorted(z0), sorted(z1), sorted(H.holes))
+    # edge-id sets (a list of ints could also read as a walk through vertices)
+    problem = HomologyProblem.build(P, set(z0), set(z1), sorted(H.holes))
     h_dl = dl if limit is None else Deadline.from_limit(HOMOLOGY_SHARE * dl.remaining())
     r1 = solve_homology(problem, method=method, deadline=h_dl, seed=seed, monotone=monotone, options=hom_opts)
     order = list(r1.witness) if isinstance(r1.witness, list) and r1.stats.get("monotone", True) else None
