@@ -22,6 +22,8 @@ _PUBLIC = {
     "homology_width": "sweepwidth.solve",
     "homotopy_height": "sweepwidth.solve",
     "homotopy_width": "sweepwidth.solve.width",
+    "project_homotopy": "sweepwidth.solve.homotopy.projection",
+    "solve_parameters": "sweepwidth.solve.joint",
     "draw": "sweepwidth.draw",
     "Result": "sweepwidth.result",
     "SweepwidthError": "sweepwidth.errors",

@@ -442,7 +442,7 @@ def _solve_rows_headers() -> list[str]:
 
 def cmd_solve(args: argparse.Namespace, out: Callable[[str], None]) -> int:
     from .bench.hashing import instance_hash
-    from .bench.loading import check_object, is_plane, solve_object
+    from .bench.loading import check_object, is_plane, solve_object, solve_objects
     from .errors import SweepwidthError, WitnessError
     from .io.saved import saved_result
 
@@ -500,6 +500,8 @@ def cmd_solve(args: argparse.Namespace, out: Callable[[str], None]) -> int:
                     emit(path, p, "error", note=_reason(err))
                     progress.finished(os.path.basename(path), p, "error", None, None, 0.0)
                 continue
+            paired = {"homology", "homotopy"} if {"homology", "homotopy"} <= set(params) else set()
+            joint: dict[str, Any] = {}
             for p in params:
                 t_task = time.monotonic()
                 try:
@@ -507,7 +509,15 @@ def cmd_solve(args: argparse.Namespace, out: Callable[[str], None]) -> int:
                         raise CliError(f"{p} needs a plane graph, but the file holds a graph without an embedding")
                     opts = _solver_options(args, p, obj)
                     current = (path, p, obj, opts)
-                    res = solve_object(obj, p, method=args.method, time_limit=limit, seed=args.seed, options=opts)
+                    if p in paired:
+                        # homology and homotopy together share bounds and witnesses (sweepwidth.solve_parameters)
+                        if p not in joint:
+                            pair = [q for q in params if q in paired]
+                            joint.update(solve_objects(obj, pair, method=args.method, time_limit=limit, seed=args.seed,
+                                                       options={q: _solver_options(args, q, obj) for q in pair}))
+                        res = joint[p]
+                    else:
+                        res = solve_object(obj, p, method=args.method, time_limit=limit, seed=args.seed, options=opts)
                     current = None
                 except (SweepwidthError, CliError) as err:
                     current = None

@@ -21,6 +21,7 @@ __all__ = [
     "load_instance",
     "is_plane",
     "solve_object",
+    "solve_objects",
     "check_object",
     "solver_for",
 ]
@@ -157,6 +158,54 @@ def solve_object(
         if accepts:
             kwargs["progress"] = progress
     return fn(G, **kwargs)
+
+
+def _walk_or_none(spec: Any) -> bool:
+    return spec is None or (isinstance(spec, Mapping) and "darts" in spec)
+
+
+def solve_objects(
+    obj: Any,
+    parameters: list[str],
+    *,
+    method: str = "auto",
+    time_limit: float | None = None,
+    seed: int | None = None,
+    options: Mapping[str, Mapping[str, Any]] | None = None,
+) -> dict[str, Any]:
+    """Solve several parameters of one loaded instance; parameter name -> Result.
+
+    Homology and homotopy asked together go to :func:`sweepwidth.solve_parameters`
+    (each uses the other's bounds and witnesses) with ``2 * time_limit`` for
+    the pair, so each gets about the limit a lone call would; that needs the
+    two to sweep the same curves (both from the defaults, or the same walks
+    ``{"vertex": v, "darts": [...]}``) and the same holes, and otherwise each
+    parameter is solved alone by :func:`solve_object`, as is every other
+    parameter.  ``options`` maps a parameter to its options.
+    """
+    opts_by = {p: dict((options or {}).get(p, {})) for p in parameters}
+    out: dict[str, Any] = {}
+    pair = "homology" in parameters and "homotopy" in parameters and is_plane(obj)
+    if pair:
+        ho = _with_file_curves("homology", obj, opts_by["homology"])
+        to = _with_file_curves("homotopy", obj, opts_by["homotopy"])
+        same = all(ho.get(k) == to.get(k) and _walk_or_none(ho.get(k)) for k in ("start", "end"))
+        same = same and ho.get("holes") == to.get("holes") and set(ho) <= {"start", "end", "holes", "monotone"}
+        if same:
+            from ..solve.joint import solve_parameters
+
+            hom_opts = {k: v for k, v in ho.items() if k not in ("start", "end", "holes")}
+            htp_opts = {k: v for k, v in to.items() if k not in ("start", "end", "holes")}
+            hom_opts["method"] = method
+            htp_opts["method"] = method
+            res = solve_parameters(obj, ["homology", "homotopy"], time_limit=None if time_limit is None else 2 * time_limit,
+                                   seed=seed, start=to.get("start"), end=to.get("end"), holes=to.get("holes"),
+                                   homology_options=hom_opts, homotopy_options=htp_opts)
+            out.update(res)
+    for p in parameters:
+        if p not in out:
+            out[p] = solve_object(obj, p, method=method, time_limit=time_limit, seed=seed, options=opts_by[p])
+    return {p: out[p] for p in parameters}
 
 
 def check_object(result: Any, obj: Any) -> float:

@@ -79,7 +79,7 @@ from __future__ import annotations
 from dataclasses import dataclass, field
 from typing import Any, Iterable, Mapping, Sequence
 
-from ..errors import InvalidCurveError, SweepwidthError, UnsupportedOptionError
+from ..errors import InputTypeError, InvalidArgumentError, InvalidCurveError, SweepwidthError, UnsupportedOptionError
 from .homotopy import Curve, HomotopyProblem, IllegalMoveError, apply_move, curve_from_json
 
 __all__ = ["WEIGHTS", "WidthProblem", "WidthState", "IllegalMoveError"]
@@ -203,12 +203,12 @@ class WidthProblem:
         (1.0, 1.0, 2, 2)
         """
         if not hasattr(P, "face_darts") or not hasattr(P, "outer_face"):
-            raise SweepwidthError(f"homotopy width needs a PlaneGraph, got {type(P).__name__}")
+            raise InputTypeError(f"homotopy width needs a PlaneGraph, got {type(P).__name__}")
         if weight not in WEIGHTS:
             raise UnsupportedOptionError("weight", weight, list(WEIGHTS))
         for name, val in (("backward", backward), ("spikes", spikes), ("simple", simple)):
             if not isinstance(val, bool):
-                raise SweepwidthError(f"option {name} must be True or False, got {val!r}")
+                raise InvalidArgumentError(f"option {name} must be True or False, got {val!r}")
         F = P.number_of_faces()
         if holes is None:
             hole_set = frozenset({P.outer_face})

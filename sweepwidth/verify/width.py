@@ -29,7 +29,7 @@ from __future__ import annotations
 
 from typing import Any, Mapping
 
-from ..errors import SweepwidthError, WitnessError
+from ..errors import InvalidArgumentError, SweepwidthError, WitnessError
 from . import register_checker
 from .homotopy import _is_face_boundary, _parse_walk
 
@@ -107,7 +107,7 @@ def replay_width(
     sweepwidth.errors.WitnessError: the sweep ends at leash [...] (indices ...), not at the end leash [8] (indices 2, 2)
     """
     if weight not in ("weight", None, "vertices"):
-        raise SweepwidthError(f"unknown weight convention {weight!r}; valid: 'weight', None, 'vertices'")
+        raise InvalidArgumentError(f"unknown weight convention {weight!r}; valid: 'weight', None, 'vertices'")
     if not isinstance(witness, Mapping) or "start" not in witness or "moves" not in witness:
         raise WitnessError("a leash sweep witness is {'start': leash, 'moves': [...]}")
     m2 = 2 * P.number_of_edges()
@@ -241,7 +241,7 @@ def check_width(result: Any, obj: Any, **options: Any) -> float:
     valid = ("a", "b", "start", "end", "holes", "backward", "spikes", "simple", "weight")
     unknown = sorted(set(options) - set(valid))
     if unknown:
-        raise SweepwidthError(f"unknown checker option(s) {unknown}; valid: {', '.join(valid)}, tol")
+        raise InvalidArgumentError(f"unknown checker option(s) {unknown}; valid: {', '.join(valid)}, tol")
     kw = {k: recorded[k] for k in valid if k in recorded}
     kw.update(options)
     missing = [k for k in ("a", "b", "start", "end") if k not in kw]

@@ -62,6 +62,15 @@ Methods
                the monotone methods (equal by Brightwell and Winkler).
 =============  ============================================================
 
+Homotopy witnesses
+------------------
+Every homotopy of the same curves reduces mod 2 to a toggle sequence no
+wider than its height (:func:`sweepwidth.project_homotopy`);
+:func:`sweepwidth.solve_parameters` uses that projection as an upper bound
+here when it is better (as a face order read off it when one is no wider,
+else as a non-monotone witness, which from a disk's boundary is the same
+width by Brightwell and Winkler).
+
 Performance
 -----------
 Measured by ``benchmarks/_homology_rows.py``; the last run is in
@@ -100,7 +109,7 @@ from .face_sets import (
     toggle_search,
 )
 
-__all__ = ["homology_width", "solve_problem", "METHODS", "OPTIONS"]
+__all__ = ["homology_width", "solve_problem", "validate_arguments", "METHODS", "OPTIONS"]
 
 #: the built-in method names (from the method registry, :mod:`sweepwidth.solve.contract`)
 METHODS = tuple(sorted(builtin_names("homology"), key=list(methods("homology")).index))
@@ -146,6 +155,19 @@ def _validate(method: Any, monotone: Any, options: dict) -> None:
                 raise InvalidArgumentError(f"{k} must be a non-negative integer, got {v!r}")
 
 
+def validate_arguments(method: Any, monotone: Any, options: dict) -> None:
+    """Check a method name, the ``monotone`` flag and the options as :func:`homology_width` does.
+
+    Raises
+    ------
+    UnsupportedOptionError
+        An unknown method or option.
+    SweepwidthError
+        A ``monotone`` that is not a bool, a method that cannot honour it, a bad option value.
+    """
+    _validate(method, monotone, options)
+
+
 class _Outcome:
     """Bounds and a face order for one swept set."""
 
@@ -163,7 +185,9 @@ def _by_cutwidth(fs: FaceSweep, deadline: float | None, seed: int | None, floor:
     """Reduce to the cutwidth engine (exact for nested sweeps, a relaxation otherwise)."""
     nested = fs.nested
     info: dict[str, Any] = {"nested": nested}
-    share = None if deadline is None else time.monotonic() + 0.1 * max(0.0, _left(deadline))
+    # the greedy sweep is only a fallback witness: a small share, so that the cutwidth engine gets
+    # about the time a direct call would (benchmarks/NOTES.md, issue 11 measurements)
+    share = None if deadline is None else time.monotonic() + min(0.5, 0.02 * max(0.0, _left(deadline)))
     gw, gorder = greedy_sweep(fs, seed=seed, deadline=share)
     info["greedy_width"] = gw
     left = _left(deadline)
@@ -250,7 +274,7 @@ def _run_engine(G: Any, first: Any, last: Any, kw: dict, deadline: float | None,
     if left <= 0.1:
         info["cutwidth"] = "skipped: no time left"
         return None
-    sub = outer.within(max(0.05, 0.85 * left - 0.1))  # room for stages that overrun a little
+    sub = outer.within(max(0.05, left - 0.3))  # room for the engine's overrun (about 0.2 s measured)
     import multiprocessing
 
     if kw.get("method", "auto") in ("auto", "sat") and not multiprocessing.current_process().daemon:

@@ -18,7 +18,11 @@ Methods
     may toggle a face more than once, so the bound is the *non-monotone*
     homology width, except from the outer boundary to a point with only the
     outer face as a hole, where face orders are optimal (Brightwell and
-    Winkler) and the faster monotone width is used.  (From an interior curve a
+    Winkler) and the faster monotone width is used.  A lone call gives the
+    homology bound only a share of its time, so its lower bound can be below
+    what :func:`sweepwidth.homology_width` proves in the same time; solved
+    together (:func:`sweepwidth.solve_parameters`) the homotopy lower bound is
+    at least the homology one by construction.  (From an interior curve a
     homotopy can beat every face order: see ``test_interior_start_beats_face_orders``.)  Upper bound: an
     explicit homotopy, built by sweeping faces one at a time (below) for
     several face orders, keeping the best.
@@ -27,7 +31,14 @@ Methods
 'auto'
     'bounds' first; when a gap remains, the exact search (given the
     constructed homotopy as its upper bound) in the time left (without a time
-    limit only up to ``AUTO_SEARCH_FACES`` sweepable faces).
+    limit only up to ``AUTO_SEARCH_FACES`` sweepable faces).  When the search
+    stops early its settled level is kept as the lower bound: the search is a
+    bottleneck Dijkstra over walk states with keys clamped at the proven lower
+    bound, so when it pops a state of key ``h`` every homotopy of height
+    below ``h`` would have reached an end state earlier; none has, so the
+    height is at least ``h`` (``stats['bounds']['lower']`` says "exact search
+    (bottleneck levels settled)"; tested against the brute force in
+    ``tests/test_joint.py``).
     ``stats['auto']`` says what ran and why.
 
 Constructing a homotopy
@@ -1126,6 +1137,7 @@ def homotopy_bounds(
     seed: int | None = None,
     homology_budget: float | None = None,
     hard_deadline: float | None = None,
+    homology: tuple[float | None, dict, list | None] | None = None,
 ) -> dict:
     """Proven lower bound, best constructed homotopy and how each was obtained.
 
@@ -1141,6 +1153,12 @@ def homotopy_bounds(
     hard_deadline : float, optional
         Until no homotopy is built, constructions may run until this later
         deadline (so that a short time limit still ends with a witness).
+    homology : (lower, info, face order), optional
+        A homology result computed elsewhere (by :func:`sweepwidth.solve_parameters`):
+        its lower bound must be one for this homotopy problem (the
+        non-monotone width, or the monotone width from the outer boundary to
+        a point) and its face order is tried as a construction order.  The
+        homology bound is then not computed again.
 
     Returns
     -------
@@ -1176,7 +1194,9 @@ def homotopy_bounds(
             hom["result"] = (None, {"homology": f"failed: {type(err).__name__}: {err}"}, None)
 
     worker = None
-    if deadline is None:
+    if homology is not None:
+        hom["result"] = homology
+    elif deadline is None:
         run_homology()
     else:
         worker = threading.Thread(target=run_homology, daemon=True)
@@ -1335,6 +1355,7 @@ class _State:
         self.used = ""
         self.infeasible_reason: str | None = None
         self.max_memory: int | None = None  # None: the search's default
+        self.homology: tuple[float | None, dict, list | None] | None = None  # a homology result given from outside
 
     @property
     def gap_open(self) -> bool:
@@ -1344,7 +1365,7 @@ class _State:
 def _method_bounds(st: _State, share: float = 1.0) -> None:
     """Proven lower bound and the best constructed homotopy (see :func:`homotopy_bounds`)."""
     sub = None if st.deadline is None else st.t0 + share * (st.deadline - st.t0)
-    b = homotopy_bounds(st.H, deadline=sub, seed=st.seed, hard_deadline=st.deadline)
+    b = homotopy_bounds(st.H, deadline=sub, seed=st.seed, hard_deadline=st.deadline, homology=st.homology)
     st.lower, st.upper, st.witness = b["lower"], b["upper"], b["witness"]
     st.bounds = dict(b["bounds"])
     st.stats["orders"] = b["orders"]
@@ -1555,11 +1576,15 @@ def homotopy_height(
 
 
 def solve_problem(H: HomotopyProblem, *, method: str = "auto", deadline: Deadline, seed: int | None = None,
-                  started: float | None = None, max_memory: int | None = None) -> Result:
+                  started: float | None = None, max_memory: int | None = None,
+                  homology: tuple[float | None, dict, list | None] | None = None) -> Result:
     """Homotopy height of a built :class:`~sweepwidth.problems.homotopy.HomotopyProblem` under a :class:`Deadline`.
 
     The internal entry point behind :func:`homotopy_height`: arguments are
-    already checked and the deadline is passed down as it is.
+    already checked and the deadline is passed down as it is.  ``homology``
+    (lower bound, info, face order) is a homology result computed by the
+    caller, used instead of computing the homology bound again (see
+    :func:`homotopy_bounds`; :func:`sweepwidth.solve_parameters` passes it).
     """
     t0 = time.monotonic() if started is None else started
     entry = get_method("homotopy", method)
@@ -1571,6 +1596,7 @@ def solve_problem(H: HomotopyProblem, *, method: str = "auto", deadline: Deadlin
     stats["feasibility"] = reason
     st = _State(H, t0, deadline.at, seed, stats)
     st.max_memory = max_memory
+    st.homology = homology
     if entry.function is not None:
         _method_added(st, entry.load(), entry.name)  # type: ignore[arg-type]
     else:

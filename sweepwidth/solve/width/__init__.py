@@ -41,7 +41,7 @@ import math
 import time
 from typing import Any
 
-from ...errors import SweepwidthError, UnsupportedOptionError
+from ...errors import InvalidArgumentError, SweepwidthError, UnsupportedOptionError
 from ...problems.width import WidthProblem
 from ...result import Result
 from ._reuse import FreeGroup
@@ -164,9 +164,9 @@ def homotopy_width(
     if time_limit is not None:
         if isinstance(time_limit, bool) or not isinstance(time_limit, (int, float)) or not time_limit > 0 \
                 or math.isnan(time_limit):
-            raise SweepwidthError(f"time_limit must be a positive number of seconds or None, got {time_limit!r}")
+            raise InvalidArgumentError(f"time_limit must be a positive number of seconds or None, got {time_limit!r}")
     if seed is not None and (isinstance(seed, bool) or not isinstance(seed, int)):
-        raise SweepwidthError(f"seed must be an integer or None, got {seed!r}")
+        raise InvalidArgumentError(f"seed must be an integer or None, got {seed!r}")
     W = WidthProblem.build(P, a, b, start=start, end=end, backward=backward, spikes=spikes, simple=simple,
                            holes=holes, weight=weight)
     deadline = None if time_limit is None else t0 + float(time_limit)

@@ -1,0 +1,385 @@
+"""Several parameters of one plane graph at once, each using the others' bounds and witnesses.
+
+Definition
+----------
+For the same start curve, end condition and holes, reducing every walk of a
+homotopy mod 2 gives a homology sweep (:mod:`sweepwidth.solve.homotopy.projection`)
+no wider than the homotopy is high (edge weights are non-negative).  So
+
+* the *non-monotone* homology sweep width is at most the homotopy height
+  (always), and from the outer boundary to a point with the outer face the
+  only hole it equals the monotone width (Brightwell and Winkler), so there
+  the face-order width is at most the homotopy height too;
+* a homotopy witness projects to a homology sweep, an upper bound for the
+  homology width (in the cases above).
+
+:func:`solve_parameters` solves the homology width first (its lower bound
+and its best face order, which the cutwidth engine improved, go to the
+homotopy solver: the bound as the homotopy lower bound, the order as one of
+the construction orders), then the homotopy height, then projects the best
+homotopy witness and keeps it as the homology witness when it is narrower.
+
+Non-contradiction
+-----------------
+When the homology width compared is a lower bound of the homotopy height
+(the non-monotone width, or the monotone one from the outer boundary to a
+point), the results satisfy ``homology.lower <= homotopy.lower`` and
+``homology.upper <= homotopy.upper`` (``stats['joint']['comparable']`` is
+True).  Between interior curves the monotone width (face orders) can exceed
+the homotopy height, so with ``monotone=True`` there the homotopy solver
+computes its own non-monotone homology bound and only a face order read off
+the projected homotopy can improve the homology result (``comparable``
+False).
+
+Witness of a projected homology upper bound
+-------------------------------------------
+From the outer boundary to a point the homology witness must be a face
+order.  The projection is a toggle sequence; when a face order read off it
+(:func:`~sweepwidth.solve.homotopy.projection.best_face_order`) is no wider,
+that order is the witness.  Otherwise the result keeps the toggle sequence
+as a *non-monotone* witness (``stats['monotone'] = False``, replayed by the
+homology checker as such); its width is the same parameter there by
+Brightwell and Winkler's theorem.  ``stats['joint']['homology_upper']``
+says which.
+
+Benchmark tasks
+---------------
+A benchmark task is one (instance, parameter) row with its own child process
+and hard limit, so a pair is run as two tasks with the solvers
+:func:`paired_homology` and :func:`paired_homotopy`
+(``sweepwidth bench DIR --param homology --solver sweepwidth.solve.joint:paired_homology``):
+each task solves the pair in its limit and records its own parameter, with
+the other's bounds in ``stats['paired_with']``.  The guarantees above hold
+within a task; two rows of separate tasks come from separate runs.
+
+References
+----------
+.. [1] G. Brightwell and P. Winkler, "Submodular percolation", SIAM J.
+   Discrete Math. 23(3), 2009.
+.. [2] E. W. Chambers, G. R. Chambers, A. de Mesmay, T. Ophelders and
+   R. Rotman, "Constructing monotone homotopies and sweepouts", J. Geom.
+   Anal. 31, 2021 (arXiv 1704.06175).
+
+Examples
+--------
+>>> import sweepwidth as sw
+>>> from sweepwidth import generators
+>>> P = generators.grid(3, 4)
+>>> res = sw.solve_parameters(P, ["homology", "homotopy"], time_limit=5)
+>>> res["homology"].upper <= res["homotopy"].upper, res["homology"].lower <= res["homotopy"].lower
+(True, True)
+"""
+
+from __future__ import annotations
+
+import dataclasses
+import time
+from typing import Any, Iterable, Mapping
+
+from ..errors import InvalidArgumentError, SweepwidthError, UnsupportedOptionError
+from ..registry import PARAMETERS
+from ..result import Result
+from .contract import Deadline, check_seed, make_result
+
+__all__ = ["solve_parameters", "paired_homology", "paired_homotopy", "HOMOLOGY_SHARE"]
+
+#: share of the pair's time given to the homology width (the homotopy solver gets the rest and
+#: does not compute the homology bound again)
+HOMOLOGY_SHARE = 0.45
+
+_EPS = 1e-9
+_HOMOTOPY_KEYS = ("spikes", "simple", "monotone", "weight", "s", "t", "method", "max_memory")
+
+
+def _z2(darts: Iterable[int]) -> set[int]:
+    out: set[int] = set()
+    for d in darts:
+        out ^= {d >> 1}
+    return out
+
+
+def _replace(r: Result, **kw: Any) -> Result:
+    return dataclasses.replace(r, **kw)
+
+
+def solve_parameters(
+    P: Any,
+    parameters: Iterable[str] = ("homology", "homotopy"),
+    *,
+    time_limit: float | None = None,
+    seed: int | None = None,
+    start: Any = None,
+    end: Any = None,
+    holes: Any = None,
+    homology_options: Mapping[str, Any] | None = None,
+    homotopy_options: Mapping[str, Any] | None = None,
+    cutwidth_options: Mapping[str, Any] | None = None,
+) -> dict[str, Result]:
+    """Solve several parameters of ``P`` together; one :class:`Result` per parameter.
+
+    Parameters
+    ----------
+    P : PlaneGraph
+    parameters : iterable of str
+        Names from ``sweepwidth.registry.PARAMETERS`` ('cutwidth', 'homology',
+        'homotopy'); duplicates are ignored.
+    time_limit : float, optional
+        Seconds for all of them together: cutwidth (when asked) gets its
+        equal share, homology ``HOMOLOGY_SHARE`` of the rest and homotopy the
+        remainder.
+    seed : int, optional
+        Passed to every solver.
+    start, end, holes : optional
+        The start curve, end curve and holes, as for
+        :func:`sweepwidth.homotopy_height` (walks: dart lists, vertex lists
+        or ``{"vertex": v, "darts": [...]}``; default from the outer boundary
+        to a point, holes ``{P.outer_face}``).  The homology problem sweeps the
+        Z2 cycles of the same walks.
+    homology_options : mapping, optional
+        ``method``, ``monotone`` and the options of :func:`sweepwidth.homology_width`.
+    homotopy_options : mapping, optional
+        ``method``, ``spikes``, ``simple``, ``monotone``, ``weight``, ``s``,
+        ``t``, ``max_memory`` of :func:`sweepwidth.homotopy_height`.
+    cutwidth_options : mapping, optional
+        Keywords of :func:`sweepwidth.cutwidth` (``method`` and its options).
+
+    Returns
+    -------
+    dict
+        Parameter name -> Result, in the order asked.  Homology and homotopy
+        results carry ``stats['joint']``: what was shared and whether the two
+        are comparable (see the module docstring).
+
+    Raises
+    ------
+    UnsupportedOptionError
+        An unknown parameter or option.
+    InvalidArgumentError
+        No parameter, bad time limit or seed.
+
+    Notes
+    -----
+    The sum of the parts' costs (see each solver); the projection is linear
+    in the homotopy's moves.
+
+    Examples
+    --------
+    >>> from sweepwidth import generators
+    >>> res = solve_parameters(generators.wheel(5), ["cutwidth", "homotopy"], time_limit=5)
+    >>> sorted(res)
+    ['cutwidth', 'homotopy']
+    """
+    t0 = time.monotonic()
+    names: list[str] = []
+    for p in parameters:
+        if p not in PARAMETERS:
+            raise UnsupportedOptionError("parameter", p, sorted(PARAMETERS))
+        if p not in names:
+            names.append(p)
+    if not names:
+        raise InvalidArgumentError("solve_parameters needs at least one parameter")
+    dl = Deadline.from_limit(time_limit, start=t0)
+    seed = check_seed(seed)
+    hom_opts = dict(homology_options or {})
+    htp_opts = dict(homotopy_options or {})
+    for k in htp_opts:
+        if k not in _HOMOTOPY_KEYS:
+            raise UnsupportedOptionError("homotopy option", k, sorted(_HOMOTOPY_KEYS))
+    out: dict[str, Result] = {}
+    pair = "homology" in names and "homotopy" in names
+    others = [p for p in names if not (pair and p in ("homology", "homotopy"))]
+    n_parts = len(others) + (1 if pair else 0)
+
+    def share(k_left: int) -> float | None:
+        left = dl.remaining()
+        if left == float("inf"):
+            return None
+        return max(0.0, left / k_left)
+
+    from . import cutwidth, homology_width, homotopy_height
+
+    k_left = n_parts
+    for p in others:
+        lim = share(k_left)
+        k_left -= 1
+        if p == "cutwidth":
+            G = P.to_networkx() if hasattr(P, "to_networkx") and hasattr(P, "face_darts") else P
+            out[p] = cutwidth(G, time_limit=lim, seed=seed, **dict(cutwidth_options or {}))
+        elif p == "homology":
+            out[p] = homology_width(P, start=start, end=end, holes=holes, time_limit=lim, seed=seed, **hom_opts)
+        elif p == "homotopy":
+            out[p] = homotopy_height(P, start=start, end=end, holes=holes, time_limit=lim, seed=seed, **htp_opts)
+        else:  # a parameter added to the registry later: its public function with the shared limit
+            fn = PARAMETERS[p].solver()
+            out[p] = fn(P, time_limit=lim, seed=seed)
+    if pair:
+        hom, htp = _solve_pair(P, share(k_left), seed, start, end, holes, hom_opts, htp_opts)
+        out["homology"], out["homotopy"] = hom, htp
+    return {p: out[p] for p in names}
+
+
+def _solve_pair(P: Any, limit: float | None, seed: int | None, start: Any, end: Any, holes: Any,
+                hom_opts: dict, htp_opts: dict) -> tuple[Result, Result]:
+    from ..problems.cycles import HomologyProblem
+    from ..problems.homotopy import HomotopyProblem
+    from . import homology_width, homotopy_height
+    from .homology import solve_problem as solve_homology
+    from .homotopy import solve_problem as solve_homotopy
+    from .homotopy.projection import best_face_order, project_homotopy
+
+    t0 = time.monotonic()
+    dl = Deadline.from_limit(limit, start=t0)
+    weight = htp_opts.get("weight", "weight")
+    H = HomotopyProblem.build(P, start=start, end=end, spikes=htp_opts.get("spikes", True),
+                              simple=htp_opts.get("simple", False), monotone=htp_opts.get("monotone", False),
+                              length=weight, holes=holes, s=htp_opts.get("s"), t=htp_opts.get("t"))
+    if not H.closed or H.length != "weight":
+        # nothing to share: open walks (the homology sweep is of cycles) or vertex counts (other units)
+        why = "open walks" if not H.closed else "homotopy measured in vertices"
+        lim1 = None if limit is None else HOMOLOGY_SHARE * dl.remaining()
+        r1 = homology_width(P, start=start, end=end, holes=holes, time_limit=lim1, seed=seed, **hom_opts)
+        rest = None if limit is None else dl.remaining()
+        r2 = homotopy_height(P, start=start, end=end, holes=holes, time_limit=rest, seed=seed, **htp_opts)
+        note = {"comparable": False, "shared": f"nothing ({why})"}
+        return (_replace(r1, stats={**r1.stats, "joint": note}), _replace(r2, stats={**r2.stats, "joint": note}))
+    method = hom_opts.pop("method", "auto")
+    monotone = hom_opts.pop("monotone", True)
+    if not isinstance(monotone, bool):
+        raise InvalidArgumentError(f"monotone must be True or False, got {monotone!r}")
+    z0 = _z2(H.start.darts)
+    z1 = _z2(H.end.darts) if H.end is not None else set()
+    disk = (not z1) and H.holes == frozenset({P.outer_face}) and z0 == set(P.face_boundary_cycle(P.outer_face))
+    comparable = disk or not monotone
+    # the homology width of the same Z2 cycles, in this process (its cutwidth engine uses the time as a
+    # direct call would)
+    from .homology import validate_arguments as validate_homology
+
+    validate_homology(method, monotone, hom_opts)
+    # edge-id sets (a list of ints could also read as a walk through vertices)
+    problem = HomologyProblem.build(P, set(z0), set(z1), sorted(H.holes))
+    h_dl = dl if limit is None else Deadline.from_limit(HOMOLOGY_SHARE * dl.remaining())
+    r1 = solve_homology(problem, method=method, deadline=h_dl, seed=seed, monotone=monotone, options=hom_opts)
+    order = list(r1.witness) if isinstance(r1.witness, list) and r1.stats.get("monotone", True) else None
+    hint: tuple[float | None, dict, list | None] | None
+    if not comparable:
+        hint = None  # the homotopy solver computes its own (non-monotone) homology bound
+    elif r1.status == "infeasible" or r1.lower is None:
+        hint = (None, {"homology": "infeasible or no bound"}, order)
+    else:
+        hint = (float(r1.lower),
+                {"homology": {"status": r1.status, "lower": r1.lower, "upper": r1.upper, "method": r1.method,
+                              "seconds": round(r1.seconds, 3), "monotone": monotone, "from": "solve_parameters"}},
+                order)
+    h_method = htp_opts.get("method", "auto")
+    r2 = solve_homotopy(H, method=h_method, deadline=Deadline.at_time(dl.at), seed=seed, max_memory=htp_opts.get("max_memory"),
+                        homology=hint)
+    joint: dict[str, Any] = {"comparable": comparable, "homology_to_homotopy": "none", "homotopy_to_homology": "none"}
+    # homotopy lower bound >= homology lower bound (when comparable)
+    if comparable and r1.lower is not None and r2.status != "infeasible":
+        lo2 = r2.lower if r2.lower is not None else 0.0
+        if float(r1.lower) > lo2 + _EPS:
+            r2 = make_result("homotopy", lower=float(r1.lower), upper=r2.upper, witness=r2.witness, method=r2.method,
+                             seconds=r2.seconds, stats={**r2.stats, "bounds": {**dict(r2.stats.get("bounds") or {}),
+                                                                                 "lower": "homology sweep width (joint solve)"}})
+        joint["homology_to_homotopy"] = f"lower bound {r1.lower:g} and face order ({len(order or [])} faces)"
+    else:
+        joint["homology_to_homotopy"] = "none: the monotone width is no homotopy bound between interior curves"
+    # homology upper bound <= homotopy upper bound, through the projection (when comparable)
+    if r2.witness is not None and r1.status != "infeasible":
+        proj = project_homotopy(P, r2.witness)
+        pw = float(proj["width"])
+        joint["projected_width"] = pw
+        up1 = float("inf") if r1.upper is None else float(r1.upper)
+        new: tuple[float, list[int], bool, str] | None = None
+        if monotone:
+            fo = best_face_order(P, z0, proj["toggles"])
+            if fo is not None and fo[0] < up1 - _EPS and _ends_at(P, z0, fo[1], z1):
+                new = (fo[0], fo[1], True, "face order read off the projected homotopy")
+            elif comparable and pw < min(up1, fo[0] if fo else float("inf")) - _EPS:
+                new = (pw, list(proj["toggles"]), False,
+                       "projected homotopy as a non-monotone toggle sequence (equal width class by Brightwell-Winkler)")
+        elif pw < up1 - _EPS:
+            new = (pw, list(proj["toggles"]), False, "projected homotopy (toggle sequence)")
+        if new is not None:
+            w, wit, mono, how = new
+            old_bounds = r1.stats.get("bounds")
+            bounds = dict(old_bounds) if isinstance(old_bounds, dict) else {"lower": old_bounds}
+            bounds["upper"] = how
+            st = {**r1.stats, "monotone": mono if monotone else False, "bounds": bounds}
+            st["swept"] = sorted(_odd(wit))
+            lo1 = float(r1.lower) if r1.lower is not None else 0.0
+            r1 = make_result("homology", lower=lo1, upper=w, witness=wit, method=r1.method + "+projection",
+                             seconds=r1.seconds, stats=st)
+            joint["homotopy_to_homology"] = how
+            joint["homology_upper"] = "face order" if mono else "toggle sequence (non-monotone witness)"
+    r1 = _replace(r1, stats={**r1.stats, "joint": joint})
+    r2 = _replace(r2, stats={**r2.stats, "joint": joint})
+    return r1, r2
+
+
+def _odd(toggles: Iterable[int]) -> set[int]:
+    s: set[int] = set()
+    for f in toggles:
+        s ^= {f}
+    return s
+
+
+def _ends_at(P: Any, z0: set[int], faces: Iterable[int], z1: set[int]) -> bool:
+    cur = set(z0)
+    for f in faces:
+        odd: set[int] = set()
+        for d in P.face_darts(f):
+            odd ^= {int(d) >> 1}
+        cur ^= odd
+    return cur == set(z1)
+
+
+def _paired(parameter: str, obj: Any, method: str, time_limit: float | None, seed: int | None,
+            options: dict) -> Result:
+    hom_opts = {k: v for k, v in options.items() if k not in ("start", "end", "holes")} if parameter == "homology" else {}
+    htp_opts = {k: v for k, v in options.items() if k not in ("start", "end", "holes")} if parameter == "homotopy" else {}
+    if method != "auto":
+        (hom_opts if parameter == "homology" else htp_opts)["method"] = method
+    res = solve_parameters(obj, ["homology", "homotopy"], time_limit=time_limit, seed=seed,
+                           start=options.get("start"), end=options.get("end"), holes=options.get("holes"),
+                           homology_options=hom_opts, homotopy_options=htp_opts)
+    other = "homotopy" if parameter == "homology" else "homology"
+    r = res[parameter]
+    o = res[other]
+    return _replace(r, stats={**r.stats, "paired_with": {"parameter": other, "lower": o.lower, "upper": o.upper}})
+
+
+def paired_homology(obj: Any, *, method: str = "auto", time_limit: float | None = None, seed: int | None = None,
+                    progress: Any = None, **options: Any) -> Result:
+    """A benchmark-task solver: the homology result of :func:`solve_parameters` on the pair.
+
+    For ``sweepwidth bench DIR --param homology --solver
+    sweepwidth.solve.joint:paired_homology`` (see :class:`sweepwidth.bench.tasks.Task`):
+    the whole time limit goes to the pair (the task's child is killed at
+    its limit plus a grace), and the homotopy result it was paired with is
+    in ``stats['paired_with']``.  ``method`` and ``options`` apply to the
+    homology side; ``progress`` is not used.
+
+    Examples
+    --------
+    >>> from sweepwidth import generators
+    >>> paired_homology(generators.grid(3, 3), time_limit=5).stats["paired_with"]["parameter"]
+    'homotopy'
+    """
+    return _paired("homology", obj, method, time_limit, seed, options)
+
+
+def paired_homotopy(obj: Any, *, method: str = "auto", time_limit: float | None = None, seed: int | None = None,
+                    progress: Any = None, **options: Any) -> Result:
+    """A benchmark-task solver: the homotopy result of :func:`solve_parameters` on the pair.
+
+    As :func:`paired_homology`, for ``--param homotopy``; ``method`` and
+    ``options`` apply to the homotopy side.
+
+    Examples
+    --------
+    >>> from sweepwidth import generators
+    >>> paired_homotopy(generators.grid(3, 3), time_limit=5).value
+    8.0
+    """
+    return _paired("homotopy", obj, method, time_limit, seed, options)
