@@ -1213,7 +1213,7 @@ def main(argv: Sequence[str] | None = None) -> int:
 
     Examples
     --------
-    >>> main(["solve", "no-such-file.json"])
+    >>> main(["solve", "no-such-file.json", "--param", "girth"])
     1
     """
     parser = build_parser()
