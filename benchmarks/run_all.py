@@ -23,6 +23,7 @@ SCRIPTS = {
     "homotopy_bounds.py": ([], ["--full"]),
     "runner_overhead.py": ([], []),
     "io_read.py": (["--edges", "100000"], ["--auto"]),
+    "bounds.py": (["--quick"], []),
 }
 
 
