@@ -14,15 +14,25 @@ cut and parallel edges add up.
 Methods
 -------
 ==============  ===========================================================
-'auto'          forest -> 'tree'; at most 16 unpinned vertices -> 'dp';
-                otherwise cheap lower bounds and a heuristic ordering (stop
-                if they meet), costly bounds and local search (stop if they
-                meet); above 3000 vertices that is all; else a 'bnb' run
-                (40 % of the time left, or 10 s + n / 20 s without a
-                limit), then 'sat' (integral weights, or rationals with a
-                small common denominator, up to 400 vertices, with at least
-                1.5 s left) or 'bnb' for the rest of the time.
-                ``stats['auto']`` says what was chosen and why.
+'auto'          unit-weight forest -> the tree bounds and layouts
+                (:mod:`.trees`), then 'bnb' from them if they differ; at
+                most 16 unpinned vertices -> 'dp'; otherwise (weighted
+                forests too) cheap lower bounds and a heuristic ordering
+                (stop if they meet), costly bounds and local search (stop
+                if they meet); above 3000 vertices the flow bound
+                (:mod:`.flow`, a quarter of the time) and the kick search
+                (:mod:`.local_search`) for the rest; else a 'bnb' run (40 %
+                of the time left up to 64 vertices, else 15 % but at least
+                3 s; 10 s + n / 20 s without a limit), and if it does not
+                finish the flow bound (20 %, stopped once it reaches the
+                upper bound), the kick search (stopped once it reaches the
+                lower bound; a quarter of the time and at most
+                0.5 + n / 40 s before 'sat', 60 % above 400 vertices), then
+                'sat' (integral weights, or rationals with a small common
+                denominator, up to 400 vertices, with at least 1.5 s left)
+                or 'bnb' for the rest of the time.  ``stats['auto']`` says
+                what was chosen and why (``chain``: the stages run),
+                ``stats['lower_bounds']`` each lower bound's value.
 'dp'            subset dynamic programming (:mod:`.dp`), exact,
                 ``O(2^n n)`` time and ``16 * 2^n`` bytes.
 'bnb'           threshold search over prefix sets (:mod:`.bnb`),
@@ -35,6 +45,10 @@ Methods
                 cost; exact.
 'heuristic'     constructions plus local search (:mod:`.heuristics`)
                 and the lower bounds of :mod:`.bounds`; bounded.
+'search'        as 'heuristic', then the flow bound (a quarter of the
+                time) and the kick search of :mod:`.local_search` until the
+                time is up or the bounds meet (without a limit
+                5 s + n / 100 s); bounded.
 callable        ``fn(problem, *, lower, upper, upper_order, deadline, seed,
                 **options)`` returning an object with ``lower``, ``upper``,
                 ``order`` (on the problem's vertex indices) and optionally
@@ -102,6 +116,50 @@ def _heuristic(P: OrderingProblem, seed: int | None, deadline: float | None, imp
     frac = 0.25 if P.n <= _BIG else 0.7  # exact methods are hopeless on big graphs
     share = frac * _left(deadline) if deadline is not None else 5.0 + P.n / 500.0
     return heuristic_ordering(P, seed=seed, deadline=_sub_deadline(deadline, share), improve=improve, effort=effort, target=target)
+
+
+_SMALL = 64  # up to this many vertices the prefix-set search keeps its long first slice
+
+
+def _flow_stage(P: OrderingProblem, lbs: dict[str, float], lb: float, ub: float, deadline: float | None,
+                seconds: float, seed: int | None) -> float:
+    """The concurrent-flow bound in its share of the time, stopped once it reaches ``ub``.
+
+    Records its value in ``lbs['flow']``; returns the new lower bound.
+    """
+    from .flow import flow_bound
+
+    if seconds <= 0.05:
+        return lb
+    fb = flow_bound(P, _sub_deadline(deadline, seconds), seed=0 if seed is None else seed, target=ub)
+    lbs["flow"] = fb
+    return max(lb, fb)
+
+
+def _search_stage(P: OrderingProblem, lb: float, ub: float, order: list[int], deadline: float | None,
+                  seconds: float, seed: int | None, stats: dict[str, Any]) -> tuple[float, list[int]]:
+    """The kick search from ``order`` and the constructions, in its share of the time.
+
+    Stops once it reaches ``lb``; keeps every improvement (so the best ordering
+    survives whatever stops the search), records its stats in ``stats['search']``.
+    """
+    from .local_search import search_orderings, start_orderings
+
+    if seconds <= 0.05:
+        return ub, order
+    end = _sub_deadline(deadline, seconds)
+    best: list[Any] = [ub, order]
+
+    def keep(width: float, o: list[int]) -> None:
+        if width < best[0] - 1e-12:
+            best[0], best[1] = width, list(o)
+
+    starts = [order] + start_orderings(P, seed=seed, deadline=time.monotonic() + 0.1 * max(0.0, end - time.monotonic()))
+    w, o, st = search_orderings(P, end, start_orders=starts, seed=seed, on_improve=keep, target=lb)
+    keep(w, o)
+    st = dict(st, width=best[0])
+    stats["search"] = st
+    return float(best[0]), best[1]
 
 
 def _dp_child(P, max_memory, *, progress=None):
@@ -192,7 +250,7 @@ METHODS: dict[str, Callable[..., Outcome]] = {
     "sat": _m_sat,
     "tree": _m_bnb,
 }
-assert set(METHODS) | {"auto", "heuristic"} == builtin_names("cutwidth"), "registry and dispatcher disagree"
+assert set(METHODS) | {"auto", "heuristic", "search"} == builtin_names("cutwidth"), "registry and dispatcher disagree"
 
 
 class _Named:
@@ -281,6 +339,14 @@ def _solve_part(P: OrderingProblem, method: Any, deadline: float | None, seed: i
         return _Part(hw, hw, horder, stats, name)
     if method == "heuristic":
         return _Part(lb, hw, horder, stats, "heuristic")
+    if method == "search":
+        flow_s = 0.25 * _left(deadline) if deadline is not None else 1.0 + n / 200.0
+        lb = _flow_stage(P, lbs, lb, hw, deadline, flow_s, seed)
+        if lb < hw - 1e-9:
+            search_s = _left(deadline) if deadline is not None else 5.0 + n / 100.0
+            hw, horder = _search_stage(P, lb, hw, horder, deadline, search_s, seed, stats)
+        stats["bounds_seconds"] = time.monotonic() - t0
+        return _Part(hw if lb >= hw - 1e-9 else lb, hw, horder, stats, "search")
     if callable(method):
         out = method(P, lower=lb, upper=hw, upper_order=horder, deadline=deadline, seed=seed, **opts)
         order = list(out.order) if getattr(out, "order", None) is not None else horder
@@ -302,6 +368,33 @@ def _solve_part(P: OrderingProblem, method: Any, deadline: float | None, seed: i
     return _Part(max(lb, lo) if up > lo else up, up, order, stats, method)
 
 
+def _unit(P: OrderingProblem) -> bool:
+    return bool(P.m) and bool(np.all(P.weights == 1.0))
+
+
+def _tree_part(P: OrderingProblem, deadline: float | None, seed: int | None, max_states: int) -> _Part:
+    """A unit-weight forest: the tree bounds and layouts, then the prefix-set search if they differ.
+
+    ``stats['chain']`` lists the stages run.
+    """
+    from .trees import tree_cutwidth
+
+    share = 0.3 * _left(deadline) if deadline is not None else 1.0 + P.n / 1000.0
+    out = tree_cutwidth(P, _sub_deadline(deadline, share), seed=seed)
+    stats: dict[str, Any] = {"lower_bounds": dict(out.stats.get("lower_bounds", {})), "tree": out.stats}
+    chain = ["tree"]
+    if out.optimal:
+        stats["chain"] = chain
+        return _Part(out.upper, out.upper, out.order, stats, "tree")
+    # the prefix-set search from the tree bounds (its free-move rule places leaves at no cost)
+    res = solve_bnb(P, lower=out.lower, upper=out.upper, upper_order=out.order, deadline=deadline, max_states=max_states)
+    chain.append("bnb")
+    stats["bnb"] = dict(res.stats)
+    stats["chain"] = chain
+    lo, up = max(out.lower, res.lower), res.upper
+    return _Part(up if res.optimal or lo >= up - 1e-9 else lo, up, res.order, stats, "tree")
+
+
 def _auto_part(P: OrderingProblem, deadline: float | None, seed: int | None, options: dict) -> _Part:
     """'auto' on one component: pick by size and structure, record why."""
     n = P.n
@@ -318,10 +411,10 @@ def _auto_part(P: OrderingProblem, deadline: float | None, seed: int | None, opt
         p.method = "trivial"
         return p
     free = n - len(P.first) - len(P.last)
-    if P.is_forest():
-        p = _solve_part(P, "tree", deadline, seed, {"max_states": max_states, "improve": improve})
-        p.stats["auto"] = {"choice": "tree", "reason": "the graph is a forest"}
-        p.method = "tree"
+    forest = P.is_forest()
+    if forest and _unit(P):
+        p = _tree_part(P, deadline, seed, max_states)
+        p.stats["auto"] = {"choice": "tree", "reason": "a unit-weight forest", "chain": p.stats.pop("chain")}
         return p
     nbytes, secs = dp_estimate(P)
     if free <= dp_limit and nbytes <= max_memory and secs <= _left(deadline):
@@ -329,6 +422,8 @@ def _auto_part(P: OrderingProblem, deadline: float | None, seed: int | None, opt
         p.stats["auto"] = {"choice": "dp", "reason": f"{free} unpinned vertices (<= {dp_limit})"}
         return p
     why: list[str] = []
+    if forest:
+        why.append("a weighted forest: the general methods")
     if free <= dp_limit:
         why.append(f"dp skipped: needs {nbytes / 2**20:.0f} MiB / about {secs:.1f} s")
     p = _solve_part(P, "heuristic", deadline, seed, {"improve": improve})
@@ -338,13 +433,27 @@ def _auto_part(P: OrderingProblem, deadline: float | None, seed: int | None, opt
         p.method = "heuristic"
         return p
     lb, ub, order = p.lower, p.upper, p.order
+    lbs = stats["lower_bounds"]
     chain = ["heuristic"]
     if n > _BIG:
-        stats["auto"] = {"choice": "heuristic", "reason": f"{n} vertices: only bounds and heuristics (exact search above {_BIG} vertices is hopeless)", "notes": why}
-        p.method = "heuristic"
-        return p
-    # a short prefix-set search first: on sparse graphs of small width it is instant
-    slice_s = 0.4 * _left(deadline) if deadline is not None else 10.0 + n / 20.0
+        # exact search is hopeless: the flow bound, then the kick search for the rest
+        flow_s = 0.25 * _left(deadline) if deadline is not None else 2.0 + n / 500.0
+        lb = _flow_stage(P, lbs, lb, ub, deadline, flow_s, seed)
+        chain.append("flow")
+        if lb < ub - 1e-9:
+            search_s = _left(deadline) if deadline is not None else 5.0 + n / 200.0
+            ub, order = _search_stage(P, lb, ub, order, deadline, search_s, seed, stats)
+            chain.append("search")
+        choice = "search" if "search" in chain else "flow"
+        stats["auto"] = {"choice": choice, "reason": f"{n} vertices: only bounds and searches (exact search above {_BIG} vertices is hopeless)", "chain": chain, "notes": why}
+        return _Part(ub if lb >= ub - 1e-9 else lb, ub, order, stats, choice)
+    # a prefix-set search first: on sparse graphs of small width it is instant
+    if deadline is None:
+        slice_s = 10.0 + n / 20.0
+    elif n <= _SMALL:
+        slice_s = 0.4 * _left(deadline)
+    else:
+        slice_s = min(0.4 * _left(deadline), max(3.0, 0.15 * _left(deadline)))
     out = solve_bnb(P, lower=lb, upper=ub, upper_order=order, deadline=_sub_deadline(deadline, slice_s), max_states=min(max_states, 1_000_000))
     chain.append("bnb")
     stats["bnb"] = dict(out.stats)
@@ -352,10 +461,32 @@ def _auto_part(P: OrderingProblem, deadline: float | None, seed: int | None, opt
     if out.optimal or lb >= ub - 1e-9:
         stats["auto"] = {"choice": "bnb", "reason": "prefix-set search finished within its slice", "chain": chain, "notes": why}
         return _Part(ub, ub, order, stats, "bnb")
-    if _left(deadline) <= 0.3:
-        stats["auto"] = {"choice": "bnb", "reason": "time limit reached", "chain": chain, "notes": why}
-        return _Part(lb, ub, order, stats, "bnb")
     q = P.integer_scale()
+    sat_next = q is not None and n <= _SAT_MAX_N
+    # the exact searches did not finish: a stronger lower bound and a better
+    # ordering (each stops once it meets the other bound), then the exact
+    # method for the rest of the time, from the improved bounds
+    if _left(deadline) > 0.5:
+        flow_s = 0.2 * _left(deadline) if deadline is not None else 1.0 + n / 200.0
+        lb = _flow_stage(P, lbs, lb, ub, deadline, flow_s, seed)
+        chain.append("flow")
+        if lb >= ub - 1e-9:
+            stats["auto"] = {"choice": "flow", "reason": "the flow bound met the upper bound", "chain": chain, "notes": why}
+            return _Part(ub, ub, order, stats, "flow")
+    if _left(deadline) > 0.5:
+        if n > _SAT_MAX_N:
+            frac, cap = 0.6, math.inf  # the exact methods are hopeless here: searching pays more
+        else:
+            frac, cap = (0.25 if sat_next else 0.3), 0.5 + n / 40.0
+        search_s = min(frac * _left(deadline), cap) if deadline is not None else 2.0 + n / 100.0
+        ub, order = _search_stage(P, lb, ub, order, deadline, search_s, seed, stats)
+        chain.append("search")
+        if lb >= ub - 1e-9:
+            stats["auto"] = {"choice": "search", "reason": "the kick search met the lower bound", "chain": chain, "notes": why}
+            return _Part(ub, ub, order, stats, "search")
+    if _left(deadline) <= 0.3:
+        stats["auto"] = {"choice": chain[-1], "reason": "time limit reached", "chain": chain, "notes": why}
+        return _Part(lb, ub, order, stats, chain[-1])
     if q is not None and deadline is not None and _left(deadline) < 1.5:
         why.append("sat skipped: less than 1.5 s left")
     elif q is not None and n > _SAT_MAX_N:
@@ -406,7 +537,7 @@ def cutwidth(
     G : networkx.Graph, MultiGraph, or an object with ``to_networkx()``
         Loops are ignored, parallel edges add up, directions are dropped.
     method : str or callable
-        'auto', 'dp', 'bnb', 'sat', 'tree', 'heuristic', or a callable (see the
+        'auto', 'dp', 'bnb', 'sat', 'tree', 'heuristic', 'search', or a callable (see the
         module docstring).
     time_limit : float, optional
         Seconds.  When it runs out the result is 'bounded' with the best

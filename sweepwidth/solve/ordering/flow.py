@@ -72,6 +72,7 @@ def flow_bound(
     seed: int = 0,
     alpha: float = 8.0,
     terminals: Iterable[Hashable] | None = None,
+    target: float | None = None,
 ) -> float:
     """Concurrent multicommodity-flow lower bound on the cutwidth.
 
@@ -126,6 +127,9 @@ def flow_bound(
         ``|U - last|`` is met by a counted prefix).  By default all vertices,
         then the three densest k-cores (a k-core of a dense part makes the
         bound see that part alone), each in its share of the time.
+    target : float, optional
+        Stop as soon as the bound reaches this value (a known upper bound:
+        more work cannot help then).
 
     Returns
     -------
@@ -180,7 +184,9 @@ def flow_bound(
             rest = sum(len(x) for x in comps[i:])
             sub_deadline = time.monotonic() + left * len(c) / max(rest, 1)
         sub = problem if len(c) == n else problem.subproblem(c)
-        best = max(best, _flow_component(sub, sub_deadline, seed, alpha, terminals))
+        best = max(best, _flow_component(sub, sub_deadline, seed, alpha, terminals, target))
+        if target is not None and best >= target:
+            break
     return best
 
 
@@ -207,7 +213,8 @@ def _terminal_sets(problem: OrderingProblem) -> list[np.ndarray]:
 
 
 def _flow_component(
-    problem: OrderingProblem, deadline: float | None, seed: int, alpha: float, terminals: Iterable[Hashable] | None
+    problem: OrderingProblem, deadline: float | None, seed: int, alpha: float, terminals: Iterable[Hashable] | None,
+    target: float | None = None,
 ) -> float:
     if terminals is not None:
         U = np.zeros(problem.n, dtype=bool)
@@ -228,11 +235,15 @@ def _flow_component(
             # half the time for all vertices, the rest shared by the cores
             share = left if i == len(sets) - 1 else (0.5 * left if i == 0 else left / (len(sets) - i))
             d = time.monotonic() + share
-        best = max(best, _flow_connected(problem, U, d, seed, alpha))
+        best = max(best, _flow_connected(problem, U, d, seed, alpha, target))
+        if target is not None and best >= target:
+            break
     return best
 
 
-def _flow_connected(problem: OrderingProblem, U: np.ndarray, deadline: float | None, seed: int, alpha: float) -> float:
+def _flow_connected(
+    problem: OrderingProblem, U: np.ndarray, deadline: float | None, seed: int, alpha: float, target: float | None = None
+) -> float:
     n, m = problem.n, problem.m
     if n < 2 or m == 0:
         return 0.0
@@ -290,6 +301,8 @@ def _flow_connected(problem: OrderingProblem, U: np.ndarray, deadline: float | N
             c = float(np.max(load / w))
             if c > 0 and math.isfinite(c):  # 0 or inf only when weights underflow: no bound from this pass
                 best = max(best, _separated(u, mu_total[srcs], kind[srcs], lo, hi) / c)
+            if target is not None and _sound(best, integral) >= target:
+                return _sound(best, integral)
         if pos >= u:
             passes += 1
             c = float(np.max(pass_load / w))

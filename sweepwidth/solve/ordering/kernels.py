@@ -885,6 +885,8 @@ def warm_up() -> None:
     order = np.arange(3, dtype=np.int64)
     prof, pos = profile(order, indptr, indices, wts)
     window_pass(order, pos, prof, indptr, indices, wts, np.array([0], dtype=np.int64), 3, 2.0, 1e-9)
+    route_sources(3, indptr, indices, eid, np.ones(2), np.ones(3), np.zeros(2), np.zeros(2),
+                  np.array([0], dtype=np.int64), 8.0, 0.0)
     _WARM[0] = True
 
 
