@@ -88,7 +88,7 @@ import numpy as np
 import scipy.sparse
 import scipy.sparse.csgraph
 
-from ...errors import InvalidArgumentError
+from ...errors import InvalidArgumentError, ProblemTooLargeError
 from ...problems.ordering import OrderingProblem
 from . import kernels
 
@@ -151,7 +151,7 @@ def _rotation(problem: OrderingProblem, planar_embedding: Any) -> list[list[int]
 
 
 def _face_graph(
-    rot: list[list[int]], weight: dict[tuple[int, int], float], base: int
+    rot: list[list[int]], weight: dict[tuple[int, int], float], base: int, mu: np.ndarray
 ) -> tuple[int, np.ndarray, np.ndarray, np.ndarray, int]:
     """Faces, the dual arcs (tail, head, length, phi) of every edge, for a connected graph."""
     n = len(rot)
@@ -184,7 +184,7 @@ def _face_graph(
             if parent[u] < 0:
                 parent[u] = v
                 order.append(u)
-    size = np.ones(n, dtype=np.int64)
+    size = np.array(mu, dtype=np.int64)  # area below and at each vertex
     for v in reversed(order[1:]):
         size[parent[v]] += size[v]
     tails, heads, lens, phis = [], [], [], []
@@ -232,74 +232,6 @@ def _cheap_upper(problem: OrderingProblem) -> float:
     return problem.width(order)
 
 
-def walk_profile(
-    problem: OrderingProblem,
-    *,
-    base: int = 0,
-    modulus: int | None = None,
-    cap: float = math.inf,
-    planar_embedding: Any = None,
-    deadline: float | None = None,
-) -> np.ndarray | None:
-    """``min(g, cap)``: least length of closed face-graph walks per area residue.
-
-    See the module notes for the definition of ``g`` (base vertex ``base``,
-    residues mod ``modulus``, default ``n``).  Every cut ``S`` avoiding the base
-    weighs at least ``g[|S| % modulus]``, one containing it at least
-    ``g[(|S| - n) % modulus]``.  Returns None when the deadline passes first.
-
-    Examples
-    --------
-    >>> import networkx as nx
-    >>> P = OrderingProblem.from_graph(nx.cycle_graph(6))
-    >>> [float(x) for x in walk_profile(P)]   # every proper cut of a cycle has two edges
-    [0.0, 2.0, 2.0, 2.0, 2.0, 2.0]
-    """
-    n = problem.n
-    M = int(modulus or n)
-    if n <= 1:
-        return np.zeros(max(M, 1))
-    if not 0 <= base < n or M < 1:
-        raise InvalidArgumentError(f"base {base} must be a vertex index and modulus {M} positive")
-    weight = {(int(u), int(v)): float(w) for (u, v), w in zip(problem.edges.tolist(), problem.weights.tolist())}
-    rot = _rotation(problem, planar_embedding)
-    # join the components by weight-0 edges (no cut changes), inserted anywhere in the rotations
-    ncomp, lab = problem.component_labels()
-    if ncomp > 1:
-        reps = [int(np.flatnonzero(lab == c)[0]) for c in range(ncomp)]
-        for a, b in zip(reps, reps[1:]):
-            key = (min(a, b), max(a, b))
-            weight[key] = 0.0
-            rot[a].append(b)
-            rot[b].append(a)
-    nf, tail, head, length, phi = _face_graph(rot, weight, base)
-    # arcs both ways, residues taken mod M
-    src = np.concatenate([tail, head])
-    dst = np.concatenate([head, tail])
-    ln = np.concatenate([length, length])
-    ph = np.concatenate([phi, -phi]) % M
-    order = np.argsort(src, kind="stable")
-    indptr = np.zeros(nf + 1, dtype=np.int64)
-    np.add.at(indptr, src + 1, 1)
-    indptr = np.cumsum(indptr)
-    dst, ln, ph = dst[order], ln[order], ph[order].astype(np.int64)
-    # plain distances between faces, for the can-it-still-close test
-    back = _face_distances(nf, src[order], dst, ln)
-    K = float(cap) if math.isfinite(cap) else float(np.sum(problem.weights)) + 1.0
-    h = np.full(M, np.inf)
-    h[0] = 0.0
-    step = max(1, int(2e6 // max(1, indptr[-1] * M // max(nf, 1) + 1)))
-    s = 0
-    while s < nf:
-        if deadline is not None and time.monotonic() > deadline:
-            return None
-        e = min(nf, s + step)
-        kernels.walk_areas(nf, indptr, dst, ln, ph, M, K * (1 + 1e-12) + 1e-12, back, s, e, h)
-        s = e
-    g = kernels.residue_closure(h, M)
-    return np.minimum(g, K)
-
-
 def _face_distances(nf: int, a: np.ndarray, b: np.ndarray, ln: np.ndarray) -> np.ndarray:
     """A lower bound on the distance between any two faces (used only to prune).
 
@@ -319,6 +251,110 @@ def _face_distances(nf: int, a: np.ndarray, b: np.ndarray, ln: np.ndarray) -> np
     return np.maximum(back - eps * (nf + 1), 0.0)
 
 
+STATE_BYTES = 32  # per (face, residue) state: distance, heap position, heap slot, touched list
+DEFAULT_MAX_MEMORY = 1 << 29  # 512 MiB for the walk search (states and face distances)
+
+
+def _face_count(problem: OrderingProblem) -> int:
+    """Faces of a plane embedding of the (joined) graph, by Euler's formula: an estimate otherwise."""
+    ncomp, _ = problem.component_labels()
+    return max(1, problem.m + (ncomp - 1) - problem.n + 2)
+
+
+def walk_profile(
+    problem: OrderingProblem,
+    *,
+    base: int = 0,
+    modulus: int | None = None,
+    cap: float = math.inf,
+    area: np.ndarray | None = None,
+    planar_embedding: Any = None,
+    deadline: float | None = None,
+    max_memory: int = DEFAULT_MAX_MEMORY,
+) -> np.ndarray | None:
+    """``min(g, cap)``: least length of closed face-graph walks per area residue.
+
+    See the module notes for the definition of ``g`` (base vertex ``base``,
+    residues mod ``modulus``, default the total area).  ``area`` gives every
+    vertex a non-negative integer area (default 1 each; the notes' argument
+    holds word for word with ``|S|`` read as the area of ``S`` and ``n`` as the
+    total area).  Every cut ``S`` avoiding the base weighs at least
+    ``g[area(S) % modulus]``, one containing it at least ``g[(area(S) - total)
+    % modulus]``.  Returns None when the deadline passes first.
+
+    Raises
+    ------
+    ProblemTooLargeError
+        When the ``faces x modulus`` states need more than ``max_memory`` bytes
+        (estimated before anything is allocated).
+
+    Examples
+    --------
+    >>> import networkx as nx
+    >>> P = OrderingProblem.from_graph(nx.cycle_graph(6))
+    >>> [float(x) for x in walk_profile(P)]   # every proper cut of a cycle has two edges
+    [0.0, 2.0, 2.0, 2.0, 2.0, 2.0]
+    """
+    n = problem.n
+    mu = np.ones(n, dtype=np.int64) if area is None else np.asarray(area, dtype=np.int64)
+    if mu.shape != (n,) or (n and mu.min() < 0):
+        raise InvalidArgumentError(f"area must give a non-negative integer to each of the {n} vertices")
+    total = int(mu.sum())
+    M = int(modulus or max(total, 1))
+    if not (0 <= base < max(n, 1)) or M < 1:
+        raise InvalidArgumentError(f"base {base} must be a vertex index and modulus {M} positive")
+    if n <= 1:
+        return np.zeros(M)
+    nf_est = _face_count(problem)
+    need = STATE_BYTES * nf_est * M
+    if need > max_memory:
+        raise ProblemTooLargeError(
+            f"the closed-walk search needs about {need / 2**20:.0f} MiB for {nf_est} faces x {M} residues "
+            f"(max_memory {max_memory / 2**20:.0f} MiB)"
+        )
+    weight = {(int(u), int(v)): float(w) for (u, v), w in zip(problem.edges.tolist(), problem.weights.tolist())}
+    rot = _rotation(problem, planar_embedding)
+    # join the components by weight-0 edges (no cut changes), inserted anywhere in the rotations
+    ncomp, lab = problem.component_labels()
+    if ncomp > 1:
+        reps = [int(np.flatnonzero(lab == c)[0]) for c in range(ncomp)]
+        for a, b in zip(reps, reps[1:]):
+            key = (min(a, b), max(a, b))
+            weight[key] = 0.0
+            rot[a].append(b)
+            rot[b].append(a)
+    nf, tail, head, length, phi = _face_graph(rot, weight, base, mu)
+    # arcs both ways, residues taken mod M
+    src = np.concatenate([tail, head])
+    dst = np.concatenate([head, tail])
+    ln = np.concatenate([length, length])
+    ph = np.concatenate([phi, -phi]) % M
+    order = np.argsort(src, kind="stable")
+    indptr = np.zeros(nf + 1, dtype=np.int64)
+    np.add.at(indptr, src + 1, 1)
+    indptr = np.cumsum(indptr)
+    dst, ln, ph = dst[order], ln[order], ph[order].astype(np.int64)
+    # plain distances between faces, for the can-it-still-close test (skipped when too big)
+    if 8 * nf * nf + STATE_BYTES * nf * M <= max_memory:
+        back = _face_distances(nf, src[order], dst, ln)
+    else:
+        back = np.zeros((0, 0))
+    K = float(cap) if math.isfinite(cap) else float(np.sum(problem.weights)) + 1.0
+    h = np.full(M, np.inf)
+    h[0] = 0.0
+    arcs_per_face = max(1, int(indptr[-1]) // nf)
+    step = max(1, int(4e6 // (arcs_per_face * M)))
+    s = 0
+    while s < nf:
+        if deadline is not None and time.monotonic() > deadline:
+            return None
+        e = min(nf, s + step)
+        kernels.walk_areas(nf, indptr, dst, ln, ph, M, K * (1 + 1e-12) + 1e-12, back, s, e, h)
+        s = e
+    g = kernels.residue_closure(h, M)
+    return np.minimum(g, K)
+
+
 def _pinned_base(problem: OrderingProblem) -> tuple[int, int]:
     """The base vertex and its role: +1 pinned first, -1 pinned last, 0 free."""
     if problem.first:
@@ -328,12 +364,25 @@ def _pinned_base(problem: OrderingProblem) -> tuple[int, int]:
     return 0, 0
 
 
+def _levels(start: float, cap: float) -> list[float]:
+    """Increasing search levels from ``start`` up to ``cap`` (each about 1.25 times the last)."""
+    out = []
+    K = max(start, 1e-9)
+    while K < cap:
+        out.append(K)
+        K *= 1.25
+    out.append(cap)
+    return out
+
+
 def carving_bound(
     problem: OrderingProblem,
     deadline: float | None = None,
     *,
     planar_embedding: Any = None,
     upper: float | None = None,
+    lower: float = 0.0,
+    max_memory: int = DEFAULT_MAX_MEMORY,
 ) -> float:
     """Lower bound on the (pinned) cutwidth from short closed walks of the face graph.
 
@@ -347,17 +396,25 @@ def carving_bound(
     ----------
     problem : OrderingProblem
     deadline : float, optional
-        ``time.monotonic()`` value.  The bound is computed at two levels (half
-        the cap, then the cap); a level the deadline cuts short is dropped, so
-        the answer is always proven (0 if nothing finished).
+        ``time.monotonic()`` value.  The search runs at increasing levels ``K``
+        (walks up to length ``K``); each finished level proves
+        ``min(bound, K)``, a level the deadline cuts short is dropped, so the
+        answer is always proven (``0.0`` if no level finished).
     planar_embedding : optional
         A plane embedding of the problem's graph (PlaneGraph, networkx
         PlanarEmbedding, or ``{label: [neighbours in cyclic order]}``).  Without
         one, ``networkx.check_planarity`` is used; non-planar graphs get a weak
         but valid bound (see the module notes).
     upper : float, optional
-        A known upper bound on the cutwidth: the search explores walks up to
-        this length (default: the width of a breadth-first layout).
+        A known upper bound on the cutwidth: the last level (default: the width
+        of a breadth-first layout).
+    lower : float
+        A known lower bound: the first level starts just above it.
+    max_memory : int
+        Bytes allowed for the search.  When one area unit per vertex does not
+        fit, every ``q``-th vertex (in index order) gets area 1 and the others 0,
+        with ``q`` as small as fits (the argument holds for any 0/1 areas:
+        prefix areas still run through every integer).
 
     Returns
     -------
@@ -374,23 +431,43 @@ def carving_bound(
     if n <= 1 or problem.m == 0:
         return 0.0
     base, role = _pinned_base(problem)
-    M = n if role == 0 else 2 * n - 1
-    lo, hi = len(problem.first), n - len(problem.last)
+    pinned = role != 0
+    # areas: one per vertex if the states fit, else every q-th vertex
+    nf_est = _face_count(problem)
+    q = 1
+    while True:
+        total = -(-n // q)
+        M = 2 * total - 1 if pinned else total
+        if STATE_BYTES * nf_est * M <= max_memory or total <= 2:
+            break
+        q += 1
+    mu = np.zeros(n, dtype=np.int64)
+    mu[::q] = 1
+    total = int(mu.sum())
+    M = max(1, 2 * total - 1 if pinned else total)
+    if STATE_BYTES * nf_est * M > max_memory:
+        return 0.0
+    lo = int(mu[sorted(problem.first)].sum())
+    hi = total - int(mu[sorted(problem.last)].sum())
     cap = float(upper) if upper is not None else _cheap_upper(problem)
+    start = max(float(lower) * 1.02, 2 * float(problem.degrees().max()), 1e-9)
     best = 0.0
-    for K in (cap / 2, cap):
-        g = walk_profile(problem, base=base, modulus=M, cap=K, planar_embedding=planar_embedding, deadline=deadline)
+    for K in _levels(min(start, cap), cap):
+        g = walk_profile(
+            problem, base=base, modulus=M, cap=K, area=mu, planar_embedding=planar_embedding,
+            deadline=deadline, max_memory=max_memory,
+        )
         if g is None:
             break
         val = 0.0
-        for t in range(lo, hi + 1):
-            out_of_s = float(g[t % M])  # a prefix of size t without the base
-            with_base = float(g[(t - n) % M])  # one containing it
+        for k in range(lo, hi + 1):
+            out_of_s = float(g[k % M])  # a prefix of area k without the base
+            with_base = float(g[(k - total) % M])  # one containing it
             v = with_base if role == 1 else out_of_s if role == -1 else min(out_of_s, with_base)
             val = max(val, v)
         best = max(best, float(val))
         if val < K:
-            break  # the profile stayed below the level: the higher level gives the same
+            break  # the profile stayed below this level: higher levels give the same value
     return best
 
 

@@ -915,11 +915,12 @@ def _walk_areas_py(nv, indptr, head, length, phi, M, K, back, s_lo, s_hi, h):  #
     """Shortest closed walk of every area residue, walks starting at their least vertex.
 
     For each source ``s`` in ``s_lo..s_hi-1``: Dijkstra over the states
-    ``(v, r)`` (vertex ``v >= s``, residue ``r`` mod ``M``) from ``(s, 0)``;
+    ``(v, r)`` (vertex ``v >= s``, residue ``r`` mod ``M``) from ``(s, 0)``
+    (``phi`` already reduced mod ``M``);
     reaching ``(s, r)`` at length ``d`` closes a walk of area ``r``, so
     ``h[r] = min(h[r], d)``.  States that cannot close within ``K`` (their
     length plus the plain distance ``back[v, s]`` exceeds ``K``) are not
-    pushed.  Runs compiled with numba, as plain Python without it.
+    pushed (an empty ``back`` turns that test off).  Runs compiled with numba, as plain Python without it.
     """
     NS = nv * M
     dist = np.full(NS, np.inf)
@@ -970,7 +971,7 @@ def _walk_areas_py(nv, indptr, head, length, phi, M, K, back, s_lo, s_hi, h):  #
                 if u < s:
                     continue
                 nd = d + length[a]
-                if nd + back[u, s] > K:
+                if back.shape[0] > 0 and nd + back[u, s] > K:
                     continue
                 ru = r + phi[a]
                 if ru >= M:
