@@ -342,15 +342,20 @@ def walk_profile(
     K = float(cap) if math.isfinite(cap) else float(np.sum(problem.weights)) + 1.0
     h = np.full(M, np.inf)
     h[0] = 0.0
-    arcs_per_face = max(1, int(indptr[-1]) // nf)
-    step = max(1, int(4e6 // (arcs_per_face * M)))
+    step = 1  # sources per compiled call, grown so that a call takes about 0.1 s
     s = 0
     while s < nf:
         if deadline is not None and time.monotonic() > deadline:
             return None
         e = min(nf, s + step)
+        t0 = time.monotonic()
         kernels.walk_areas(nf, indptr, dst, ln, ph, M, K * (1 + 1e-12) + 1e-12, back, s, e, h)
+        dt = time.monotonic() - t0
         s = e
+        if dt < 0.05:
+            step *= 2
+        elif dt > 0.2 and step > 1:
+            step //= 2
     g = kernels.residue_closure(h, M)
     return np.minimum(g, K)
 
