@@ -207,3 +207,34 @@ def test_bad_embedding_type():
         carving_bound(P, planar_embedding=42)
     with pytest.raises(ValueError):
         walk_profile(P, base=9)
+
+
+def test_regression_parallel_face_arcs_not_added():
+    # a triangle has two faces joined by three parallel dual edges; their shortest one
+    # (not their sum) is the distance used for pruning, else cuts were missed
+    G = nx.Graph()
+    G.add_weighted_edges_from([(0, 1, 1), (0, 2, 1), (1, 2, 2)])
+    P = OrderingProblem.from_graph(G, last=2)
+    g = walk_profile(P, base=2, modulus=5)
+    assert np.all(g <= _profile_brute(P, 2, 5) + 1e-9)
+    assert g[2] == 3.0  # the cut {0, 1} weighs 1 + 2
+
+
+@settings(max_examples=40, deadline=None, suppress_health_check=[HealthCheck.too_slow])
+@given(plane_graphs(2, 9, weighted=True))
+def test_pins_never_weaken(PG):
+    G = PG.to_networkx()
+    v = next(iter(G.nodes()))
+    free = carving_bound(OrderingProblem.from_graph(G), planar_embedding=PG)
+    pinned = carving_bound(OrderingProblem.from_graph(G, first=v), planar_embedding=PG)
+    assert pinned >= free - 1e-9
+
+
+def test_sampled_areas_and_memory_estimate():
+    from sweepwidth.errors import ProblemTooLargeError
+
+    P = OrderingProblem.from_graph(nx.grid_2d_graph(5, 5), first=(0, 0))
+    small = carving_bound(P, max_memory=32 * 17 * 12)  # forces area on every few vertices only
+    assert 0 < small <= _optimum(P)
+    with pytest.raises(ProblemTooLargeError):
+        walk_profile(P, max_memory=1000)

@@ -34,28 +34,49 @@ every size ``t`` from ``|first|`` to ``n - |last|``, so its width is at least
 ``max_t value(t)``, where ``value(t)`` is the least of the two readings that
 are possible for a prefix of size ``t``: only the second when ``b`` is pinned
 first, only the first when ``b`` is pinned last, both otherwise.  That is the
-bound of :func:`carving_bound`.  ``M = n`` without a pinned base; with one,
-``M = 2 n - 1`` keeps the sizes ``s`` and ``-s`` apart, so pins strengthen the
-bound (the outer face pinned first of a disk's dual is the main case).
+bound of :func:`carving_bound`.  ``M = n`` without a pinned base (both
+readings then agree); with one, ``M = 2 n``: the readings of sizes in
+``1..n-1`` never collide with those of the reversed walks, and since residues
+mod ``2 n`` refine residues mod ``n`` the pinned bound is never below the
+unpinned one.  Pins do strengthen it: for the dual of a disk with the outer
+face pinned first, a region cut off near the cheap boundary no longer counts
+as a small prefix.
+
+Areas.  Everything above holds with ``|S|`` read as ``mu(S)`` for any integer
+vertex areas ``mu >= 0`` (``size(c)`` the area below ``c``, ``n`` the total)
+provided the counted prefixes still take every area in between: true for 0/1
+areas, whose prefix areas grow by steps of at most 1.  When one unit per
+vertex does not fit in memory, :func:`carving_bound` gives area 1 to every
+``q``-th vertex only.
 
 Carving width.  In a carving decomposition (a tree of maximum degree 3 whose
 leaves are the ``n >= 2`` vertices) some tree edge has at least ``ceil(n / 3)``
-and at most ``floor(2 n / 3)`` leaves on each side (walk towards the heavier
-side), and every leaf edge carries a weighted degree; so carving width is at
-least ``max(max degree, min over t in [ceil(n/3), floor(2n/3)] of min(g(t),
-g(n - t)))`` with ``M = n`` (:func:`carving_width_lower_bound`).  For
-cutwidth the direct bound above is never weaker (a layout is a caterpillar
-carving whose spine edges are its prefix cuts, and the prefix sizes run
-through every ``t``), so the ordering solvers use :func:`carving_bound`.
+and at most ``floor(2 n / 3)`` leaves on each side (take the edge whose larger
+side is least: if that side had more than ``2n/3`` leaves, one of the two
+edges below it would be better), and every leaf edge carries a weighted
+degree; so carving width is at least ``max(max degree, min over t in
+[ceil(n/3), floor(2n/3)] of g(t))`` with ``M = n``
+(:func:`carving_width_lower_bound`).  A linear layout is a caterpillar
+carving whose spine edges are its prefix cuts and whose leaf edges carry the
+weighted degrees, so carving width ``<= max(cutwidth, max degree)``, and
+cutwidth ``>=`` carving width whenever the latter exceeds the largest degree.
+For cutwidth the walk bound of :func:`carving_bound` is the stronger use of
+``g`` (it takes the largest value over all prefix sizes, not the least over
+the balanced ones), so the ordering solvers call that.
 
 Computation.  ``g`` is the min-plus closure over ``Z_M`` of ``h(r)``, the
 shortest single closed walk of residue ``r``: one Dijkstra per face over the
 states ``(face, residue)`` from ``(s, 0)``, restricted to faces ``>= s`` (every
-closed walk can start at its least face).  Everything is capped at a level
-``K`` (an upper bound on the cutwidth, or the caller's ``upper``): walks
-longer than ``K`` are never explored, which changes no value of ``min(g,
-K)``.  Time ``O(|F| * |F| M log(|F| M))`` in the worst case, memory ``O(|F|
-M)``; the cap makes it much faster in practice.
+closed walk can start at its least face), with states that cannot return to
+``s`` within the level pruned by plain face distances.  The search is capped
+at a level ``K``: walks longer than ``K`` are never explored, which changes no
+value of ``min(g, K)`` (an optimal family of total length ``<= K`` has only
+walks of length ``<= K``), so a finished level proves ``min(bound, K)``.
+Levels rise by factors of 1.25 from a known lower bound until the bound falls
+below the level (then it is exact for ``g``) or reaches the upper bound.
+Time ``O(|F| * |F| M log(|F| M))`` per level in the worst case, memory
+``O(|F| M)`` (estimated before the search starts), where ``|F| = m - n + 2``
+faces; the cap makes it much faster in practice.
 
 Soundness conditions: real and zero weights, parallel edges and loops (the
 problem merges and drops them: cuts are unchanged), disconnected graphs
@@ -442,14 +463,14 @@ def carving_bound(
     q = 1
     while True:
         total = -(-n // q)
-        M = 2 * total - 1 if pinned else total
+        M = 2 * total if pinned else total
         if STATE_BYTES * nf_est * M <= max_memory or total <= 2:
             break
         q += 1
     mu = np.zeros(n, dtype=np.int64)
     mu[::q] = 1
     total = int(mu.sum())
-    M = max(1, 2 * total - 1 if pinned else total)
+    M = max(1, 2 * total if pinned else total)
     if STATE_BYTES * nf_est * M > max_memory:
         return 0.0
     lo = int(mu[sorted(problem.first)].sum())
