@@ -173,7 +173,7 @@ def _rotation(problem: OrderingProblem, planar_embedding: Any) -> list[list[int]
 
 def _face_graph(
     rot: list[list[int]], weight: dict[tuple[int, int], float], base: int, mu: np.ndarray
-) -> tuple[int, np.ndarray, np.ndarray, np.ndarray, int]:
+) -> tuple[int, np.ndarray, np.ndarray, np.ndarray, np.ndarray]:
     """Faces, the dual arcs (tail, head, length, phi) of every edge, for a connected graph."""
     n = len(rot)
     # darts: (v, k) is v -> rot[v][k]
