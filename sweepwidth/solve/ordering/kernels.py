@@ -908,3 +908,141 @@ def memo_grow(table: np.ndarray, used: np.ndarray) -> tuple[np.ndarray, np.ndarr
     new_used = np.zeros(2 * table.shape[0], dtype=np.bool_)
     _memo_grow_nb(table, used, new_table, new_used)
     return new_table, new_used
+
+
+# ------------------------------------------------- closed walks by area residue (see carving.py)
+
+
+def _walk_areas_py(nv, indptr, head, length, phi, M, K, back, s_lo, s_hi, h):  # type: ignore[no-untyped-def]
+    """Shortest closed walk of every area residue, walks starting at their least vertex.
+
+    For each source ``s`` in ``s_lo..s_hi-1``: Dijkstra over the states
+    ``(v, r)`` (vertex ``v >= s``, residue ``r`` mod ``M``) from ``(s, 0)``
+    (``phi`` already reduced mod ``M``);
+    reaching ``(s, r)`` at length ``d`` closes a walk of area ``r``, so
+    ``h[r] = min(h[r], d)``.  States that cannot close within ``K`` (their
+    length plus the plain distance ``back[v, s]`` exceeds ``K``) are not
+    pushed (an empty ``back`` turns that test off).  Runs compiled with numba, as plain Python without it.
+    """
+    NS = nv * M
+    dist = np.full(NS, np.inf)
+    hpos = np.full(NS, -1, dtype=np.int64)
+    heap = np.empty(NS, dtype=np.int64)
+    touched = np.empty(NS, dtype=np.int64)
+    for s in range(s_lo, s_hi):
+        nt = 0
+        size = 0
+        x0 = s * M
+        dist[x0] = 0.0
+        touched[nt] = x0
+        nt += 1
+        heap[0] = x0
+        hpos[x0] = 0
+        size = 1
+        while size > 0:
+            x = heap[0]
+            d = dist[x]
+            size -= 1
+            hpos[x] = -2
+            if size > 0:  # sift the last entry down from the root
+                y = heap[size]
+                dy = dist[y]
+                i = 0
+                while True:
+                    c = 2 * i + 1
+                    if c >= size:
+                        break
+                    if c + 1 < size and dist[heap[c + 1]] < dist[heap[c]]:
+                        c += 1
+                    if dist[heap[c]] < dy:
+                        heap[i] = heap[c]
+                        hpos[heap[i]] = i
+                        i = c
+                    else:
+                        break
+                heap[i] = y
+                hpos[y] = i
+            if d > K:
+                break
+            v = x // M
+            r = x - v * M
+            if v == s and r != 0 and d < h[r]:
+                h[r] = d
+            for a in range(indptr[v], indptr[v + 1]):
+                u = head[a]
+                if u < s:
+                    continue
+                nd = d + length[a]
+                if back.shape[0] > 0 and nd + back[u, s] > K:
+                    continue
+                ru = r + phi[a]
+                if ru >= M:
+                    ru -= M
+                y = u * M + ru
+                if hpos[y] == -2 or nd >= dist[y]:
+                    continue
+                if hpos[y] == -1:
+                    if dist[y] == np.inf:
+                        touched[nt] = y
+                        nt += 1
+                    i = size
+                    size += 1
+                else:
+                    i = hpos[y]
+                dist[y] = nd
+                while i > 0:  # sift up
+                    p = (i - 1) // 2
+                    if dist[heap[p]] > nd:
+                        heap[i] = heap[p]
+                        hpos[heap[i]] = i
+                        i = p
+                    else:
+                        break
+                heap[i] = y
+                hpos[y] = i
+        for j in range(nt):
+            dist[touched[j]] = np.inf
+            hpos[touched[j]] = -1
+    return h
+
+
+_walk_areas_nb = _jit(_walk_areas_py)
+
+
+def walk_areas(nv, indptr, head, length, phi, M, K, back, s_lo, s_hi, h):  # type: ignore[no-untyped-def]
+    """Update ``h`` (length ``M``) with the closed walks found from sources ``s_lo..s_hi-1``."""
+    return _walk_areas_nb(nv, indptr, head, length, phi, M, float(K), back, s_lo, s_hi, h)
+
+
+def _residue_closure_py(h, M):  # type: ignore[no-untyped-def]
+    """Least total length of a multiset of walks per residue: Dijkstra on Z_M, steps ``h``."""
+    g = np.full(M, np.inf)
+    done = np.zeros(M, dtype=np.bool_)
+    g[0] = 0.0
+    for _ in range(M):
+        best = np.inf
+        x = -1
+        for i in range(M):
+            if not done[i] and g[i] < best:
+                best = g[i]
+                x = i
+        if x < 0:
+            break
+        done[x] = True
+        for r in range(1, M):
+            if h[r] < np.inf:
+                y = x + r
+                if y >= M:
+                    y -= M
+                nd = best + h[r]
+                if nd < g[y]:
+                    g[y] = nd
+    return g
+
+
+_residue_closure_nb = _jit(_residue_closure_py)
+
+
+def residue_closure(h, M):  # type: ignore[no-untyped-def]
+    """The min-plus closure of ``h`` over the residues mod ``M`` (entry 0 is 0)."""
+    return _residue_closure_nb(np.asarray(h, dtype=np.float64), int(M))
