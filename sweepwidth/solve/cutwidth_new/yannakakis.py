@@ -121,7 +121,7 @@ from __future__ import annotations
 
 import time
 
-from ...errors import SweepwidthError, UnsupportedOptionError
+from ...errors import ProblemTooLargeError, SweepwidthError, UnsupportedOptionError
 from ...problems.ordering import OrderingProblem
 
 __all__ = ["tree_cutwidth_exact", "TreeDeadlineError"]
@@ -154,7 +154,7 @@ def _prune_agg(states: dict) -> dict:
     """Drop status vectors (B, O) dominated pointwise by another (0 < 1 < 2)."""
     if len(states) <= 1:
         return states
-    keys = sorted(states, key=lambda k: (bin(k[0]).count("1"), bin(k[0] | k[1]).count("1")))
+    keys = sorted(states, key=lambda k: (k[0].bit_count(), (k[0] | k[1]).bit_count()))
     kept: list[tuple[int, int]] = []
     for B, O in keys:
         BO = B | O
@@ -168,22 +168,60 @@ def _prune_agg(states: dict) -> dict:
     return {k: states[k] for k in kept}
 
 
+_STATE_CAP = 200_000
+
+
+_pop = int.bit_count
+
+
+def _flex_slots(B: int, O: int, k: int, t: int | None, X: int) -> list[int]:
+    """Heights offered to the flexible children, in the order of Lemma 4 (module notes)."""
+    slots: list[int] = []
+    top = k if t is None else t - 1
+    for h in range(1, top + 1):
+        bit = 1 << (h - 1)
+        slots.extend([h] * (0 if B & bit else 1 if O & bit else 2))
+    if t is None:
+        return slots
+    bt = 1 << (t - 1)
+    if not O & bt:
+        slots.append(t)
+    for h in range(t + 1, k + 1):
+        if O >> (h - 1) & 1:
+            slots.append(h)
+    for h in range(t + 1, k + 1):
+        if X >> (h - 1) & 1:
+            slots.extend([h, h])
+    return slots
+
+
 def _decide(adj: list[list[int]], order: list[int], parent: list[int], k: int, deadline: float | None):
     """Heights of the parent edges of a labeling with values ``1..k``, or None (module notes)."""
+    from itertools import combinations
+
     full = (1 << k) - 1
-    up: dict[int, list[tuple[int, int, tuple[int, int]]]] = {}
+    up: dict[int, list[tuple[int, int, tuple]]] = {}
+    flex: dict[int, bool] = {}
     stages: dict[int, list[dict]] = {}
-    kids_of: dict[int, list[int]] = {}
-    root_key: tuple[int, int] = (0, 0)
+    hard_of: dict[int, list[int]] = {}
+    flex_of: dict[int, list[int]] = {}
+    choice: dict[int, tuple] = {}  # root: chosen aggregated key
     for count, v in enumerate(reversed(order)):
-        if deadline is not None and count % 256 == 0 and time.monotonic() > deadline:
+        if deadline is not None and count % 64 == 0 and time.monotonic() > deadline:
             raise TimeoutError
         p = parent[v]
         kids = [c for c in adj[v] if c != p]
-        kids_of[v] = kids
+        if not kids:  # a leaf: states (t, {}) for every t, i.e. flexible (no list kept)
+            flex[v] = True
+            hard_of[v], flex_of[v] = kids, kids
+            continue
+        hard = [c for c in kids if not flex[c]]
+        fl = [c for c in kids if flex[c]]
+        hard_of[v], flex_of[v] = hard, fl
+        F = len(fl)
         cur: dict = {(0, 0): None}
         st: list[dict] = []
-        for c in kids:
+        for c in hard:
             nxt: dict = {}
             cs = up[c]
             for key in cur:
@@ -201,52 +239,104 @@ def _decide(adj: list[list[int]], order: list[int], parent: list[int], k: int, d
                         k2 = (B | V, O | bt)
                     if k2 not in nxt:
                         nxt[k2] = (key, idx)
+                if len(nxt) > _STATE_CAP:
+                    raise ProblemTooLargeError(f"tree_cutwidth_exact: more than {_STATE_CAP} states at one vertex")
             if not nxt:
                 return None
             if len(nxt) > 1:
                 nxt = _prune_agg(nxt)
             st.append(nxt)
             cur = nxt
+            if deadline is not None and time.monotonic() > deadline:
+                raise TimeoutError
         stages[v] = st
         if p < 0:
-            root_key = next(iter(cur))
+            for key in cur:
+                B, O = key
+                if 2 * k - 2 * _pop(B) - _pop(O) >= F:
+                    choice[v] = (key, None, 0)
+                    break
+            else:
+                return None
             continue
-        by_t: dict[int, dict[int, tuple[int, int]]] = {}
+        by_t: dict[int, dict[int, tuple]] = {}
         for key in cur:
             B, O = key
             BO = B | O
             for t in range(1, k + 1):
-                if B >> (t - 1) & 1:
+                bt = 1 << (t - 1)
+                if B & bt:
                     continue
-                V = BO & full & ~((1 << t) - 1)
+                above = full & ~((1 << t) - 1)
+                low = bt - 1
+                cap = 2 * (t - 1) - 2 * _pop(B & low) - _pop(O & low) + (0 if O & bt else 1)
+                r = F - cap
+                base = BO & above
                 d = by_t.setdefault(t, {})
-                if V not in d:
-                    d[V] = key
-        if not by_t:
-            return None
-        ups: list[tuple[int, int, tuple[int, int]]] = []
+                if r > 0:
+                    r -= _pop(O & above)
+                if r <= 0:
+                    if base not in d:
+                        d[base] = (key, 0)
+                    continue
+                q = (r + 1) // 2
+                free = above & ~BO
+                bits = [1 << i for i in range(k) if free >> i & 1]
+                if len(bits) < q:
+                    continue
+                n_comb = 1
+                for i in range(q):
+                    n_comb = n_comb * (len(bits) - i) // (i + 1)
+                if n_comb > _STATE_CAP:
+                    raise ProblemTooLargeError(f"tree_cutwidth_exact: more than {_STATE_CAP} states at one vertex")
+                for comb in combinations(bits, q):
+                    X = sum(comb)
+                    V = base | X
+                    if V not in d:
+                        d[V] = (key, X)
+        ups: list[tuple[int, int, tuple]] = []
         for t, d in by_t.items():
-            vs = sorted(d, key=lambda x: bin(x).count("1"))
+            vs = sorted(d, key=_pop)
             kept: list[int] = []
             for V in vs:
                 if all(W & ~V for W in kept):
                     kept.append(V)
             ups.extend((t, V, d[V]) for V in kept)
+        if not ups:
+            return None
         up[v] = ups
-    # rebuild: heights of parent edges
+        zero = {t for t, V, _ in ups if V == 0}
+        flex[v] = len(zero) == k
+    # rebuild the heights of parent edges
     height = [0] * len(parent)
     r = order[0]
-    stack = [(r, root_key)]
+    key, t0, X0 = choice[r]
+    stack: list[tuple[int, tuple, int | None, int]] = [(r, key, None, 0)]
     while stack:
-        v, key = stack.pop()
-        kids = kids_of[v]
+        v, key, t, X = stack.pop()
+        hard = hard_of[v]
         st = stages[v]
-        for i in range(len(kids) - 1, -1, -1):
+        B, O = key
+        slots = _flex_slots(B, O, k, t, X)
+        fl = flex_of[v]
+        if len(slots) < len(fl):
+            raise AssertionError("internal error: too few slots for the flexible children")
+        for c, hc in zip(fl, slots):
+            height[c] = hc
+            if c not in up:  # a leaf
+                continue
+            for tt, V, (ckey, cX) in up[c]:
+                if tt == hc and V == 0:
+                    stack.append((c, ckey, hc, cX))
+                    break
+            else:
+                raise AssertionError("internal error: flexible child without a free state")
+        for i in range(len(hard) - 1, -1, -1):
             prev, idx = st[i][key]
-            c = kids[i]
-            t, _, ckey = up[c][idx]
-            height[c] = t
-            stack.append((c, ckey))
+            c = hard[i]
+            tc, _, (ckey, cX) = up[c][idx]
+            height[c] = tc
+            stack.append((c, ckey, tc, cX))
             key = prev
     return height
 
@@ -370,6 +460,9 @@ def tree_cutwidth_exact(problem: OrderingProblem, deadline: float | None = None)
                 height = _decide(adj, comp, parent, k, deadline)
             except TimeoutError:
                 raise TreeDeadlineError(f"tree_cutwidth_exact: deadline passed while deciding cutwidth <= {k}", max(lower, k)) from None
+            except ProblemTooLargeError as e:
+                e.lower = max(lower, k)  # type: ignore[attr-defined]
+                raise
             if height is not None:
                 break
             lower = max(lower, k + 1)
