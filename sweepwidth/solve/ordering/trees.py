@@ -2,11 +2,15 @@
 
 What is known
 -------------
+(:func:`tree_cutwidth` now first calls the exact method of
+:mod:`.yannakakis`; the layouts and bounds below remain as its fallback for
+pins and time-outs and as a fast baseline.)
+
 The cutwidth of a tree with unit weights can be computed in polynomial time:
 Yannakakis [1]_ gives an ``O(n log n)`` algorithm (Chung [2]_ an earlier one
 for bounded degree).  With edge weights the problem is NP-hard already on
-trees (Monien and Sudborough [3]_; stated from memory).  **This module does
-not implement Yannakakis' algorithm.**  It gives
+trees (Monien and Sudborough [3]_; stated from memory).  This module
+gives
 
 * :func:`block_layout` -- the best *subtree-contiguous* layout, exactly, in
   ``O(n log n)``: rooted at some vertex ``r``, every subtree (w.r.t. ``r``)
@@ -17,10 +21,12 @@ not implement Yannakakis' algorithm.**  It gives
   vertices of a long path.
 * :func:`branch_bound` -- a lower bound from the path argument below, and
   the three-branch bound of :func:`sweepwidth.solve.ordering.bounds.tree_bound`;
-* :func:`tree_cutwidth` -- both, then the window search of :mod:`.local_search`
-  from the block layout until the bounds meet or time is up.  The answer is
-  exact only when they meet (``optimal`` says so); weighted forests are refused
-  here and belong to the general methods.
+* :func:`tree_cutwidth` -- the exact method of :mod:`.yannakakis` when there
+  are no pins (always ``optimal`` unless the deadline passes); otherwise (or
+  with ``exact=False``) both bounds above, then the window search of
+  :mod:`.local_search` from the block layout until the bounds meet or time is
+  up, exact only when they meet.  Weighted forests are refused here and belong
+  to the general methods.
 
 Block layouts
 -------------
@@ -78,7 +84,7 @@ from typing import Any
 
 import numpy as np
 
-from ...errors import InvalidArgumentError, SweepwidthError
+from ...errors import InvalidArgumentError, ProblemTooLargeError, SweepwidthError
 from ...problems.ordering import OrderingProblem
 from .windows import OnImprove, pinned_order
 
@@ -312,8 +318,15 @@ def tree_cutwidth(
     *,
     seed: int | None = None,
     on_improve: OnImprove | None = None,
+    exact: bool = True,
 ) -> TreeOutcome:
-    """Cutwidth bounds of a unit-weight forest, exact when they meet (module notes).
+    """Cutwidth of a unit-weight forest: exact without pins, else bounds (module notes).
+
+    Without pins (and ``exact=True``, the default) the exact method of
+    :func:`.yannakakis.tree_cutwidth_exact` decides it, so ``optimal`` is
+    True unless ``deadline`` passes first; then its proven lower bound joins
+    the bounds below.  The rest of this docstring describes those bounds,
+    which are also what ``exact=False`` and pinned problems get.
 
     Lower bound: the largest of :func:`branch_bound`, the three-branch bound
     and the degree bound ``ceil(max degree / 2)``.  Upper bound: the block
@@ -331,6 +344,8 @@ def tree_cutwidth(
     seed : int, optional
     on_improve : callable, optional
         ``on_improve(width, order)`` for the block layout and each later improvement.
+    exact : bool, default True
+        Try the exact method first (ignored with pins).
 
     Returns
     -------
@@ -358,11 +373,26 @@ def tree_cutwidth(
     if problem.m == 0:
         o = pinned_order(problem, list(range(problem.n)))
         return TreeOutcome(0.0, 0.0, o, True, {"trivial": True})
+    proven = 0.0
+    if exact and not problem.first and not problem.last:
+        from .yannakakis import TreeDeadlineError, tree_cutwidth_exact
+
+        try:
+            k, order = tree_cutwidth_exact(problem, deadline)
+        except (TreeDeadlineError, ProblemTooLargeError) as e:
+            proven = float(getattr(e, "lower", 0))
+            stats["exact_stopped"] = str(e)
+        else:
+            if on_improve is not None:
+                on_improve(float(k), list(order))
+            return TreeOutcome(float(k), float(k), order, True, {"method": "exact", "seconds": time.monotonic() - t0})
     deg = problem.degrees()
     lbs = {"degree": float(np.ceil(deg.max() / 2.0)), "branch": branch_bound(problem)}
     tb = tree_bound(problem, max_n=10**9)
     if tb is not None:
         lbs["three-branch"] = float(tb)
+    if proven:
+        lbs["exact-levels"] = proven
     lower = max(lbs.values())
     stats["lower_bounds"] = lbs
     width, order = block_layout(problem)
