@@ -24,6 +24,11 @@ SCRIPTS = {
     "runner_overhead.py": ([], []),
     "io_read.py": (["--edges", "100000"], ["--auto"]),
     "bounds.py": (["--quick"], []),
+    "trees.py": (["--time", "5"], ["--time", "60"]),
+    "carving.py": ([], []),
+    "lower_bounds.py": ([], []),
+    "upper_bounds.py": ([], ["--full"]),
+    "width.py": ([], []),
 }
 
 

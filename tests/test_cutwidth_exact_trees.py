@@ -1,4 +1,4 @@
-"""Exact cutwidth of unit-weight forests (:mod:`sweepwidth.solve.ordering.yannakakis`).
+"""Exact cutwidth of unit-weight forests (:mod:`sweepwidth.solve.ordering.tree_heights`).
 
 Every value is compared with the subset DP (an independent exact method), every
 ordering is re-measured by the independent checker :func:`sweepwidth.verify.ordering_width`,
@@ -17,7 +17,7 @@ from hypothesis import given, settings, strategies as st
 import sweepwidth as sw
 from sweepwidth.errors import InvalidArgumentError, SweepwidthError
 from sweepwidth.problems.ordering import OrderingProblem
-from sweepwidth.solve.ordering.yannakakis import tree_cutwidth_exact
+from sweepwidth.solve.ordering.tree_heights import tree_cutwidth_exact
 from sweepwidth.verify.ordering import ordering_width
 
 

@@ -3,7 +3,7 @@
 What is known
 -------------
 (:func:`tree_cutwidth` now first calls the exact method of
-:mod:`.yannakakis`; the layouts and bounds below remain as its fallback for
+:mod:`.tree_heights`; the layouts and bounds below remain as its fallback for
 pins and time-outs and as a fast baseline.)
 
 The cutwidth of a tree with unit weights can be computed in polynomial time:
@@ -21,7 +21,7 @@ gives
   vertices of a long path.
 * :func:`branch_bound` -- a lower bound from the path argument below, and
   the three-branch bound of :func:`sweepwidth.solve.ordering.bounds.tree_bound`;
-* :func:`tree_cutwidth` -- the exact method of :mod:`.yannakakis` when there
+* :func:`tree_cutwidth` -- the exact method of :mod:`.tree_heights` when there
   are no pins (always ``optimal`` unless the deadline passes); otherwise (or
   with ``exact=False``) both bounds above, then the window search of
   :mod:`.local_search` from the block layout until the bounds meet or time is
@@ -323,7 +323,7 @@ def tree_cutwidth(
     """Cutwidth of a unit-weight forest: exact without pins, else bounds (module notes).
 
     Without pins (and ``exact=True``, the default) the exact method of
-    :func:`.yannakakis.tree_cutwidth_exact` decides it, so ``optimal`` is
+    :func:`.tree_heights.tree_cutwidth_exact` decides it, so ``optimal`` is
     True unless ``deadline`` passes first; then its proven lower bound joins
     the bounds below.  The rest of this docstring describes those bounds,
     which are also what ``exact=False`` and pinned problems get.
@@ -375,7 +375,7 @@ def tree_cutwidth(
         return TreeOutcome(0.0, 0.0, o, True, {"trivial": True})
     proven = 0.0
     if exact and not problem.first and not problem.last:
-        from .yannakakis import TreeDeadlineError, tree_cutwidth_exact
+        from .tree_heights import TreeDeadlineError, tree_cutwidth_exact
 
         try:
             k, order = tree_cutwidth_exact(problem, deadline)
