@@ -121,6 +121,8 @@ from __future__ import annotations
 
 import time
 
+import numpy as np
+
 from ...errors import InvalidArgumentError, ProblemTooLargeError, SweepwidthError
 from ...problems.ordering import OrderingProblem
 
@@ -139,9 +141,20 @@ class TreeDeadlineError(SweepwidthError, TimeoutError):
         self.lower = lower
 
 
-def _check(problem: OrderingProblem) -> None:
-    from .trees import _check_unit_forest
+def _check_unit_forest(problem: OrderingProblem, what: str) -> None:
+    if not problem.is_forest():
+        raise InvalidArgumentError(f"{what} needs a forest; this graph has a cycle (after merging parallel edges)")
+    if problem.m and not np.all(problem.weights == 1.0):
+        bad = int(np.flatnonzero(problem.weights != 1.0)[0])
+        u, v = problem.edges[bad].tolist()
+        raise InvalidArgumentError(
+            f"{what} needs unit weights (weighted trees are NP-hard; use sweepwidth.cutwidth); "
+            f"edge ({problem.labels[u]!r}, {problem.labels[v]!r}) has weight {problem.weights[bad]} "
+            "(parallel edges add up)"
+        )
 
+
+def _check(problem: OrderingProblem) -> None:
     _check_unit_forest(problem, "tree_cutwidth_exact")
     if problem.first or problem.last:
         raise InvalidArgumentError(

@@ -86,22 +86,11 @@ import numpy as np
 
 from ...errors import InvalidArgumentError, ProblemTooLargeError, SweepwidthError
 from ...problems.ordering import OrderingProblem
+from .tree_heights import _check_unit_forest
 from .windows import OnImprove, pinned_order
 
 __all__ = ["block_layout", "branch_bound", "tree_cutwidth", "TreeOutcome"]
 
-
-def _check_unit_forest(problem: OrderingProblem, what: str) -> None:
-    if not problem.is_forest():
-        raise InvalidArgumentError(f"{what} needs a forest; this graph has a cycle (after merging parallel edges)")
-    if problem.m and not np.all(problem.weights == 1.0):
-        bad = int(np.flatnonzero(problem.weights != 1.0)[0])
-        u, v = problem.edges[bad].tolist()
-        raise InvalidArgumentError(
-            f"{what} needs unit weights (weighted trees are NP-hard; use sweepwidth.cutwidth); "
-            f"edge ({problem.labels[u]!r}, {problem.labels[v]!r}) has weight {problem.weights[bad]} "
-            "(parallel edges add up)"
-        )
 
 
 def _bfs(adj: list[list[int]], n: int) -> tuple[list[list[int]], list[int]]:
