@@ -16,16 +16,10 @@ from sweepwidth.bench.hashing import instance_hash
 from sweepwidth.cli import main
 from sweepwidth.io.saved import digest, saved_result, write_saved
 from sweepwidth.result import Result
+from cli_helpers import run_cli
 
 
-def _run(capsys, *argv):
-    capsys.readouterr()
-    try:
-        rc = main([str(a) for a in argv])
-    except SystemExit as exc:
-        rc = exc.code
-    cap = capsys.readouterr()
-    return rc, cap.out, cap.err
+_run = run_cli
 
 
 @pytest.fixture()

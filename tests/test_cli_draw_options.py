@@ -10,19 +10,13 @@ pytest.importorskip("matplotlib")
 
 import sweepwidth as sw
 from sweepwidth.cli import main
+from cli_helpers import run_cli
 
 ROOT = os.path.dirname(os.path.dirname(os.path.abspath(__file__)))
 PAVILION = os.path.join(ROOT, "instances", "demo", "pavilion.json")
 
 
-def _run(capsys, *argv):
-    capsys.readouterr()
-    try:
-        rc = main([str(a) for a in argv])
-    except SystemExit as exc:
-        rc = exc.code
-    cap = capsys.readouterr()
-    return rc, cap.out, cap.err
+_run = run_cli
 
 
 def test_frames_without_a_sweep_is_refused(tmp_path, capsys):

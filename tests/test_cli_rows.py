@@ -12,19 +12,13 @@ import time
 import pytest
 
 from sweepwidth.cli import DEFAULT_TIME_LIMIT, build_parser, main
+from cli_helpers import run_cli
 
 ROOT = os.path.dirname(os.path.dirname(os.path.abspath(__file__)))
 INST = os.path.join(ROOT, "instances")
 
 
-def _run(capsys, *argv):
-    capsys.readouterr()
-    try:
-        rc = main([str(a) for a in argv])
-    except SystemExit as exc:
-        rc = exc.code
-    cap = capsys.readouterr()
-    return rc, cap.out, cap.err
+_run = run_cli
 
 
 def test_a_file_that_does_not_suit_the_parameter_becomes_a_row(capsys):
