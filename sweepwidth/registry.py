@@ -163,13 +163,13 @@ _CW_AUTO = ("max_memory", "solver", "max_states", "improve", "dp_limit", "sat_op
 _HOM_OPTIONS = ("dp_limit", "max_faces", "cutwidth_method")
 
 _BUILTIN_METHODS: tuple[Method, ...] = (
-    Method("cutwidth", "auto", "auto", "trees, DP when tiny, else bounds, heuristics, bnb, flow bound, kick search, then SAT or bnb", _CW_AUTO),
+    Method("cutwidth", "auto", "auto", "DP when tiny, else bounds, heuristics, then bnb and SAT in the time left", _CW_AUTO),
     Method("cutwidth", "dp", "exact", "subset dynamic programming, O(2^n n) time and 16 * 2^n bytes", ("max_memory",)),
     Method("cutwidth", "bnb", "exact", "threshold search over prefix sets, real weights exactly", ("max_states", "improve")),
     Method("cutwidth", "sat", "exact", "incremental SAT on integral (or scaled rational) weights", ("solver", "improve", "sat_options")),
     Method("cutwidth", "tree", "exact", "forests: recursive three-branch bound, then the prefix-set search", ("max_states",)),
     Method("cutwidth", "heuristic", "bounds", "constructions and local search with the lower bounds", ("improve", "effort")),
-    Method("cutwidth", "search", "bounds", "lower bounds with the flow bound, then kicks and window re-optimisation until the time is up", ("improve", "effort")),
+    Method("cutwidth", "search", "bounds", "bounds with the flow bound, then the kick search", ("improve", "effort")),
     Method("homology", "auto", "auto", "subset DP for small sweeps, else the pinned cutwidth of the dual", _HOM_OPTIONS),
     Method("homology", "dual-cutwidth", "exact", "nested sweeps as pinned cutwidth of the dual (a relaxation when crossing)", _HOM_OPTIONS),
     Method("homology", "subset-dp", "exact", "dynamic programming over swept face sets", _HOM_OPTIONS),
