@@ -21,7 +21,7 @@ _PUBLIC = {
     "cutwidth": "sweepwidth.solve",
     "homology_width": "sweepwidth.solve",
     "homotopy_height": "sweepwidth.solve",
-    "homotopy_width": "sweepwidth.solve.width",
+    "homotopy_width": "sweepwidth.solve",
     "draw": "sweepwidth.draw",
     "Result": "sweepwidth.result",
     "SweepwidthError": "sweepwidth.errors",
