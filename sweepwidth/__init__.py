@@ -21,7 +21,7 @@ _PUBLIC = {
     "cutwidth": "sweepwidth.solve",
     "homology_width": "sweepwidth.solve",
     "homotopy_height": "sweepwidth.solve",
-    "homotopy_width": "sweepwidth.solve.width",
+    "homotopy_width": "sweepwidth.solve",
     "project_homotopy": "sweepwidth.solve.homotopy.projection",
     "solve_parameters": "sweepwidth.solve.joint",
     "draw": "sweepwidth.draw",

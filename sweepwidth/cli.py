@@ -300,6 +300,52 @@ def _solver_options(args: argparse.Namespace, parameter: str, obj: Any) -> dict:
 
         if parameter != "cutwidth" or "max_memory" in get_method(parameter, args.method).options:
             opts["max_memory"] = int(mem) * 2**20
+    if parameter == "width":
+        opts.update(_width_options(args, obj))
+    return opts
+
+
+def _curve_pair(text: str, obj: Any, what: str, names: tuple[str, str]) -> dict:
+    """``--walks``/``--leashes``: two curve names of the instance file, or a JSON list of two walks.
+
+    Names stay names (the loader looks them up in the file's ``curves``, so
+    ``bench`` can pass them to every instance); JSON walks get their vertex
+    labels matched against the graph.
+    """
+    text = text.strip()
+    if text.startswith("["):
+        try:
+            pair = json.loads(text)
+        except json.JSONDecodeError as err:
+            raise CliError(f"--{what} takes two curve names N,M or a JSON list of two walks: {err.msg}") from None
+        if not isinstance(pair, list) or len(pair) != 2:
+            raise CliError(f"--{what} takes a JSON list of exactly two walks, got {text!r}")
+        if obj is None:
+            raise CliError(f"--{what} with JSON walks needs one instance at a time (use curve names for a set)")
+        return {n: _curve_arg(json.dumps(w), obj, what) for n, w in zip(names, pair)}
+    parts = [x.strip() for x in text.split(",")]
+    if len(parts) != 2 or not all(parts):
+        raise CliError(f"--{what} takes two curve names N,M (stored under 'curves' in the instance file), got {text!r}")
+    return dict(zip(names, parts))
+
+
+def _width_options(args: argparse.Namespace, obj: Any) -> dict:
+    """The options of ``--param width``: walks, leashes, backward steps and the shared flags."""
+    opts: dict[str, Any] = {}
+    if getattr(args, "walks", None):
+        opts.update(_curve_pair(args.walks, obj, "walks", ("a", "b")))
+    if getattr(args, "leashes", None):
+        opts.update(_curve_pair(args.leashes, obj, "leashes", ("start", "end")))
+    if getattr(args, "backward", False):
+        opts["backward"] = True
+    if getattr(args, "no_spikes", False):
+        opts["spikes"] = False
+    if getattr(args, "simple", False):
+        opts["simple"] = True
+    if getattr(args, "unit", False):
+        opts["weight"] = None
+    if getattr(args, "length", None):
+        opts["weight"] = args.length
     return opts
 
 
@@ -755,6 +801,8 @@ def cmd_bench(args: argparse.Namespace, out: Callable[[str], None]) -> int:
         opts["monotone"] = True
     if args.length:
         opts["length"] = args.length
+    if "width" in params:
+        opts.update({k: v for k, v in _width_options(args, None).items() if k != "weight"})
     entries = discover(args.paths, sets=_split(args.sets, []) or None)
     if not entries:
         raise CliError("no instances found under " + ", ".join(args.paths))
@@ -1024,7 +1072,12 @@ def _add_solver_options(p: argparse.ArgumentParser, *, per_instance: bool = True
     g.add_argument("--no-spikes", action="store_true", help="homotopy: forbid spikes and unspikes")
     g.add_argument("--simple", action="store_true", help="homotopy: every intermediate curve must be simple")
     g.add_argument("--monotone", action="store_true", help="homotopy: flip each face at most once")
-    g.add_argument("--length", choices=["weight", "vertices"], help="homotopy: how curves are measured (default weight)")
+    g.add_argument("--length", choices=["weight", "vertices"], help="homotopy/width: how curves are measured (default weight)")
+    g.add_argument("--walks", metavar="A,B", help="width: the two walks, as names of curves stored in the instance file "
+                   "(default a,b) or a JSON list of two vertex lists")
+    g.add_argument("--leashes", metavar="START,END", help="width: the start and end leashes, as curve names or a JSON list "
+                   "of two walks (default: the file's start,end, else the boundary arcs between the walks)")
+    g.add_argument("--backward", action="store_true", help="width: let the leash ends step back along the walks too")
 
 
 def _param_list() -> str:

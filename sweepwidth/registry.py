@@ -106,6 +106,8 @@ PARAMETERS: dict[str, Parameter] = {
                   "sweepwidth.verify.homotopy", "plane",
                   ("start", "end", "spikes", "simple", "monotone", "weight", "length", "holes", "s", "t", "max_memory"),
                   measure="height"),
+        Parameter("width", "homotopy width", "sweepwidth.solve.width:homotopy_width", "sweepwidth.verify.width", "plane",
+                  ("a", "b", "start", "end", "backward", "spikes", "simple", "holes", "weight", "max_memory")),
     )
 }
 
@@ -177,6 +179,9 @@ _BUILTIN_METHODS: tuple[Method, ...] = (
     Method("homotopy", "auto", "auto", "bounds, then the exact search in the time left (small instances)"),
     Method("homotopy", "bounds", "bounds", "constructed homotopies over face orders and the homology lower bound"),
     Method("homotopy", "search", "exact", "best-first search over walk states"),
+    Method("width", "auto", "auto", "bounds, then the exact leash search in the time left (small instances)"),
+    Method("width", "bounds", "bounds", "Fréchet and closed-cone homology lower bounds, constructed and improved leash sweeps"),
+    Method("width", "search", "exact", "bottleneck search over leash states (i, j, L)"),
 )
 
 _REGISTRY: dict[str, dict[str, Method]] = {p: {} for p in PARAMETERS}

@@ -157,7 +157,9 @@ def test_bad_file_is_one_line(files, capsys):
 @pytest.mark.parametrize(
     "argv, needle, code",
     [
-        (["solve", "{grid}", "--param", "width"], "unknown parameter 'width'", 1),
+        (["solve", "{grid}", "--param", "girth"], "unknown parameter 'girth'", 1),
+        (["solve", "{grid}", "--param", "width"], "width needs two walks", 1),
+        (["solve", "{grid}", "--param", "width", "--walks", "a"], "--walks takes two curve names", 1),
         (["solve", "{grid}", "--method", "magic"], "magic", 1),
         (["solve", "{grid}", "--time-limit", "soon"], "takes seconds", 2),
         (["solve", "{c6}", "--param", "homology"], "plane graph", 1),
@@ -310,3 +312,35 @@ def test_ctrl_c_stops_a_bench_run_and_its_children(files, tmp_path):
 
     with ResultsDB(str(db)) as d:  # cut-off tasks are not recorded: a resumed run does them
         assert d.count() == 0
+
+
+LEASHES = os.path.join(os.path.dirname(os.path.dirname(os.path.abspath(__file__))), "instances", "leashes")
+
+
+@pytest.mark.parametrize("extra, known", [([], "width"), (["--backward"], "width_backward")])
+def test_solve_width_reads_the_walks_of_the_file(capsys, extra, known):
+    # the exact values of instances/leashes/manifest.json (found by the exact search, replayed by the checker)
+    path = os.path.join(LEASHES, "backstep-delaunay-1037.json")
+    with open(os.path.join(LEASHES, "manifest.json"), encoding="utf-8") as fh:
+        want = [e for e in json.load(fh)["instances"] if e["name"] == "backstep-delaunay-1037"][0]["known"][known]["value"]
+    assert main(["solve", path, "--param", "width", "--json", "--walks", "a,b", "--leashes", "start,end", *extra]) == 0
+    row = json.loads(capsys.readouterr().out.strip().splitlines()[-1])
+    assert row["parameter"] == "width" and row["status"] == "optimal" and row["value"] == want
+    assert row["checked"] == want
+
+
+def test_solve_width_with_inline_walks(tmp_path, capsys):
+    path = tmp_path / "g.json"
+    sw.write(gen.grid(3, 3), str(path))
+    # opposite sides of the 3 x 3 grid, leashes the other two sides: width 3 (docstring of homotopy_width,
+    # cross-checked by the reference search in tests/test_contract.py)
+    rc = main(["solve", str(path), "--param", "width", "--json", "--walks", "[[[0,0],[0,1],[0,2]], [[2,0],[2,1],[2,2]]]"])
+    assert rc == 0
+    row = json.loads(capsys.readouterr().out.strip().splitlines()[-1])
+    assert row["value"] == 3.0 and row["checked"] == 3.0
+
+
+def test_solve_width_names_a_missing_curve(capsys):
+    rc = main(["solve", os.path.join(LEASHES, "backstep-delaunay-1037.json"), "--param", "width", "--walks", "a,zz"])
+    assert rc == 1
+    assert "no curve named 'zz'" in capsys.readouterr().err

@@ -35,10 +35,18 @@ def _call(name, **kw):
         return sw.cutwidth(nx.path_graph(4), **kw)
     if name == "homology":
         return sw.homology_width(generators.grid(2, 3), **kw)
+    if name == "width":
+        # two opposite sides of the 3 x 3 grid; the other two sides are the leashes
+        return sw.homotopy_width(generators.grid(3, 3), [(0, 0), (0, 1), (0, 2)], [(2, 0), (2, 1), (2, 2)], **kw)
     return sw.homotopy_height(generators.wheel(4), **kw)
 
 
-SOLVERS = ["cutwidth", "homology", "homotopy"]
+def _graph(name):
+    return {"cutwidth": nx.path_graph(4), "homology": generators.grid(2, 3), "width": generators.grid(3, 3)}.get(
+        name, generators.wheel(4))
+
+
+SOLVERS = ["cutwidth", "homology", "homotopy", "width"]
 
 BAD_TIME_LIMITS = [-1, -0.5, math.nan, True, "5", [1], complex(1, 0)]
 BAD_SEEDS = [1.5, "x", True, -1, [0]]
@@ -91,7 +99,7 @@ def test_zero_time_limit_returns_valid_bounds(solver):
         assert r.status == "bounded" and r.witness is None and r.lower >= 0
         return
     assert r.lower <= r.upper
-    P = nx.path_graph(4) if solver == "cutwidth" else (generators.grid(2, 3) if solver == "homology" else generators.wheel(4))
+    P = _graph(solver)
     assert r.check(P) == pytest.approx(r.upper)
 
 
@@ -141,7 +149,7 @@ def test_make_result_status_rules():
 
 # ---------------------------------------------------------------- registries
 def test_parameters_registry_names_every_public_solver():
-    assert set(PARAMETERS) == {"cutwidth", "homology", "homotopy"}
+    assert set(PARAMETERS) == {"cutwidth", "homology", "homotopy", "width"}
     for p in PARAMETERS.values():
         fn = p.solver()
         assert getattr(sw, p.function_name) is fn
@@ -260,3 +268,47 @@ def test_numbers_in_messages_are_plain():
     with pytest.raises(WeightError) as info:
         sw.cutwidth(G)
     assert "np." not in str(info.value)
+
+
+def test_unknown_width_method_lists_the_registry():
+    with pytest.raises(sw.UnsupportedOptionError) as err:
+        _call("width", method="nope")
+    for name in methods("width"):
+        assert repr(name) in str(err.value)
+    assert {m.guarantee for m in methods("width").values()} == {"auto", "bounds", "exact"}
+
+
+def _width_by_search_only(problem, *, deadline, seed):
+    # an added width method: the built-in exact search, called on the problem object itself
+    from sweepwidth.solve.width.exact import search_width
+
+    out = search_width(problem, deadline=deadline.at)
+    return {"lower": out.lower, "upper": out.upper, "witness": out.witness, "stats": {"probe": True}}
+
+
+def test_added_width_method_runs_through_the_dispatcher():
+    register_method(Method("width", "probe-search", "exact", "the exact search as an added method",
+                           function=_width_by_search_only))
+    try:
+        r = _call("width", method="probe-search")
+    finally:
+        unregister_method("width", "probe-search")
+    # the reference breadth-first search of tests/reference_width.py (independent of the solver) gives 3
+    import os
+    import sys
+
+    sys.path.insert(0, os.path.dirname(__file__))
+    from reference_width import reference_width
+    from sweepwidth.problems.width import WidthProblem
+
+    W = WidthProblem.build(generators.grid(3, 3), [(0, 0), (0, 1), (0, 2)], [(2, 0), (2, 1), (2, 2)])
+    assert reference_width(W, 10.0) == 3.0
+    assert r.method == "probe-search" and r.stats["probe"]
+    assert r.status == "optimal" and r.value == 3.0
+    assert r.check(generators.grid(3, 3)) == 3.0
+
+
+def test_width_max_memory_must_be_a_positive_integer():
+    for bad in (0, -5, 1.5, True, "1"):
+        with pytest.raises(InvalidArgumentError, match="max_memory"):
+            _call("width", max_memory=bad)

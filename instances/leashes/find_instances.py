@@ -160,14 +160,17 @@ def write_all(folder: str, seeds: dict) -> list:
         P.meta["curves"] = {k: opts[k] for k in ("a", "b", "start", "end")}
         src = "exact leash-state search (sweepwidth.solve.width.exact), witness replayed by the checker"
         P.meta["known"] = {
-            "homotopy_width": {"value": c["width"], "source": src},
-            "backward_homotopy_width": {"value": c.get("backward_width"), "source": src + ", backward=True"},
+            "width": {"value": c["width"], "source": src},
+            "width_backward": {"value": c.get("backward_width"), "source": src + ", backward=True"},
+        }
+        P.meta["facts"] = {  # values of no parameter variant: kept beside the known values
             "single_flip_width": {"value": c.get("single_flip_width"),
                                   "source": "exact search with every face flipped at most once (allow_reflip=False)"},
             "geodesic_frechet_bound": {"value": c["frechet"], "source": "sweepwidth.solve.width.bounds.frechet_bound"},
         }
         sw.write(P, os.path.join(folder, name + ".json"))
-        entries.append({"path": name + ".json", "name": name, "kind": kind, "known": P.meta["known"]})
+        entries.append({"path": name + ".json", "name": name, "kind": "plane", "role": kind, "known": P.meta["known"],
+                        "facts": P.meta["facts"]})
     with open(os.path.join(folder, "manifest.json"), "w", encoding="utf-8") as fh:
         json.dump({"format": "sweepwidth-manifest", "version": 1, "instances": entries}, fh, indent=1)
     return entries

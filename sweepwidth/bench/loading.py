@@ -12,7 +12,7 @@ import inspect
 import os
 from typing import Any, Callable, Mapping
 
-from ..errors import InputTypeError, SweepwidthError, UnsupportedOptionError
+from ..errors import InputTypeError, InvalidCurveError, SweepwidthError, UnsupportedOptionError
 from .. import registry
 
 __all__ = [
@@ -92,6 +92,8 @@ def _with_file_curves(parameter: str, P: Any, opts: dict) -> dict:
     meta = getattr(P, "meta", None) or {}
     curves = meta.get("curves") or {}
     out = dict(opts)
+    if parameter == "width":
+        return _width_file_curves(curves, meta, out)
     for name in ("start", "end"):
         if name in out or name not in curves:
             continue
@@ -103,6 +105,31 @@ def _with_file_curves(parameter: str, P: Any, opts: dict) -> dict:
             if "edges" in c:
                 continue  # an edge set is no walk; the solver's default applies
             out[name] = {"vertex": c["vertex"], "darts": list(c["darts"])}
+    if "holes" not in out and meta.get("holes"):
+        out["holes"] = sorted(int(f) for f in meta["holes"])
+    return out
+
+
+def _width_file_curves(curves: Mapping[str, Any], meta: Mapping[str, Any], out: dict) -> dict:
+    """Walks ``a``, ``b`` and leashes ``start``, ``end`` of the width: names of the file's curves, or its defaults."""
+
+    def walk(name: str, role: str) -> dict:
+        c = curves.get(name)
+        if c is None:
+            have = ", ".join(sorted(map(str, curves))) or "none"
+            raise InvalidCurveError(f"width: the instance has no curve named {name!r} for {role} (its curves: {have})")
+        if "edges" in c:
+            raise InvalidCurveError(f"width: curve {name!r} is an edge set, not a walk")
+        return {"vertex": c["vertex"], "darts": list(c["darts"])}
+
+    for key in ("a", "b", "start", "end"):
+        if isinstance(out.get(key), str):
+            out[key] = walk(out[key], key)
+        elif key not in out and key in curves:
+            out[key] = walk(key, key)
+    if "a" not in out or "b" not in out:
+        raise InvalidCurveError("width needs two walks: store curves 'a' and 'b' in the instance file "
+                                "(see docs/formats.md) or name them with --walks")
     if "holes" not in out and meta.get("holes"):
         out["holes"] = sorted(int(f) for f in meta["holes"])
     return out

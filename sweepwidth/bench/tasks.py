@@ -153,7 +153,8 @@ class Task:
 
 
 #: option values that give a variant its own key among an instance's known values
-_VARIANT_FLAGS = (("monotone", True, "monotone"), ("simple", True, "simple"), ("spikes", False, "nospikes"))
+_VARIANT_FLAGS = (("monotone", True, "monotone"), ("simple", True, "simple"), ("spikes", False, "nospikes"),
+                  ("backward", True, "backward"))
 
 
 def known_key(parameter: str, options: Mapping[str, Any] | None = None) -> str:

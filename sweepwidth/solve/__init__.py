@@ -5,6 +5,7 @@ Public entry points
 cutwidth(G, ...)          any graph (see :mod:`sweepwidth.solve.ordering`)
 homology_width(P, ...)    Z2 sweeps of a plane graph (:mod:`sweepwidth.solve.homology`)
 homotopy_height(P, ...)   discrete homotopies of a plane graph (:mod:`sweepwidth.solve.homotopy`)
+homotopy_width(P, a, b)   leash sweeps between two walks (:mod:`sweepwidth.solve.width`)
 """
 
 from __future__ import annotations

@@ -16,7 +16,6 @@ __all__ = ["check_result", "register_checker"]
 _CHECKERS: dict[str, Callable[..., float]] = {}
 #: checker module of each parameter, from the registry :data:`sweepwidth.solve.contract.PARAMETERS`
 _MODULES = {name: p.checker for name, p in PARAMETERS.items()}
-_MODULES.setdefault("width", "sweepwidth.verify.width")  # until width joins the registry (CLI and bench wiring)
 
 
 def register_checker(parameter: str) -> Callable[[Callable[..., float]], Callable[..., float]]:

@@ -68,6 +68,7 @@ from typing import Any
 
 from ...errors import InvalidCurveError, InvalidEmbeddingError
 from ...plane import PlaneGraph
+from ..contract import Deadline
 
 __all__ = ["ConedInstance", "cone_instance", "coned_height"]
 
@@ -203,13 +204,17 @@ def cone_instance(W: Any, M: float) -> ConedInstance:
     raise InvalidCurveError(f"coning: no planar placement of the cone vertices found ({last})")
 
 
-def coned_height(W: Any, M: float, **kw: Any) -> tuple[Any, ConedInstance]:
-    """``(homotopy height Result of the coned problem, the instance)``; keywords go to ``homotopy_height``."""
-    from ._reuse import homotopy_height
+def coned_height(W: Any, M: float, *, method: str = "auto", deadline: Deadline | None = None,
+                 seed: int | None = None) -> tuple[Any, ConedInstance]:
+    """``(homotopy height Result of the coned problem, the instance)``, solved under ``deadline`` (default none)."""
+    from ...problems.homotopy import HomotopyProblem
+    from ..homotopy import solve_problem as solve_height
 
     C = cone_instance(W, M)
-    r = homotopy_height(C["graph"], start=C["start"], end=C["end"], s=C["s"], t=C["t"], holes=C["holes"],
-                        spikes=C["spikes"], simple=C["simple"], **kw)
+    H = HomotopyProblem.build(C["graph"], start=C["start"], end=C["end"], s=C["s"], t=C["t"], holes=C["holes"],
+                              spikes=C["spikes"], simple=C["simple"])
+    r = solve_height(H, method=method, deadline=deadline if deadline is not None else Deadline.from_limit(None),
+                     seed=seed)
     return r, C
 
 
@@ -282,7 +287,7 @@ def closed_cone(W: Any, M: float) -> dict:
     raise InvalidCurveError("closed cone: no planar placement of the cone vertex found")
 
 
-def homology_lower(W: Any, M: float, *, time_limit: float | None = None) -> tuple[float | None, str]:
+def homology_lower(W: Any, M: float, *, deadline: Deadline | None = None) -> tuple[float | None, str]:
     """A proven lower bound on the homotopy width from the homology sweep of the closed cone.
 
     Map each state ``(i, j, L)`` to the closed walk ``x a_i L b_j x`` of
@@ -304,16 +309,18 @@ def homology_lower(W: Any, M: float, *, time_limit: float | None = None) -> tupl
     Math. 23(3), 2009.
     """
     from ...errors import SweepwidthError
-    from ..homology import homology_width
+    from ...problems.cycles import HomologyProblem
+    from ..homology import solve_problem as solve_homology
 
     try:
         C = closed_cone(W, M)
     except SweepwidthError as err:
         return None, f"closed cone not available: {err}"
     try:
-        r = homology_width(C["graph"], start={"vertex": C["x"], "darts": C["start"]},
-                           end={"vertex": C["x"], "darts": C["end"]}, holes=C["holes"], monotone=False,
-                           time_limit=time_limit)
+        hp = HomologyProblem.build(C["graph"], {"vertex": C["x"], "darts": C["start"]},
+                                   {"vertex": C["x"], "darts": C["end"]}, C["holes"])
+        r = solve_homology(hp, deadline=deadline if deadline is not None else Deadline.from_limit(None),
+                           monotone=False)
     except SweepwidthError as err:
         return None, f"homology bound not available: {err}"
     if r.lower is None or r.status == "infeasible":

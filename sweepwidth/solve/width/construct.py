@@ -36,7 +36,8 @@ import time
 from typing import Any
 
 from ...problems.homotopy import Curve
-from ._reuse import bfs_rank, construct_homotopy
+from ..contract import Deadline
+from ..homotopy import bfs_rank, construct_homotopy
 from .bounds import distances_from, frechet_bound, leash_distances
 
 __all__ = ["construct_sweep", "best_constructed", "coned_construction"]
@@ -198,7 +199,7 @@ def coned_construction(W: Any, M: float, *, deadline: float | None = None) -> tu
     """
     from ...errors import SweepwidthError
     from ...problems.homotopy import HomotopyProblem, apply_move
-    from ._reuse import homotopy_height
+    from ..homotopy import solve_problem as solve_height
     from .coning import cone_instance
 
     try:
@@ -206,13 +207,12 @@ def coned_construction(W: Any, M: float, *, deadline: float | None = None) -> tu
     except SweepwidthError:
         return None
     Q = C["graph"]
-    limit = None if deadline is None else max(0.5, deadline - time.monotonic())
-    r = homotopy_height(Q, start=C["start"], end=C["end"], s=C["s"], t=C["t"], holes=C["holes"],
-                        spikes=C["spikes"], simple=C["simple"], method="bounds", time_limit=limit)
-    if r.witness is None:
-        return None
     H = HomotopyProblem.build(Q, start=C["start"], end=C["end"], s=C["s"], t=C["t"], holes=C["holes"],
                               spikes=C["spikes"], simple=C["simple"])
+    sub = Deadline.at_time(None if deadline is None else max(time.monotonic() + 0.5, deadline))
+    r = solve_height(H, method="bounds", deadline=sub)
+    if r.witness is None:
+        return None
     m, p = W.graph.number_of_edges(), W.p
 
     def decode(darts: tuple) -> tuple[int, int, tuple] | None:

@@ -55,7 +55,7 @@ from dataclasses import dataclass, field
 from typing import Any, Callable
 
 from ...errors import ProblemTooLargeError
-from ._reuse import WalkSpace
+from ..homotopy.walks import WalkSpace
 
 __all__ = ["DEFAULT_MAX_MEMORY", "WidthSearchOutcome", "search_width", "walk_space"]
 
