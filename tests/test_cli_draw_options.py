@@ -65,3 +65,12 @@ def test_profile_legend_and_axis_use_one_word(tmp_path):
     labels = [t.get_text() for t in ax.get_legend().get_texts()]
     assert ax.get_ylabel() == "cut weight" and "cut weight at step" in labels
     assert not any("length" in l for l in labels)
+
+
+def test_draw_width_says_it_has_no_picture_yet(capsys, tmp_path):
+    # regression: 'draw --param width' called the width solver without its two walks (an internal TypeError)
+    inst = os.path.join(os.path.dirname(os.path.dirname(os.path.abspath(__file__))), "instances", "leashes",
+                        "backstep-delaunay-1037.json")
+    rc, out, err = _run(capsys, "draw", inst, "--param", "width", "-o", tmp_path / "w.png")
+    assert rc != 0
+    assert "not drawn yet" in err and "internal error" not in err

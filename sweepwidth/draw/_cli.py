@@ -21,7 +21,14 @@ _PARAMS = tuple(PARAMETERS)
 _EXTS = (".png", ".svg", ".gif")
 
 
+#: parameters whose sweeps have no picture yet (a clear refusal instead of a failed solve)
+NOT_DRAWN = {"width": "pictures of leash sweeps (homotopy width) are not drawn yet; "
+                      "solve it with 'sweepwidth solve FILE --param width' and replay the witness with 'check'"}
+
+
 def _solve(obj: Any, param: str, dual: bool, time_limit: float | None = QUICK_LIMIT) -> Any:
+    if param in NOT_DRAWN:
+        raise InvalidArgumentError(NOT_DRAWN[param])
     entry = PARAMETERS[param]
     solve = entry.solver()
     if entry.problem == "graph":

@@ -43,7 +43,7 @@ from typing import Any, Callable
 from ...errors import InvalidArgumentError
 from ...problems.width import WEIGHTS, WidthProblem
 from ...result import Result
-from ..contract import Deadline, builtin_names, check_seed, get_method, make_result, methods, resolve_weight
+from ..contract import Deadline, builtin_names, check_seed, get_method, make_result, method_label, methods, resolve_weight
 from ..homotopy.free_group import FreeGroup
 from .bounds import frechet_bound, leash_distances
 from .coning import homology_lower
@@ -322,9 +322,12 @@ def solve_problem(W: WidthProblem, *, method: str = "auto", deadline: Deadline, 
         if method == "search":
             st.used = "search"
     stats["bounds"] = st.bounds
+    if method == "auto" and isinstance(stats.get("auto"), str):  # one shape for every parameter
+        stats["auto"] = {"choice": st.used, "reason": stats["auto"]}
+    used = method_label(method, st.used)
     seconds = time.monotonic() - t0
     if st.infeasible is not None:
-        return make_result("width", lower=None, upper=None, witness=None, method=st.used, seconds=seconds,
+        return make_result("width", lower=None, upper=None, witness=None, method=used, seconds=seconds,
                            stats=stats, infeasible=st.infeasible)
     lower = st.lower
     ends = max(W.length_of(W.start.darts), W.length_of(W.end.darts))
@@ -332,5 +335,5 @@ def solve_problem(W: WidthProblem, *, method: str = "auto", deadline: Deadline, 
     if st.upper is not None and lower > st.upper + _EPS:  # pragma: no cover - would be a bug in a bound
         stats["warning"] = f"lower bound {lower:g} above the witness width {st.upper:g}: lowered to it"
         lower = st.upper
-    return make_result("width", lower=lower, upper=st.upper, witness=st.witness, method=st.used, seconds=seconds,
+    return make_result("width", lower=lower, upper=st.upper, witness=st.witness, method=used, seconds=seconds,
                        stats=stats, optimal=st.upper is not None and st.upper - lower <= _EPS)
