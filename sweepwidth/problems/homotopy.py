@@ -77,6 +77,7 @@ __all__ = [
     "LENGTHS",
     "apply_move",
     "curve_from_json",
+    "hole_faces",
 ]
 
 #: the length conventions
@@ -369,17 +370,7 @@ class HomotopyProblem:
             if not isinstance(val, bool):
                 raise InvalidArgumentError(f"option {name} must be True or False, got {val!r}")
         F = P.number_of_faces()
-        if holes is None:
-            hole_set = frozenset({P.outer_face})
-        else:
-            if isinstance(holes, (int, str)):
-                holes = [holes]  # type: ignore[list-item]
-            hs = []
-            for h in holes:
-                if isinstance(h, bool) or not isinstance(h, int) or not 0 <= h < F:
-                    raise NotInGraphError(f"hole {h!r} is not a face id in 0..{F - 1}")
-                hs.append(int(h))
-            hole_set = frozenset(hs)
+        hole_set = hole_faces(P, holes, NotInGraphError)
         m = P.number_of_edges()
         tail = tuple(P.tail_index(d) for d in range(2 * m))
         head = tuple(P.head_index(d) for d in range(2 * m))
@@ -663,3 +654,22 @@ def apply_move(problem: HomotopyProblem, curve: Curve, move: Mapping[str, Any], 
             return Curve(new, tail[new[0]])
         return Curve((), tail[a])
     raise IllegalMoveError(f"unknown move op {op!r}; valid: 'flip', 'spike', 'unspike'")
+
+
+def hole_faces(P: Any, holes: Any, error: type[Exception]) -> frozenset:
+    """The hole faces asked for (default: the outer face), each checked to be a face id of ``P``.
+
+    ``holes`` is None, one face id or a collection of them; a bad id raises
+    ``error`` naming it and the valid range.
+    """
+    F = P.number_of_faces()
+    if holes is None:
+        return frozenset({P.outer_face})
+    if isinstance(holes, (int, str)):
+        holes = [holes]
+    hs = []
+    for h in holes:
+        if isinstance(h, bool) or not isinstance(h, int) or not 0 <= h < F:
+            raise error(f"hole {h!r} is not a face id in 0..{F - 1}")
+        hs.append(int(h))
+    return frozenset(hs)

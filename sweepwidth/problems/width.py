@@ -80,7 +80,7 @@ from dataclasses import dataclass, field
 from typing import Any, Iterable, Mapping, Sequence
 
 from ..errors import InputTypeError, InvalidArgumentError, InvalidCurveError, SweepwidthError, UnsupportedOptionError
-from .homotopy import Curve, HomotopyProblem, IllegalMoveError, apply_move, curve_from_json
+from .homotopy import Curve, HomotopyProblem, IllegalMoveError, apply_move, curve_from_json, hole_faces
 
 __all__ = ["WEIGHTS", "WidthProblem", "WidthState", "IllegalMoveError"]
 
@@ -210,17 +210,7 @@ class WidthProblem:
             if not isinstance(val, bool):
                 raise InvalidArgumentError(f"option {name} must be True or False, got {val!r}")
         F = P.number_of_faces()
-        if holes is None:
-            hole_set = frozenset({P.outer_face})
-        else:
-            if isinstance(holes, (int, str)):
-                holes = [holes]  # type: ignore[list-item]
-            hs = []
-            for h in holes:
-                if isinstance(h, bool) or not isinstance(h, int) or not 0 <= h < F:
-                    raise InvalidCurveError(f"hole {h!r} is not a face id in 0..{F - 1}")
-                hs.append(int(h))
-            hole_set = frozenset(hs)
+        hole_set = hole_faces(P, holes, InvalidCurveError)
         A = _walk(P, a, "a")
         B = _walk(P, b, "b")
         m = P.number_of_edges()
