@@ -19,6 +19,8 @@ from __future__ import annotations
 
 import random
 
+import time
+
 import pytest
 from hypothesis import example, given, settings
 from hypothesis import strategies as st
@@ -256,3 +258,17 @@ def test_regression_boundary_edge_ids_that_also_read_as_a_walk():
     # reads as a closed walk through vertices (InvalidCurveError); it now passes an edge-id set
     P = generators.delaunay(5, seed=4).dual()
     _consistent(P, sw.solve_parameters(P, ["homology", "homotopy"], time_limit=3))
+
+
+@pytest.mark.parametrize("limit", [0, 0.05, 0.2, 0.5])
+def test_joint_short_limits_regression(limit):
+    # regression: a limit spent before the homology share was computed gave a negative time_limit
+    # (InvalidArgumentError), and a homotopy side with no time left reported no witness although the
+    # homology face order can be lifted to a homotopy
+    P = generators.weighted_delaunay_disk(60, seed=2)
+    t0 = time.monotonic()
+    res = sw.solve_parameters(P, ["homology", "homotopy"], time_limit=limit, seed=0)
+    assert time.monotonic() - t0 < limit + 1.5
+    hom, htp = res["homology"], res["homotopy"]
+    assert hom.witness is not None and htp.witness is not None
+    _consistent(P, res)

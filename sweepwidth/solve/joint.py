@@ -236,9 +236,9 @@ def _solve_pair(P: Any, limit: float | None, seed: int | None, start: Any, end: 
     if not H.closed or H.length != "weight":
         # nothing to share: open walks (the homology sweep is of cycles) or vertex counts (other units)
         why = "open walks" if not H.closed else "homotopy measured in vertices"
-        lim1 = None if limit is None else HOMOLOGY_SHARE * dl.remaining()
+        lim1 = None if limit is None else max(0.0, HOMOLOGY_SHARE * dl.remaining())
         r1 = homology_width(P, start=start, end=end, holes=holes, time_limit=lim1, seed=seed, **hom_opts)
-        rest = None if limit is None else dl.remaining()
+        rest = None if limit is None else max(0.0, dl.remaining())
         r2 = homotopy_height(P, start=start, end=end, holes=holes, time_limit=rest, seed=seed, **htp_opts)
         note = {"comparable": False, "shared": f"nothing ({why})"}
         return (_replace(r1, stats={**r1.stats, "joint": note}), _replace(r2, stats={**r2.stats, "joint": note}))
@@ -257,7 +257,7 @@ def _solve_pair(P: Any, limit: float | None, seed: int | None, start: Any, end: 
     validate_homology(method, monotone, hom_opts)
     # edge-id sets (a list of ints could also read as a walk through vertices)
     problem = HomologyProblem.build(P, set(z0), set(z1), sorted(H.holes))
-    h_dl = dl if limit is None else Deadline.from_limit(HOMOLOGY_SHARE * dl.remaining())
+    h_dl = dl if limit is None else Deadline.from_limit(max(0.0, HOMOLOGY_SHARE * dl.remaining()))
     r1 = solve_homology(problem, method=method, deadline=h_dl, seed=seed, monotone=monotone, options=hom_opts)
     order = list(r1.witness) if isinstance(r1.witness, list) and r1.stats.get("monotone", True) else None
     hint: tuple[float | None, dict, list | None] | None
@@ -274,6 +274,17 @@ def _solve_pair(P: Any, limit: float | None, seed: int | None, start: Any, end: 
     r2 = solve_homotopy(H, method=h_method, deadline=Deadline.at_time(dl.at), seed=seed, max_memory=htp_opts.get("max_memory"),
                         homology=hint)
     joint: dict[str, Any] = {"comparable": comparable, "homology_to_homotopy": "none", "homotopy_to_homology": "none"}
+    if r2.witness is None and r2.status != "infeasible" and order:
+        # the homotopy side ran out of time before constructing anything: lift the homology face order
+        # (one construction, linear in the flips; a short grace past the deadline, like the result assembly)
+        lifted = _lift_order(H, order, max(dl.remaining(), 0.5))
+        if lifted is not None:
+            height, wit = lifted
+            r2 = make_result("homotopy", lower=r2.lower if r2.lower is not None else 0.0, upper=height, witness=wit,
+                             method=r2.method, seconds=time.monotonic() - t0,
+                             stats={**r2.stats, "bounds": {**dict(r2.stats.get("bounds") or {}),
+                                                           "upper": "homology face order lifted to a homotopy (joint solve)"}})
+            joint["homology_to_homotopy_witness"] = "lifted face order"
     # homotopy lower bound >= homology lower bound (when comparable)
     if comparable and r1.lower is not None and r2.status != "infeasible":
         lo2 = r2.lower if r2.lower is not None else 0.0
@@ -315,6 +326,15 @@ def _solve_pair(P: Any, limit: float | None, seed: int | None, start: Any, end: 
     r1 = _replace(r1, stats={**r1.stats, "joint": joint})
     r2 = _replace(r2, stats={**r2.stats, "joint": joint})
     return r1, r2
+
+
+def _lift_order(H: Any, order: list[int], seconds: float) -> tuple[float, dict] | None:
+    """A homotopy built by sweeping the faces in the given order (None when it does not end where it should)."""
+    from .homotopy import construct_homotopy
+
+    pos = {f: i for i, f in enumerate(order)}
+    rank = [float(pos.get(f, len(order))) for f in range(H.n_faces)]
+    return construct_homotopy(H, rank, deadline=time.monotonic() + seconds)
 
 
 def _odd(toggles: Iterable[int]) -> set[int]:
