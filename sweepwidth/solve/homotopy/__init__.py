@@ -105,8 +105,6 @@ __all__ = [
 ]
 
 #: built-in method names of :func:`homotopy_height` (from the method registry,
-
-#: built-in method names of :func:`homotopy_height` (from the method registry,
 #: :mod:`sweepwidth.solve.contract`; the functions are in ``_METHODS``)
 METHODS = tuple(sorted(builtin_names("homotopy"), key=list(methods("homotopy")).index))
 

@@ -8,30 +8,9 @@ prefixes of sizes ``|first| .. n - |last|`` count, see
 :mod:`sweepwidth.problems.ordering`); :func:`solve_sat` finds an ordering of
 least width, or proven bounds when its deadline comes first.
 
-Model
------
-An ordering is described by its chain of prefixes: ``x[v][i]`` is true when
-vertex ``v`` is among the first ``i`` (levels ``i = 1..n-1``; level 0 is empty
-and level n is everything).  Clauses:
-
-* monotone chain: ``x[v][i] -> x[v][i+1]``;
-* one vertex enters per step: ``p[v][i] <- x[v][i] & ~x[v][i-1]`` with an
-  at-most-one (ladder) over ``p[.][i]`` and the at-least-one, for every step.
-  With n steps and n vertices this makes ``|prefix i| = i``;
-* level counts (redundant): "exactly i of the ``x[.][i]``" as a two-sided
-  totalizer at the levels of the middle half (option ``counts``).  Without
-  them the solver has to rediscover pigeonhole arguments ("more than i
-  vertices before position i") by resolution, which it cannot do cheaply;
-  this is the idea that buys most (table below);
-* crossing indicators only as implications, ``x[u][i] & ~x[v][i] -> c[e][i]``
-  (and the mirror), which is all an upper bound on the cut needs;
-* per counted level a totalizer (python-sat's C++ one; a weight w is w copies
-  of the indicator) or a weighted sequential counter over the ``c[.][i]``,
-  with outputs "the cut at level i weighs more than t" for t up to the
-  largest bound ever asked (upper - 1).  "width <= k" is the set of negated
-  outputs at t = k: added as units once an ordering of width k + 1 is known
-  (downward search, the default) or assumed (upward search).  The formula is
-  never rebuilt.
+The formula itself (prefix chain, level counts, crossing indicators,
+cardinality counters, symmetry breaking) is described in
+:mod:`sweepwidth.solve.ordering.sat_encoding`.
 
 Two cheaper questions come first.  *Level probes*: is there a counted prefix
 of size i with cut <= k at all?  A "no" for one i proves width > k (an
@@ -83,12 +62,12 @@ from ...errors import InputTypeError, InvalidArgumentError, OperationError, Unsu
 from ...problems.ordering import OrderingProblem
 from .._deadline import BUDGET_SOLVERS, run_limited, sat_call
 
+from .sat_encoding import _Formula, _LevelProbe, _OutOfTime, _int_weights
+
 __all__ = ["SatOutcome", "solve_sat", "greedy_order", "SOLVERS"]
 
 #: Solver names accepted by :func:`solve_sat`.  kissat404 has no assumptions
 #: in python-sat and is rebuilt for every bound.
-from .sat_encoding import _Formula, _LevelProbe, _OutOfTime, _int_weights
-
 SOLVERS = ("cadical195", "cadical153", "glucose4", "glucose42", "minisat22", "maplechrono", "kissat404")
 
 _OPTIONS = {

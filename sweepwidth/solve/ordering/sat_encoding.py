@@ -56,11 +56,7 @@ import numpy as np
 from ...errors import WeightError
 from ...problems.ordering import OrderingProblem
 
-__all__ = ["SatOutcome", "solve_sat", "greedy_order", "SOLVERS"]
-
-#: Solver names accepted by :func:`solve_sat`.  kissat404 has no assumptions
-#: in python-sat and is rebuilt for every bound.
-
+#: nothing public: the formula and the probes are driven by :mod:`.sat`
 __all__: list[str] = []
 
 def _int_weights(problem: OrderingProblem) -> list[int]:
