@@ -288,9 +288,9 @@ def solve_sat(
     clock, so the function returns within about a second of the deadline.
     Exponential in the worst case (cutwidth is NP-hard).
 
-    References
-    ----------
-    See the module docstring.
+    See Also
+    --------
+    sweepwidth.solve.ordering.sat : the module docstring lists the references.
 
     Examples
     --------
