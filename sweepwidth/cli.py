@@ -985,8 +985,10 @@ def cmd_draw(args: argparse.Namespace, out: Callable[[str], None]) -> int:
     if render is None:
         try:
             render = drawing.__getattr__("render_cli")  # lazy facades
-        except (AttributeError, ImportError):
+        except AttributeError:
             render = None
+        except ImportError as err:  # say what failed to import (e.g. matplotlib: the 'plot' extra), never hide it
+            raise CliError(f"drawing needs the 'plot' extra: {err}") from err
     if render is None:
         raise CliError("drawing from the command line is not available yet (sweepwidth.draw.render_cli is missing)")
     if args.result and not os.path.exists(args.result):

@@ -197,6 +197,7 @@ def methods(parameter_name: str) -> Mapping[str, Method]:
 
 
 def method_names(parameter_name: str) -> list[str]:
+    """The method names of a parameter, in registry order (built-in first, then added ones)."""
     return list(methods(parameter_name))
 
 

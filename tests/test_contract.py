@@ -161,6 +161,7 @@ def _dummy_cutwidth(P, *, lower, upper, upper_order, deadline, seed, **options):
     class Out:
         pass
 
+    assert isinstance(deadline, Deadline) and deadline.remaining() > 0  # every room passes the Deadline object down
     out = Out()
     out.lower, out.upper, out.order, out.stats = lower, upper, list(upper_order), {"dummy": True}
     return out

@@ -22,7 +22,8 @@ import _limited_helpers as H
 from sweepwidth.errors import SweepwidthError, UnsupportedOptionError, WeightError
 from sweepwidth.problems.ordering import OrderingProblem
 from sweepwidth.solve._deadline import ChildProcessError_, run_limited, sat_call
-from sweepwidth.solve.ordering.sat import SatOutcome, _LevelProbe, _orbits, greedy_order, solve_sat
+from sweepwidth.solve.ordering.sat import SatOutcome, greedy_order, solve_sat
+from sweepwidth.solve.ordering.sat_encoding import _LevelProbe, _orbits
 
 # ---------------------------------------------------------------------------
 # independent reference: width straight from the networkx graph

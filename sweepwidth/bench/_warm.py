@@ -19,6 +19,7 @@ _MODULES = (
     "sweepwidth.solve.ordering.dp",
     "sweepwidth.solve.ordering.heuristics",
     "sweepwidth.solve.ordering.bounds",
+    "sweepwidth.solve.ordering.sat_encoding",
     "sweepwidth.solve.ordering.sat",
     "sweepwidth.solve.homology.face_sets",
     "sweepwidth.solve.homotopy.search",

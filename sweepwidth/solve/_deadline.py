@@ -94,7 +94,7 @@ BUDGET_SOLVERS = frozenset(
     }
 )
 
-_PRELOAD = ["numpy", "networkx", "pysat.solvers", "pysat.card", "sweepwidth.solve._deadline", "sweepwidth.solve.ordering.sat"]
+_PRELOAD = ["numpy", "networkx", "pysat.solvers", "pysat.card", "sweepwidth.solve._deadline", "sweepwidth.solve.ordering.sat_encoding", "sweepwidth.solve.ordering.sat"]
 _CTX_LOCK = threading.Lock()
 _CTX: Any = None
 

@@ -487,8 +487,8 @@ def homology_width(
 
     References
     ----------
-    G. Brightwell and P. Winkler, "Submodular percolation", SIAM J. Discrete
-    Math. 23(3), 2009.
+    .. [1] G. Brightwell and P. Winkler, "Submodular percolation", SIAM J. Discrete
+       Math. 23(3), 2009.
 
     Examples
     --------

@@ -73,15 +73,15 @@ pruning.
 
 References
 ----------
-E. W. Dijkstra, "A note on two problems in connexion with graphs",
-Numerische Mathematik 1 (1959) -- with the bottleneck (minimax) path cost.
-K. S. Booth, "Lexicographically least circular substrings", Information
-Processing Letters 10(4), 1980 -- the canonical rotation idea.
-E. W. Chambers, G. R. Chambers, A. de Mesmay, T. Ophelders, R. Rotman,
-"Constructing monotone homotopies and sweepouts", J. Geom. Anal. 2021.
-B. Burton, E. W. Chambers, M. van Kreveld, W. Meulemans, T. Ophelders,
-B. Speckmann, "Computing optimal homotopies over a spiked plane with
-polygonal boundary", ESA 2017 -- discrete homotopies with spikes.
+.. [1] E. W. Dijkstra, "A note on two problems in connexion with graphs",
+   Numerische Mathematik 1 (1959) -- with the bottleneck (minimax) path cost.
+.. [2] K. S. Booth, "Lexicographically least circular substrings", Information
+   Processing Letters 10(4), 1980 -- the canonical rotation idea.
+.. [3] E. W. Chambers, G. R. Chambers, A. de Mesmay, T. Ophelders, R. Rotman,
+   "Constructing monotone homotopies and sweepouts", J. Geom. Anal. 2021.
+.. [4] B. Burton, E. W. Chambers, M. van Kreveld, W. Meulemans, T. Ophelders,
+   B. Speckmann, "Computing optimal homotopies over a spiked plane with
+   polygonal boundary", ESA 2017 -- discrete homotopies with spikes.
 """
 
 from __future__ import annotations

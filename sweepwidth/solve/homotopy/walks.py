@@ -33,7 +33,7 @@ from collections.abc import Iterator, Sequence
 from dataclasses import dataclass, field
 from typing import Any
 
-from ...errors import NotInGraphError, SweepwidthError, UnsupportedOptionError
+from ...errors import NotInGraphError, UnsupportedOptionError
 
 __all__ = ["LENGTH_MODES", "WalkSpace", "find_rotation", "least_rotation"]
 

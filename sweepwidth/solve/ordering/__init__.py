@@ -50,7 +50,7 @@ Methods
                 time is up or the bounds meet (without a limit
                 5 s + n / 100 s); bounded.
 callable        ``fn(problem, *, lower, upper, upper_order, deadline, seed,
-                **options)`` returning an object with ``lower``, ``upper``,
+                **options)`` (``deadline`` a :class:`~sweepwidth.solve.contract.Deadline`) returning an object with ``lower``, ``upper``,
                 ``order`` (on the problem's vertex indices) and optionally
                 ``optimal`` and ``stats``.
 ==============  ===========================================================
@@ -360,7 +360,8 @@ def _solve_part(P: OrderingProblem, method: Any, deadline: float | None, seed: i
         stats["bounds_seconds"] = time.monotonic() - t0
         return _Part(hw if lb >= hw - 1e-9 else lb, hw, horder, stats, "search")
     if callable(method):
-        out = method(P, lower=lb, upper=hw, upper_order=horder, deadline=deadline, seed=seed, **opts)
+        # an added method gets the Deadline object, as in every room (built-in stages take its float end)
+        out = method(P, lower=lb, upper=hw, upper_order=horder, deadline=Deadline.at_time(deadline), seed=seed, **opts)
         order = list(out.order) if getattr(out, "order", None) is not None else horder
         w = P.width(order)
         if w > hw:
@@ -600,9 +601,9 @@ def cutwidth(
 
     References
     ----------
-    Bodlaender, Fomin, Koster, Kratsch and Thilikos, "A note on exact
-    algorithms for vertex ordering problems on graphs", Theory of Computing
-    Systems 50 (2012).
+    .. [1] Bodlaender, Fomin, Koster, Kratsch and Thilikos, "A note on exact
+       algorithms for vertex ordering problems on graphs", Theory of Computing
+       Systems 50 (2012).
 
     Examples
     --------

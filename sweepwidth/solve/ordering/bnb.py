@@ -150,10 +150,10 @@ def solve_bnb(
 
     References
     ----------
-    Martí, Pantrigo, Duarte and Pardo, "Branch and bound for the cutwidth
-    minimization problem", Computers & Operations Research 40 (2013): plain
-    branch and bound over prefixes; the threshold search and the state memory
-    used here replace its bounding rules.
+    .. [1] Martí, Pantrigo, Duarte and Pardo, "Branch and bound for the cutwidth
+       minimization problem", Computers & Operations Research 40 (2013): plain
+       branch and bound over prefixes; the threshold search and the state memory
+       used here replace its bounding rules.
 
     Examples
     --------

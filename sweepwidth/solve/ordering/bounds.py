@@ -100,7 +100,7 @@ def pin_bound(problem: OrderingProblem) -> float:
 
     References
     ----------
-    Ford and Fulkerson, "Maximal flow through a network", Canadian J. Math. 1956.
+    .. [1] Ford and Fulkerson, "Maximal flow through a network", Canadian J. Math. 1956.
 
     Examples
     --------
@@ -170,8 +170,8 @@ def spectral_bound(problem: OrderingProblem) -> float:
 
     References
     ----------
-    Juvan and Mohar, "Optimal linear labelings and eigenvalues of graphs",
-    Discrete Applied Mathematics 36 (1992).
+    .. [1] Juvan and Mohar, "Optimal linear labelings and eigenvalues of graphs",
+       Discrete Applied Mathematics 36 (1992).
 
     Examples
     --------
@@ -313,10 +313,10 @@ def routing_bound(problem: OrderingProblem, time_budget: float = 5.0, seed: int 
 
     References
     ----------
-    Leighton and Rao, "Multicommodity max-flow min-cut theorems and their use
-    in designing approximation algorithms", J. ACM 46 (1999).
-    Brandes, "A faster algorithm for betweenness centrality", J. Math.
-    Sociology 25 (2001).
+    .. [1] Leighton and Rao, "Multicommodity max-flow min-cut theorems and their use
+       in designing approximation algorithms", J. ACM 46 (1999).
+    .. [2] Brandes, "A faster algorithm for betweenness centrality", J. Math.
+       Sociology 25 (2001).
 
     Examples
     --------
@@ -390,9 +390,9 @@ def tree_bound(problem: OrderingProblem, max_n: int = 5000) -> float | None:
 
     References
     ----------
-    The rule is the cutwidth analogue of the three-branch lemma for the vertex
-    separation of trees (Ellis, Sudborough and Turner, "The vertex separation
-    and search number of a graph", Information and Computation 113, 1994).
+    .. [1] Ellis, Sudborough and Turner, "The vertex separation and search
+       number of a graph", Information and Computation 113, 1994 (the rule is
+       the cutwidth analogue of its three-branch lemma for trees).
 
     Examples
     --------

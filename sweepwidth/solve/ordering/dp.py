@@ -81,9 +81,9 @@ def solve_dp(
 
     References
     ----------
-    Bodlaender, Fomin, Koster, Kratsch and Thilikos, "A note on exact
-    algorithms for vertex ordering problems on graphs", Theory of Computing
-    Systems 50 (2012).
+    .. [1] Bodlaender, Fomin, Koster, Kratsch and Thilikos, "A note on exact
+       algorithms for vertex ordering problems on graphs", Theory of Computing
+       Systems 50 (2012).
 
     Examples
     --------

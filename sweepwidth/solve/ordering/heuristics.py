@@ -176,8 +176,8 @@ def spectral_orderings(problem: OrderingProblem, angles: int = 8) -> list[list[i
 
     References
     ----------
-    Juvan and Mohar, "Optimal linear labelings and eigenvalues of graphs",
-    Discrete Applied Mathematics 36 (1992).
+    .. [1] Juvan and Mohar, "Optimal linear labelings and eigenvalues of graphs",
+       Discrete Applied Mathematics 36 (1992).
     """
     import scipy.sparse as sp
 

@@ -305,8 +305,8 @@ def homology_lower(W: Any, M: float, *, deadline: Deadline | None = None) -> tup
 
     References
     ----------
-    G. Brightwell and P. Winkler, "Submodular percolation", SIAM J. Discrete
-    Math. 23(3), 2009.
+    .. [1] G. Brightwell and P. Winkler, "Submodular percolation", SIAM J. Discrete
+       Math. 23(3), 2009.
     """
     from ...errors import SweepwidthError
     from ...problems.cycles import HomologyProblem

@@ -42,8 +42,8 @@ up front when ``max_memory`` cannot even hold one state per index pair.
 
 References
 ----------
-E. W. Dijkstra, "A note on two problems in connexion with graphs",
-Numerische Mathematik 1 (1959), with the bottleneck (minimax) path cost.
+.. [1] E. W. Dijkstra, "A note on two problems in connexion with graphs",
+   Numerische Mathematik 1 (1959), with the bottleneck (minimax) path cost.
 """
 
 from __future__ import annotations
