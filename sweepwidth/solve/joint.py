@@ -279,8 +279,8 @@ def _solve_pair(P: Any, limit: float | None, seed: int | None, start: Any, end: 
         # (one construction, linear in the flips; a short grace past the deadline, like the result assembly)
         lifted = _lift_order(H, order, max(dl.remaining(), 0.5))
         if lifted is not None:
-            height, wit = lifted
-            r2 = make_result("homotopy", lower=r2.lower if r2.lower is not None else 0.0, upper=height, witness=wit,
+            height, lifted_witness = lifted
+            r2 = make_result("homotopy", lower=r2.lower if r2.lower is not None else 0.0, upper=height, witness=lifted_witness,
                              method=r2.method, seconds=time.monotonic() - t0,
                              stats={**r2.stats, "bounds": {**dict(r2.stats.get("bounds") or {}),
                                                            "upper": "homology face order lifted to a homotopy (joint solve)"}})
