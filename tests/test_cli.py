@@ -289,6 +289,38 @@ def test_start_curve_and_open_ends(tmp_path, capsys):
     assert capsys.readouterr().err.startswith("sweepwidth: error: ")
 
 
+def _descendants(pid: int) -> set[int]:
+    parent: dict[int, int] = {}
+    for d in os.listdir("/proc"):
+        if d.isdigit():
+            try:
+                with open(f"/proc/{d}/stat", encoding="utf-8") as fh:
+                    parent[int(d)] = int(fh.read().rsplit(")", 1)[1].split()[1])
+            except (OSError, ValueError, IndexError):
+                pass
+    out, frontier = set(), {pid}
+    while frontier:
+        frontier = {c for c, p in parent.items() if p in frontier and c not in out}
+        out |= frontier
+    return out
+
+
+def _wait_for_descendants(pid: int, tasks: int, db, timeout: float) -> None:
+    import time
+
+    if not os.path.isdir("/proc"):  # no process table to read: the old fixed wait
+        time.sleep(4.0)
+        return
+    end = time.monotonic() + timeout
+    while time.monotonic() < end:
+        # the forkserver, its tasks' children and the db: a task child per job beside the server
+        if os.path.exists(db) and len(_descendants(pid)) >= tasks + 1:
+            time.sleep(1.0)
+            return
+        time.sleep(0.2)
+    time.sleep(1.0)
+
+
 def test_ctrl_c_stops_a_bench_run_and_its_children(files, tmp_path):
     import signal
     import time
@@ -301,7 +333,9 @@ def test_ctrl_c_stops_a_bench_run_and_its_children(files, tmp_path):
         # the probe solvers are test files (tests/bench_probes.py): put them on the child's path
         env={**os.environ, "PYTHONPATH": os.pathsep.join([os.path.dirname(__file__), os.environ.get("PYTHONPATH", "")])},
     )
-    time.sleep(4.0)  # both tasks are running (they would sleep far beyond the limit)
+    # wait until both tasks are running (they would sleep far beyond the limit); on a loaded machine the
+    # interpreter and the forkserver take a while, and an interrupt before any task runs exits 130 instead
+    _wait_for_descendants(proc.pid, 2, db, timeout=45.0)
     t0 = time.monotonic()
     proc.send_signal(signal.SIGINT)
     out, err = proc.communicate(timeout=60)
