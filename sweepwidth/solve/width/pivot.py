@@ -1,5 +1,12 @@
 """Pivot sweeps: leashes made of two shortest paths through a moving vertex.
 
+Status: experimental, not used by the dispatcher yet.  With one shortest-path
+tree per index pair the leashes of neighbouring states can lie on opposite
+sides of the region, so one local sweep crosses all of it (measured on the
+500-face disks of ``benchmarks/width.py``: pivot cost 10, local sweep 113);
+the next step is one fixed forest from A and one from B, so that leashes of
+neighbouring pivots stay close.
+
 Construction
 ------------
 For a vertex x (the *pivot*) and an index pair ``(i, j)`` let ``K(x, i, j)``
@@ -285,8 +292,11 @@ def pivot_sweep(W: Any, *, deadline: float | None = None, max_states: int = DEFA
     >>> from sweepwidth.problems.width import WidthProblem
     >>> P = grid(4, 4)
     >>> W = WidthProblem.build(P, {"vertices": [(0, 0), (0, 1)]}, {"vertices": [(3, 0), (3, 1)]})
-    >>> pivot_sweep(W)[0]
-    5.0
+    >>> from sweepwidth.verify.width import replay_width
+    >>> w, wit = pivot_sweep(W)
+    >>> opts = W.options()
+    >>> replay_width(P, wit, **{k: opts[k] for k in ("a", "b", "start", "end")}) == w
+    True
     """
     if W.p + W.q == 0 and not W.start.darts and not W.end.darts:
         return None
