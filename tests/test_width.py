@@ -266,3 +266,45 @@ def test_result_round_trip_and_json():
                           {"vertices": [(2, 0), (2, 1), (2, 2), (2, 3)]})
     r2 = sw.Result.from_dict(r.to_dict())
     assert r2.parameter == "width" and r2.check(P) == r.value
+
+
+# ----------------------------------------------------------------- face-passage bound
+@SLOW
+@given(boundary_instances(max_faces=7), st.booleans(), st.sampled_from(["weight", None, "vertices"]))
+def test_passage_bound_never_exceeds_the_optimum(inst, backward, weight):
+    # soundness against the brute-force reference (tests/reference_width.py): the least width
+    # of a sweep is never below the bound, and the bound is attained or exceeded by it
+    from sweepwidth.solve.width.bounds import passage_bound
+
+    P, a, b = inst
+    W = WidthProblem.build(P, a, b, backward=backward, weight=weight)
+    exact = sw.homotopy_width(P, a, b, method="search", backward=backward, weight=weight)
+    ref = reference_width(W, exact.value)
+    assert ref == exact.value
+    assert passage_bound(W)[0] <= ref + 1e-9
+
+
+@SLOW
+@given(interior_instances())
+def test_passage_bound_sound_on_interior_walks(inst):
+    from sweepwidth.solve.width.bounds import passage_bound
+
+    P, a, b, s, e = inst
+    W = WidthProblem.build(P, a, b, start=s, end=e)
+    ref = reference_width(W, sw.homotopy_width(P, a, b, start=s, end=e, method="search").value)
+    assert passage_bound(W)[0] <= ref + 1e-9
+
+
+def test_passage_bound_without_holes_takes_the_cheaper_side():
+    # no holes: the odd set is X or its complement, the bound is the smaller of the two maxima
+    from sweepwidth.solve.width.bounds import odd_faces, passage_bound
+
+    P = generators.grid(3, 3)
+    a = {"vertices": [(0, 0), (0, 1), (0, 2)]}
+    b = {"vertices": [(2, 0), (2, 1), (2, 2)]}
+    W = WidthProblem.build(P, a, b, holes=[])
+    sets = odd_faces(W)
+    assert sets is not None and len(sets) == 2
+    assert sorted(sets[0] + sets[1]) == list(range(P.number_of_faces()))
+    r = sw.homotopy_width(P, a, b, holes=[], method="search")
+    assert passage_bound(W)[0] <= r.value

@@ -4,7 +4,8 @@ The definition, the moves and the witness form are in
 :mod:`sweepwidth.problems.width`.  One file per job:
 
 * :mod:`.bounds`: proven lower bounds (leash lengths, geodesic discrete
-  Fréchet distance, its grid-bottleneck form with backward steps);
+  Fréchet distance, its grid-bottleneck form with backward steps, the
+  face-passage bound);
 * :mod:`.construct`: constructed leash sweeps (upper bounds with witnesses);
 * :mod:`.exact`: the exact bottleneck search over leash states;
 * :mod:`.coning`: the coned height instance and the relation to the height,
@@ -13,7 +14,7 @@ The definition, the moves and the witness form are in
 Methods
 -------
 'bounds'
-    Lower bound (the Fréchet bounds; with the default leashes also the
+    Lower bound (the Fréchet bounds, the face-passage bound; with the default leashes also the
     homology width of the closed cone, see
     :func:`.coning.homology_lower`) and the best constructed sweep.
 'search'
@@ -45,7 +46,7 @@ from ...problems.width import WEIGHTS, WidthProblem
 from ...result import Result
 from ..contract import Deadline, builtin_names, check_seed, get_method, make_result, method_label, methods, resolve_weight
 from ..homotopy.free_group import FreeGroup
-from .bounds import frechet_bound, leash_distances
+from .bounds import frechet_bound, leash_distances, passage_bound
 from .coning import homology_lower
 from .construct import best_constructed
 from .exact import DEFAULT_MAX_MEMORY, search_width
@@ -194,6 +195,15 @@ class _State:
         return self.upper is None or self.upper - self.lower > _EPS
 
 
+def _passage(st: _State) -> None:
+    """Raise the lower bound to the face-passage bound (:func:`.bounds.passage_bound`) when it is higher."""
+    pb, face = passage_bound(st.W)
+    st.stats["passage"] = {"bound": pb, "face": face}
+    if pb > st.lower + _EPS:
+        st.lower = pb
+        st.bounds["lower"] = f"face passage (face {face} must be flipped by a leash running through it)"
+
+
 def _method_bounds(st: _State, share: float | None = None) -> None:
     W, dl = st.W, st.deadline
     at = dl.at
@@ -204,6 +214,7 @@ def _method_bounds(st: _State, share: float | None = None) -> None:
     st.bounds = {"lower": ("geodesic discrete Fréchet distance" + (" (grid bottleneck, backward steps)" if W.backward else "")
                            if lower > ends + _EPS else "lengths of the start and end leashes"),
                  "upper": "none"}
+    _passage(st)
     st.used = st.used or "bounds"
     if share is None:
         share = CONSTRUCT_SHARE
@@ -232,6 +243,7 @@ def _method_search(st: _State, *, constructions: bool = True) -> None:
         D = leash_distances(W)
         st.lower = frechet_bound(W, D)[0]
         st.bounds = {"lower": "geodesic discrete Fréchet distance or leash lengths", "upper": "none"}
+        _passage(st)
         at = st.deadline.at
         got = best_constructed(W, deadline=None if at is None else time.monotonic() + 0.5 * max(0.0, at - time.monotonic()))
         if got is not None:
