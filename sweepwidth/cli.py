@@ -1002,8 +1002,18 @@ def cmd_draw(args: argparse.Namespace, out: Callable[[str], None]) -> int:
     if args.time_limit is not _DEFAULT and args.result:
         raise CliError("--time-limit does not apply with --result (the saved witness is drawn, nothing is solved)")
     limit = 10.0 if args.time_limit is _DEFAULT else args.time_limit
+    given = [flag for flag, attr in (("--walks", "walks"), ("--leashes", "leashes"), ("--backward", "backward"))
+             if getattr(args, attr, None)]
+    options: dict = {}
+    if given:
+        if args.result:
+            raise CliError(f"{given[0]} does not apply with --result (the saved result records its walks and leashes)")
+        if args.param != "width":
+            raise CliError(f"{given[0]} applies to --param width only")
+        json_walks = any((getattr(args, a, None) or "").strip().startswith("[") for a in ("walks", "leashes"))
+        options = _width_options(args, _load(args.file) if json_walks else None)
     written = render(args.file, param=args.param, result=args.result, out=args.output, dual=args.dual, frames=args.frames,
-                     time_limit=limit)
+                     time_limit=limit, **({"options": options} if options else {}))
     out(f"picture written to {written or args.output}")
     return 0
 
@@ -1215,6 +1225,11 @@ def build_parser() -> argparse.ArgumentParser:
     w.add_argument("-o", "--output", required=True, metavar="OUT", help="picture file: .png, .svg or .gif")
     w.add_argument("--dual", action="store_true", help="draw the dual graph too")
     w.add_argument("--frames", type=int, metavar="N", help="number of frames for an animated sweep (with --param or --result)")
+    w.add_argument("--walks", metavar="A,B", help="width: the two walks, as names of curves stored in the instance file "
+                   "(default a,b) or a JSON list of two vertex lists")
+    w.add_argument("--leashes", metavar="START,END", help="width: the start and end leashes, as curve names or a JSON list "
+                   "of two walks (default: the file's start,end, else the boundary arcs between the walks)")
+    w.add_argument("--backward", action="store_true", help="width: let the leash ends step back along the walks too")
     w.add_argument("--time-limit", type=_time_limit, default=_DEFAULT, metavar="SECONDS",
                    help="seconds for the solve behind --param, or 'none' (default 10)")
 

@@ -67,10 +67,58 @@ def test_profile_legend_and_axis_use_one_word(tmp_path):
     assert not any("length" in l for l in labels)
 
 
-def test_draw_width_says_it_has_no_picture_yet(capsys, tmp_path):
-    # regression: 'draw --param width' called the width solver without its two walks (an internal TypeError)
-    inst = os.path.join(os.path.dirname(os.path.dirname(os.path.abspath(__file__))), "instances", "leashes",
-                        "backstep-delaunay-1037.json")
-    rc, out, err = _run(capsys, "draw", inst, "--param", "width", "-o", tmp_path / "w.png")
-    assert rc != 0
-    assert "not drawn yet" in err and "internal error" not in err
+LEASH = os.path.join(ROOT, "instances", "leashes", "backstep-delaunay-1037.json")
+
+
+def test_draw_width_writes_leash_pictures(capsys, tmp_path):
+    # regression: 'draw --param width' first called the width solver without its two walks (an internal
+    # TypeError), then refused with "not drawn yet"; now it draws leash pictures like the other parameters
+    import matplotlib
+
+    matplotlib.use("Agg")
+    from PIL import Image
+
+    from sweepwidth.draw._cli import NOT_DRAWN
+
+    assert "width" not in NOT_DRAWN
+    rc, out, err = _run(capsys, "draw", LEASH, "--param", "width", "-o", tmp_path / "w.png")
+    assert rc == 0, err
+    with Image.open(tmp_path / "w.png") as im:
+        assert im.size == (1100, 520)  # the still: the longest leash beside the profile (11 x 5.2 in at 100 dpi)
+    # a saved result: a sheet of frames and a GIF, nothing solved again
+    rc, out, err = _run(capsys, "solve", LEASH, "--param", "width", "--save", tmp_path / "res")
+    assert rc == 0, err
+    saved = tmp_path / "res" / "backstep-delaunay-1037.width.json"
+    rc, out, err = _run(capsys, "draw", LEASH, "--result", saved, "--frames", "5", "-o", tmp_path / "f.svg")
+    assert rc == 0, err
+    assert (tmp_path / "f.svg").read_text().count("leash length") == 5  # one title per frame
+    rc, out, err = _run(capsys, "draw", LEASH, "--result", saved, "--frames", "4", "-o", tmp_path / "w.gif")
+    assert rc == 0, err
+    with Image.open(tmp_path / "w.gif") as im:
+        assert im.n_frames == 4
+    # the walks by name and backward steps reach the solve (width 5 with backward steps: instances/leashes/manifest.json)
+    rc, out, err = _run(capsys, "draw", LEASH, "--param", "width", "--walks", "a,b", "--backward", "--frames", "3",
+                        "-o", tmp_path / "b.svg")
+    assert rc == 0, err
+    assert "width 5 (optimal)" in (tmp_path / "b.svg").read_text()
+
+
+def test_draw_width_bad_input_is_named(capsys, tmp_path):
+    def refused(*argv):
+        rc, out, err = _run(capsys, "draw", *argv)
+        assert rc != 0 and "internal error" not in err, err
+        return err
+
+    rc, out, err = _run(capsys, "solve", PAVILION, "--param", "homology", "--save", tmp_path / "res")
+    assert rc == 0, err
+    other = tmp_path / "res" / "pavilion.homology.json"
+    assert "the result is about 'homology', not 'width'" in refused(PAVILION, "--param", "width", "--result", other,
+                                                                    "-o", tmp_path / "x.png")
+    # the pavilion stores no walks: the message says how to give them
+    assert "width needs two walks" in refused(PAVILION, "--param", "width", "-o", tmp_path / "x.png")
+    assert "no curve named 'zz' for b" in refused(LEASH, "--param", "width", "--walks", "a,zz", "-o", tmp_path / "x.png")
+    assert "--walks applies to --param width only" in refused(PAVILION, "--param", "homology", "--walks", "a,b",
+                                                              "-o", tmp_path / "x.png")
+    assert "--backward does not apply with --result" in refused(PAVILION, "--result", other, "--backward",
+                                                                "-o", tmp_path / "x.png")
+    assert not list(tmp_path.glob("x.*"))

@@ -7,6 +7,9 @@ layout_positions(P)           vertex positions (own drawing or a planar layout o
 sweep_frames(P, result, ...)  a sheet of frames of a sweep or homotopy
 sweep_animation(P, result, path, ...)  an animated GIF, one frame per step
 width_profile(result, P, ...) the length of the curve or cut at each step, with the bounds
+leash_frames(P, result, ...)  a sheet of frames of a leash sweep (homotopy width)
+leash_profile(result, P, ...) the leash length at each step (a Figure)
+leash_animation(P, result, path, ...)  an animated GIF of a leash sweep
 bench_times(db, ...), bench_solved(db, ...)  plots from a results database
 render_cli(path, ...)         what ``sweepwidth draw`` calls
 
@@ -30,6 +33,9 @@ _PUBLIC = {
     "sweep_frames": "sweepwidth.draw._sweep",
     "sweep_animation": "sweepwidth.draw._sweep",
     "width_profile": "sweepwidth.draw._profile",
+    "leash_frames": "sweepwidth.draw._leash",
+    "leash_profile": "sweepwidth.draw._leash",
+    "leash_animation": "sweepwidth.draw._leash",
     "read_bench_rows": "sweepwidth.draw._bench",
     "bench_times": "sweepwidth.draw._bench",
     "bench_solved": "sweepwidth.draw._bench",

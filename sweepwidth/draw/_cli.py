@@ -3,7 +3,7 @@
 from __future__ import annotations
 
 import os
-from typing import Any
+from typing import Any, Mapping
 
 import networkx as nx
 
@@ -21,15 +21,25 @@ _PARAMS = tuple(PARAMETERS)
 _EXTS = (".png", ".svg", ".gif")
 
 
-#: parameters whose sweeps have no picture yet (a clear refusal instead of a failed solve)
-NOT_DRAWN = {"width": "pictures of leash sweeps (homotopy width) are not drawn yet; "
-                      "solve it with 'sweepwidth solve FILE --param width' and replay the witness with 'check'"}
+#: parameters whose sweeps have no picture yet, with the refusal's reason (a clear error instead of a failed solve)
+NOT_DRAWN: dict[str, str] = {}
+
+#: options of the width's problem that ``render_cli`` passes to the solve (walks and leashes by name or as walks)
+WIDTH_OPTIONS = ("a", "b", "start", "end", "holes", "backward", "spikes", "simple", "weight")
 
 
-def _solve(obj: Any, param: str, dual: bool, time_limit: float | None = QUICK_LIMIT) -> Any:
+def _solve(obj: Any, param: str, dual: bool, time_limit: float | None = QUICK_LIMIT,
+           options: Mapping[str, Any] | None = None) -> Any:
     if param in NOT_DRAWN:
         raise InvalidArgumentError(NOT_DRAWN[param])
     entry = PARAMETERS[param]
+    if param == "width":
+        # the walks and leashes come from the options, else from the file's curves (a, b, start, end)
+        from ..bench.loading import solve_object
+
+        if not isinstance(obj, PlaneGraph):
+            raise InvalidArgumentError("width needs a plane graph; the file holds a graph without an embedding")
+        return solve_object(obj, "width", time_limit=time_limit, options=dict(options or {}))
     solve = entry.solver()
     if entry.problem == "graph":
         target = obj.dual() if (dual and isinstance(obj, PlaneGraph)) else obj
@@ -48,6 +58,7 @@ def render_cli(
     dual: bool = False,
     frames: int | bool | None = False,
     time_limit: float | None = QUICK_LIMIT,
+    options: Mapping[str, Any] | None = None,
 ) -> str:
     """Read an instance, get a sweep (saved or solved quickly) and write its picture.
 
@@ -55,7 +66,7 @@ def render_cli(
     ----------
     path : str or path-like
         An instance file readable by :func:`sweepwidth.read`.
-    param : {'cutwidth', 'homology', 'homotopy'}, optional
+    param : {'cutwidth', 'homology', 'homotopy', 'width'}, optional
         The parameter to show; taken from ``result`` when omitted.  Without
         both, the embedding alone is drawn.
     result : str or path-like, optional
@@ -75,6 +86,14 @@ def render_cli(
     time_limit : float or None
         Seconds for the solve when no ``result`` is given (default
         :data:`QUICK_LIMIT`; None: no limit).
+    options : mapping, optional
+        For ``param='width'`` without a saved result: the problem's options
+        (:data:`WIDTH_OPTIONS`); walks ``a``, ``b`` and leashes ``start``,
+        ``end`` are names of the file's curves or walks.  Missing walks and
+        leashes come from the file's curves ``a``, ``b``, ``start``, ``end``.
+        A homotopy width is drawn as leash pictures: the longest leash
+        beside the leash length profile, a sheet of frames, or a GIF (see
+        :func:`sweepwidth.draw.leash_frames`).
 
     Returns
     -------
@@ -85,7 +104,9 @@ def render_cli(
     ------
     SweepwidthError
         Unknown parameter or extension (the valid ones listed), a result about
-        another parameter, a GIF without a sweep, or a file that cannot be read.
+        another parameter, a GIF without a sweep, width walks that the file
+        does not have (named), options that do not apply, or a file that
+        cannot be read.
 
     Examples
     --------
@@ -115,6 +136,17 @@ def render_cli(
         if param is not None and res.parameter != param:
             raise InvalidArgumentError(f"the result is about {res.parameter!r}, not {param!r}")
         param = res.parameter
+    opts = dict(options or {})
+    if opts:
+        bad = sorted(set(opts) - set(WIDTH_OPTIONS))
+        if bad:
+            raise UnsupportedOptionError("width drawing option", bad[0], list(WIDTH_OPTIONS))
+        if param != "width":
+            raise InvalidArgumentError("walk and leash options apply to the homotopy width only (param 'width')"
+                                       + ("" if param is None else f", not to {param!r}"))
+        if res is not None:
+            raise InvalidArgumentError("walk and leash options do not apply to a saved result: "
+                                       "it records the walks and leashes it was solved with")
     n_frames = 12 if frames is True else (int(frames) if frames else 0)
     if param is None and n_frames:
         raise InvalidArgumentError("frames show a sweep: give a parameter (--param) or a saved result (--result)")
@@ -132,9 +164,11 @@ def render_cli(
         ax.figure.savefig(out, dpi=ax.figure.dpi)
         return out
     if res is None:
-        res = _solve(obj, param, dual, time_limit)
+        res = _solve(obj, param, dual, time_limit, **({"options": opts} if opts else {}))
     if res.witness is None:
         raise InvalidArgumentError(f"the {param} result ({res.status}) has no witness to draw")
+    if param == "width":
+        return _render_leashes(obj, res, out, ext, n_frames, dual)
     on = "faces" if (dual and param == "cutwidth") else "auto"
     if param == "cutwidth" and isinstance(obj, nx.Graph):
         try:
@@ -178,5 +212,35 @@ def render_cli(
     width_profile(res, P, ax=ax2, on=on)
     of_dual = "  (an ordering of the dual: faces of the plane graph)" if on == "faces" else ""
     fig.suptitle(_headline(res) + of_dual + (f"  -  {P.meta['name']}" if P.meta.get("name") else ""), fontsize=11)
+    fig.savefig(out, dpi=fig.dpi)
+    return out
+
+
+def _render_leashes(obj: Any, res: Any, out: str, ext: str, n_frames: int, dual: bool) -> str:
+    """The pictures of a homotopy width: the longest leash beside the profile, a sheet of frames, or a GIF."""
+    from ._leash import draw_leash, leash_animation, leash_frames, leash_sweep_of
+    from ._profile import plot_lengths
+    from ._replay import _plane, peak_step
+    from ._style import new_figure
+    from ._sweep import _headline
+
+    P = _plane(obj)
+    labels = P.number_of_vertices() <= 30
+    if ext == ".gif":
+        return leash_animation(P, res, out, frames=n_frames or None, labels=labels)
+    if n_frames:
+        fig = leash_frames(P, res, frames=n_frames, labels=labels)
+        fig.savefig(out, dpi=fig.dpi)
+        return out
+    sweep = leash_sweep_of(P, res)
+    peak = peak_step(sweep.lengths)
+    fig = new_figure((11.0, 5.2), 100)
+    ax1 = fig.add_axes((0.01, 0.03, 0.5, 0.84))
+    ax2 = fig.add_axes((0.58, 0.18, 0.4, 0.6))
+    sc = draw_leash(P, sweep, peak, ax=ax1, labels=labels, weights=True, peak=True)
+    if dual:
+        sc.dual()
+    plot_lengths(sweep.lengths, res, ax=ax2)
+    fig.suptitle(_headline(res) + (f"  -  {P.meta['name']}" if P.meta.get("name") else ""), fontsize=11)
     fig.savefig(out, dpi=fig.dpi)
     return out

@@ -181,17 +181,18 @@ class Scene:
                                               linestyles=ls, zorder=self.Z_CURVE if style == "curve" else self.Z_MOVE,
                                               capstyle="round"))
 
-    def vertices(self, labels: bool = False, filled: Iterable[Hashable] = (), mark: Iterable[Hashable] = ()) -> None:
-        """Vertex discs; ``filled`` ones drawn dark (e.g. already placed by an ordering)."""
+    def vertices(self, labels: bool = False, filled: Iterable[Hashable] = (), mark: Iterable[Hashable] = (),
+                 faint: bool = False) -> None:
+        """Vertex discs; ``filled`` ones drawn dark (e.g. already placed by an ordering); ``faint``: small and pale."""
         P = self.P
         filled, mark = set(filled), set(mark)
         vs = P.vertices
         xy = np.array([self.g.xy[v] for v in vs])
         face = [PALETTE["curve"] if v in filled else PALETTE["vertex_face"] for v in vs]
         short = labels and max((len(t) for t in self._label_texts()), default=1) <= 3
-        size = self.vertex_size * (3.2 if short else 1.0)
-        self.ax.scatter(xy[:, 0], xy[:, 1], s=size, c=face, edgecolors=PALETTE["vertex_edge"],
-                        linewidths=0.9, zorder=self.Z_VERTEX)
+        size = self.vertex_size * (3.2 if short else 0.6 if faint else 1.0)
+        self.ax.scatter(xy[:, 0], xy[:, 1], s=size, c=face, edgecolors=PALETTE["faint"] if faint else PALETTE["vertex_edge"],
+                        linewidths=0.9, zorder=self.Z_FACE if faint else self.Z_VERTEX)
         if mark:
             mxy = np.array([self.g.xy[v] for v in vs if v in mark])
             self.ax.scatter(mxy[:, 0], mxy[:, 1], s=size * 2.6, facecolors="none", edgecolors=PALETTE["move"],

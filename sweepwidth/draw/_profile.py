@@ -9,10 +9,10 @@ import numpy as np
 
 from ..errors import InvalidArgumentError, SweepwidthError, WitnessError
 from ..plane import PlaneGraph
-from ._replay import as_result, peak_step, sweep_states
+from ._replay import _plane, as_result, peak_step, sweep_states
 from ._style import LINES, PALETTE, new_figure, require_matplotlib
 
-__all__ = ["width_profile", "step_lengths"]
+__all__ = ["width_profile", "step_lengths", "plot_lengths"]
 
 
 def _ordering_cuts(G: nx.Graph, order: Sequence[Hashable]) -> list[float]:
@@ -32,6 +32,9 @@ def _ordering_cuts(G: nx.Graph, order: Sequence[Hashable]) -> list[float]:
 
 def step_lengths(result: Any, obj: Any, *, on: str = "auto") -> list[float]:
     """The length at every state of a sweep (state 0 = start), recomputed from the witness.
+
+    For homotopy width (``parameter='width'``) these are the leash lengths
+    replayed by the independent checker (:func:`sweepwidth.verify.width.leash_sweep`).
 
     Parameters
     ----------
@@ -54,6 +57,10 @@ def step_lengths(result: Any, obj: Any, *, on: str = "auto") -> list[float]:
     [0.0, 2.0, 2.0, 2.0, 0.0]
     """
     result = as_result(result)
+    if result.parameter == "width":
+        from ..verify.width import leash_sweep
+
+        return leash_sweep(result, _plane(obj)).lengths
     if result.parameter == "cutwidth" and isinstance(obj, nx.Graph) and not isinstance(obj, PlaneGraph):
         if result.witness is None:
             raise WitnessError("the result has no witness ordering")
@@ -116,20 +123,38 @@ def width_profile(
     """
     require_matplotlib()
     result = as_result(result)
-    lengths = step_lengths(result, obj, on=on)
+    return plot_lengths(step_lengths(result, obj, on=on), result, ax=ax, title=title, figsize=figsize, dpi=dpi)
+
+
+def plot_lengths(
+    lengths: Sequence[float],
+    result: Any,
+    *,
+    ax: Any = None,
+    title: str | None = None,
+    figsize: tuple[float, float] = (6.0, 3.2),
+    dpi: float = 100.0,
+) -> Any:
+    """The plot behind :func:`width_profile`: ``lengths`` per step, the result's bounds, the widest step marked.
+
+    Returns the Axes.
+    """
+    lengths = [float(x) for x in lengths]
     if not lengths:
         raise InvalidArgumentError("the witness has no steps to plot")
     if ax is None:
         fig = new_figure(figsize, dpi)
         ax = fig.add_axes((0.11, 0.16, 0.86, 0.72))
     x = np.arange(len(lengths))
-    quantity = "cut weight" if result.parameter == "cutwidth" else "length"  # one word for legend, axis and title
+    # one word for legend, axis and title
+    quantity = {"cutwidth": "cut weight", "width": "leash length"}.get(result.parameter, "length")
+    widest = "longest leash" if result.parameter == "width" else "widest"
     ls, lw = LINES["profile"]
     ax.plot(x, lengths, color=PALETTE["curve"], linestyle=ls, linewidth=lw, marker="o",
             markersize=3.5 if len(lengths) < 60 else 0, label=f"{quantity} at step", zorder=3)
     peak = peak_step(lengths)
     ax.scatter([peak], [lengths[peak]], s=90, marker="*", color=PALETTE["move"], edgecolors=PALETTE["ink"],
-               linewidths=0.6, zorder=4, label=f"widest: {lengths[peak]:g} at step {peak}")
+               linewidths=0.6, zorder=4, label=f"{widest}: {lengths[peak]:g} at step {peak}")
     for key, name in (("lower", "lower bound"), ("upper", "upper bound")):
         val = getattr(result, key)
         if val is None:
@@ -151,6 +176,7 @@ def width_profile(
         ax.spines[side].set_visible(False)
     ax.legend(fontsize=7, loc="upper right", frameon=False, ncol=2)
     if title is None:
-        title = f"{result.parameter}: {quantity} along the " + ("ordering" if result.parameter == "cutwidth" else "sweep")
+        along = {"cutwidth": "ordering", "width": "leash sweep"}.get(result.parameter, "sweep")
+        title = f"{result.parameter}: {quantity} along the {along}"
     ax.set_title(title, fontsize=9.5)
     return ax

@@ -36,6 +36,9 @@ PALETTE: dict[str, str] = {
     "lower": "#2f7d4f",  # lower bound line, L* ~ 47
     "upper": "#8a1c3c",  # upper bound line, L* ~ 30
     "grid": "#e6e6e6",
+    "faint": "#b5b5b5",  # the plane graph behind leash sweeps, L* ~ 74
+    "walk_a": "#2f7d4f",  # walk A of a homotopy width, L* ~ 47 (dashed)
+    "walk_b": "#b38f00",  # walk B, L* ~ 61 (dotted)
     "marker": "#111111",
 }
 
@@ -48,6 +51,8 @@ LINES: dict[str, tuple[Any, float]] = {
     "profile": ("-", 1.8),
     "lower": ((0, (6.0, 3.0)), 1.4),
     "upper": ((0, (1.5, 1.5)), 1.6),
+    "walk_a": ((0, (4.0, 1.6)), 2.2),
+    "walk_b": ((0, (1.2, 1.2)), 2.6),
 }
 
 #: Series for plots with several methods: colour, marker, line style.  The

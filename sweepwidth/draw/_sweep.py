@@ -4,7 +4,7 @@ from __future__ import annotations
 
 import math
 import os
-from typing import Any, Sequence
+from typing import Any, Callable, Sequence
 
 import numpy as np
 
@@ -15,7 +15,7 @@ from ._layout import Geometry
 from ._replay import SweepState, _plane, as_result, peak_step, sweep_states
 from ._style import LINES, PALETTE, new_figure, require_matplotlib
 
-__all__ = ["sweep_frames", "sweep_animation", "draw_state"]
+__all__ = ["sweep_frames", "sweep_animation", "draw_state", "frame_sheet", "write_gif"]
 
 
 def _fmt(x: float | None) -> str:
@@ -170,6 +170,59 @@ def _pick_steps(n_states: int, lengths: list[float], max_frames: int) -> list[in
     return sorted(picks)
 
 
+def frame_sheet(geom: Geometry, k: int, *, panel_size: float = 3.0, ncols: int | None = None,
+                dpi: float = 100.0) -> tuple[Any, list[Any]]:
+    """A Figure with a grid of ``k`` panels shaped like the drawing, and the panels' Axes.
+
+    Each panel is ``panel_size`` inches along the drawing's longer side; each
+    row adds 0.45 in for titles and the sheet 0.35 in for its headline.
+    Unless ``ncols`` is given, the column count is the one whose sheet is
+    closest to 4:3 landscape with few empty cells.  Cells beyond ``k`` are
+    hidden.
+    """
+    k = max(1, int(k))
+    pw, ph = _panel_box(geom, panel_size)
+    title_h, head_h = 0.45, 0.35
+    if ncols:
+        cols = max(1, int(ncols))
+    else:  # the column count whose sheet is closest to 4:3 landscape, with few empty cells
+
+        def badness(c: int) -> float:
+            r = math.ceil(k / c)
+            aspect = r * (ph + title_h) / (c * pw)
+            return abs(math.log(aspect / 0.75)) + (r * c - k) / k
+
+        cols = min(range(1, min(k, 6) + 1), key=lambda c: (badness(c), c))
+    rows = int(math.ceil(k / cols))
+    width, height = pw * cols, (ph + title_h) * rows + head_h
+    fig = new_figure((width, height), dpi)
+    axes = list(np.atleast_1d(fig.subplots(rows, cols, squeeze=False)).ravel())
+    fig.subplots_adjust(left=0.005, right=0.995, bottom=0.005, top=1.0 - (head_h + title_h) / height,
+                        wspace=0.04, hspace=title_h / ph)
+    for ax in axes[k:]:
+        ax.set_visible(False)
+    return fig, axes
+
+
+def write_gif(path: str, frames: Sequence[Any], draw_frame: Callable[[Any, Any], None], *, fps: float,
+              figsize: tuple[float, float], dpi: float) -> str:
+    """Write an animated GIF: ``draw_frame(fig, frame)`` draws each of ``frames`` on a cleared Figure."""
+    try:
+        from matplotlib.animation import PillowWriter
+    except ImportError as err:  # pragma: no cover
+        raise MissingDependencyError("GIF output needs Pillow (installed with matplotlib)") from err
+    if not path.lower().endswith(".gif"):
+        raise InvalidArgumentError(f"an animation is written as .gif, got {path!r}")
+    fig = new_figure(figsize, dpi)
+    writer = PillowWriter(fps=fps)  # type: ignore[arg-type]  # Pillow takes fractional rates
+    with writer.saving(fig, path, dpi):
+        for fr in frames:
+            fig.clear()
+            draw_frame(fig, fr)
+            writer.grab_frame()
+    return path
+
+
 def _headline(result: Any) -> str:
     if result.status == "optimal":
         core = f"{result.parameter} {_fmt(result.value)} (optimal)"
@@ -256,33 +309,13 @@ def sweep_frames(
         bad = [s for s in chosen if not 0 <= s < len(states)]
         if bad:
             raise InvalidArgumentError(f"step {bad[0]} is outside 0..{len(states) - 1}")
-    k = len(chosen)
     geom = Geometry(P)
-    pw, ph = _panel_box(geom, panel_size)
-    title_h, head_h = 0.45, 0.35
-    if ncols:
-        cols = max(1, int(ncols))
-    else:  # the column count whose sheet is closest to 4:3 landscape, with few empty cells
-
-        def badness(c: int) -> float:
-            r = math.ceil(k / c)
-            aspect = r * (ph + title_h) / (c * pw)
-            return abs(math.log(aspect / 0.75)) + (r * c - k) / k
-
-        cols = min(range(1, min(k, 6) + 1), key=lambda c: (badness(c), c))
-    rows = int(math.ceil(k / cols))
-    width, height = pw * cols, (ph + title_h) * rows + head_h
-    fig = new_figure((width, height), dpi)
-    axes = np.atleast_1d(fig.subplots(rows, cols, squeeze=False)).ravel()
-    fig.subplots_adjust(left=0.005, right=0.995, bottom=0.005, top=1.0 - (head_h + title_h) / height,
-                        wspace=0.04, hspace=title_h / ph)
+    fig, axes = frame_sheet(geom, len(chosen), panel_size=panel_size, ncols=ncols, dpi=dpi)
     holes = _holes(P, result)
     peak = peak_step(lengths)
     for ax, s in zip(axes, chosen):
         draw_state(P, states[s], ax=ax, geometry=geom, holes=holes, weights=weights, labels=labels,
                    peak=(s == peak))
-    for ax in axes[len(chosen):]:
-        ax.set_visible(False)
     fig.suptitle(_headline(result), fontsize=10, y=0.995, va="top")
     return fig
 
@@ -345,10 +378,6 @@ def sweep_animation(
     True
     """
     require_matplotlib()
-    try:
-        from matplotlib.animation import PillowWriter
-    except ImportError as err:  # pragma: no cover
-        raise MissingDependencyError("GIF output needs Pillow (installed with matplotlib)") from err
     path = os.fspath(path)
     if not path.lower().endswith(".gif"):
         raise InvalidArgumentError(f"an animation is written as .gif, got {path!r}")
@@ -359,14 +388,11 @@ def sweep_animation(
     peak = peak_step(lengths)
     geom = Geometry(P)
     holes = _holes(P, result)
-    fig = new_figure(figsize, dpi)
-    writer = PillowWriter(fps=fps)  # type: ignore[arg-type]  # Pillow takes fractional rates
     keep = _pick_steps(len(states), lengths, max_frames) if max_frames else range(len(states))
-    with writer.saving(fig, path, dpi):
-        for s in (states[i] for i in keep):
-            fig.clear()
-            ax = fig.add_axes((0.02, 0.02, 0.96, 0.84))
-            draw_state(P, s, ax=ax, geometry=geom, holes=holes, weights=weights, labels=labels, peak=(s.step == peak))
-            fig.suptitle(_headline(result) + f"  -  {s.step}/{len(states) - 1}", fontsize=9, y=0.99, va="top")
-            writer.grab_frame()
-    return path
+
+    def one(fig: Any, s: SweepState) -> None:
+        ax = fig.add_axes((0.02, 0.02, 0.96, 0.84))
+        draw_state(P, s, ax=ax, geometry=geom, holes=holes, weights=weights, labels=labels, peak=(s.step == peak))
+        fig.suptitle(_headline(result) + f"  -  {s.step}/{len(states) - 1}", fontsize=9, y=0.99, va="top")
+
+    return write_gif(path, [states[i] for i in keep], one, fps=fps, figsize=figsize, dpi=dpi)

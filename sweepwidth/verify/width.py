@@ -27,13 +27,14 @@ vertices = darts + 1).
 
 from __future__ import annotations
 
-from typing import Any, Mapping
+from dataclasses import dataclass
+from typing import Any, Hashable, Mapping
 
 from ..errors import InvalidArgumentError, SweepwidthError, WitnessError
 from . import register_checker
 from .homotopy import _is_face_boundary, _parse_walk
 
-__all__ = ["replay_width", "check_width"]
+__all__ = ["Leash", "LeashSweep", "replay_leashes", "replay_width", "leash_sweep", "check_width"]
 
 
 def _walk_darts(P: Any, spec: Any, what: str) -> tuple[list[int], int]:
@@ -54,7 +55,78 @@ def _len(P: Any, ds: list[int], weight: Any) -> float:
     return float(len(ds) + 1)
 
 
-def replay_width(
+@dataclass(frozen=True)
+class Leash:
+    """One leash of a replayed sweep: the state after a move (or the start).
+
+    Attributes
+    ----------
+    step : int
+        0 for the start leash, ``k`` for the leash after move ``k - 1``
+        (moves are numbered from 0, as in the checker's messages).
+    i, j : int
+        Indices of the leash's ends on walks A and B.
+    darts : tuple of int
+        The leash, from ``a_i`` to ``b_j``; empty for a point.
+    a_end, b_end : hashable
+        The vertex labels ``a_i`` and ``b_j``.
+    length : float
+        The leash's length in the problem's convention.
+    move : dict or None
+        The move that led here (None for the start).
+    face : int or None
+        The face flipped by that move, if it was a flip.
+    """
+
+    step: int
+    i: int
+    j: int
+    darts: tuple
+    a_end: Hashable
+    b_end: Hashable
+    length: float
+    move: Mapping[str, Any] | None = None
+    face: int | None = None
+
+
+@dataclass(frozen=True)
+class LeashSweep:
+    """A leash sweep replayed by the checker: the walks and every leash, start and end included.
+
+    Attributes
+    ----------
+    a_darts, b_darts : tuple of int
+        Walks A and B as darts.
+    a_vertices, b_vertices : tuple
+        Their vertex labels ``a_0 .. a_p`` and ``b_0 .. b_q``.
+    leashes : tuple of Leash
+        ``len(moves) + 1`` leashes.
+    holes : frozenset of int
+        Faces never flipped.
+    weight : {'weight', None, 'vertices'}
+        The length convention the lengths use.
+    """
+
+    a_darts: tuple
+    b_darts: tuple
+    a_vertices: tuple
+    b_vertices: tuple
+    leashes: tuple
+    holes: frozenset
+    weight: Any = "weight"
+
+    @property
+    def width(self) -> float:
+        """The largest leash length (the width of the sweep)."""
+        return max(x.length for x in self.leashes)
+
+    @property
+    def lengths(self) -> list[float]:
+        """The length of every leash, in order."""
+        return [x.length for x in self.leashes]
+
+
+def replay_leashes(
     P: Any,
     witness: Mapping[str, Any],
     *,
@@ -67,8 +139,8 @@ def replay_width(
     spikes: bool = True,
     simple: bool = False,
     weight: Any = "weight",
-) -> float:
-    """Replay a leash sweep on ``P`` and return its width.
+) -> LeashSweep:
+    """Replay a leash sweep on ``P`` and return every leash along it, checking each move.
 
     Parameters
     ----------
@@ -84,7 +156,8 @@ def replay_width(
 
     Returns
     -------
-    float
+    LeashSweep
+        The walks and the ``len(moves) + 1`` leashes; ``.width`` is the largest length.
 
     Raises
     ------
@@ -99,9 +172,12 @@ def replay_width(
     >>> r = homotopy_width(P, {"vertices": [(0, 0), (0, 1), (0, 2)]}, {"vertices": [(1, 0), (1, 1), (1, 2)]})
     >>> opts = r.stats["options"]
     >>> kw = {k: opts[k] for k in ("a", "b", "start", "end")}
-    >>> replay_width(P, r.witness, **kw)
+    >>> sweep = replay_leashes(P, r.witness, **kw)
+    >>> sweep.lengths == [x.length for x in sweep.leashes] and sweep.width
     2.0
-    >>> replay_width(P, {"start": r.witness["start"], "moves": r.witness["moves"][:-1]}, **kw)
+    >>> len(sweep.leashes) == len(r.witness["moves"]) + 1
+    True
+    >>> replay_leashes(P, {"start": r.witness["start"], "moves": r.witness["moves"][:-1]}, **kw)
     Traceback (most recent call last):
     ...
     sweepwidth.errors.WitnessError: the sweep ends at leash [...] (indices ...), not at the end leash [8] (indices 2, 2)
@@ -142,13 +218,20 @@ def replay_width(
                 raise WitnessError(f"{where}: simple leashes asked for, but the leash is not a simple path")
 
     check_leash("witness start")
-    width = _len(P, L, weight)
+    lab = P.label
+
+    def record(step: int, mv: Any = None, face: Any = None) -> Leash:
+        return Leash(step, i, j, tuple(L), lab(av[i]), lab(bv[j]), _len(P, L, weight),
+                     dict(mv) if mv is not None else None, face)
+
+    out = [record(0)]
     for idx, mv in enumerate(list(witness["moves"])):
         where = f"move {idx}"
         if not isinstance(mv, Mapping) or "op" not in mv:
             raise WitnessError(f"{where}: not a move dict with an 'op': {mv!r}")
         op = mv["op"]
         n = len(L)
+        flipped = None
         if op == "step":
             walk, to = mv.get("walk"), mv.get("to")
             if walk not in ("a", "b"):
@@ -177,6 +260,7 @@ def replay_width(
             here = point if not L else (P.head_index(L[-1]) if pos == n else P.tail_index(L[pos]))
             if op == "flip":
                 f = mv.get("face")
+                flipped = f
                 if isinstance(f, bool) or not isinstance(f, int) or not 0 <= f < F:
                     raise WitnessError(f"{where} (flip): {f!r} is not a face id")
                 if f in hole_set:
@@ -211,12 +295,108 @@ def replay_width(
             else:
                 raise WitnessError(f"{where}: unknown op {op!r}")
         check_leash(where)
-        width = max(width, _len(P, L, weight))
+        out.append(record(idx + 1, mv, flipped))
     if i != len(A) or j != len(B) or L != E:
         raise WitnessError(
             f"the sweep ends at leash {L} (indices {i}, {j}), not at the end leash {E} (indices {len(A)}, {len(B)})"
         )
-    return width
+    return LeashSweep(tuple(A), tuple(B), tuple(lab(v) for v in av), tuple(lab(v) for v in bv), tuple(out),
+                      frozenset(hole_set), weight)
+
+
+def replay_width(P: Any, witness: Mapping[str, Any], **problem: Any) -> float:
+    """Replay a leash sweep on ``P`` and return its width (the longest leash).
+
+    The keywords are those of :func:`replay_leashes`, which does the replay.
+
+    Raises
+    ------
+    WitnessError
+        Naming the move (0-based) and the rule broken.
+
+    Examples
+    --------
+    >>> from sweepwidth.generators import grid
+    >>> from sweepwidth import homotopy_width
+    >>> P = grid(2, 3)
+    >>> r = homotopy_width(P, {"vertices": [(0, 0), (0, 1), (0, 2)]}, {"vertices": [(1, 0), (1, 1), (1, 2)]})
+    >>> opts = r.stats["options"]
+    >>> replay_width(P, r.witness, **{k: opts[k] for k in ("a", "b", "start", "end")})
+    2.0
+    """
+    return replay_leashes(P, witness, **problem).width
+
+
+_VALID = ("a", "b", "start", "end", "holes", "backward", "spikes", "simple", "weight")
+
+
+def _problem_of(result: Any, obj: Any, options: dict) -> tuple[Any, dict]:
+    """The plane graph and the replay keywords: ``result.stats['options']`` (or a WidthProblem's), then ``options``."""
+    P = obj
+    recorded: dict = dict((result.stats or {}).get("options", {}) or {})
+    if hasattr(obj, "graph") and hasattr(obj, "options") and callable(obj.options):
+        P = obj.graph
+        recorded = dict(obj.options())
+    unknown = sorted(set(options) - set(_VALID))
+    if unknown:
+        raise InvalidArgumentError(f"unknown checker option(s) {unknown}; valid: {', '.join(_VALID)}, tol")
+    kw = {k: recorded[k] for k in _VALID if k in recorded}
+    kw.update(options)
+    missing = [k for k in ("a", "b", "start", "end") if kw.get(k) is None]
+    if missing:
+        names = " and ".join(("walk " if k in "ab" else "leash ") + repr(k) for k in missing)
+        raise WitnessError(f"the width problem's {names} {'is' if len(missing) == 1 else 'are'} not recorded in the "
+                           f"result's stats['options']; pass {', '.join(k + '=' for k in missing)} "
+                           "(walks {'vertex': v, 'darts': [...]})")
+    if result.witness is None:
+        raise WitnessError(f"result ({result.status}) has no leash sweep witness to replay")
+    return P, kw
+
+
+def leash_sweep(result: Any, obj: Any, **options: Any) -> LeashSweep:
+    """Replay the leash sweep of a homotopy width result: every leash, checked move by move.
+
+    Parameters
+    ----------
+    result : Result
+        A result with ``parameter='width'`` and a witness.
+    obj : PlaneGraph or WidthProblem
+    **options
+        Override the problem recorded in ``result.stats['options']``:
+        ``a``, ``b``, ``start``, ``end``, ``holes``, ``backward``, ``spikes``,
+        ``simple``, ``weight``.
+
+    Returns
+    -------
+    LeashSweep
+
+    Raises
+    ------
+    InvalidArgumentError
+        A result of another parameter.
+    WitnessError
+        No witness, walks or leashes neither recorded nor given (each
+        named), or an illegal move.
+
+    See Also
+    --------
+    check_width : the same replay, compared with ``result.upper``.
+
+    Examples
+    --------
+    >>> from sweepwidth.generators import grid
+    >>> from sweepwidth import homotopy_width
+    >>> P = grid(2, 3)
+    >>> r = homotopy_width(P, {"vertices": [(0, 0), (0, 1), (0, 2)]}, {"vertices": [(1, 0), (1, 1), (1, 2)]})
+    >>> s = leash_sweep(r, P)
+    >>> s.a_vertices, s.width == r.value
+    (((0, 0), (0, 1), (0, 2)), True)
+    """
+    if getattr(result, "parameter", None) != "width":
+        raise InvalidArgumentError(f"a leash sweep is the witness of a homotopy width result (parameter 'width'), "
+                           f"got a {getattr(result, 'parameter', type(result).__name__)!r} result")
+    P, kw = _problem_of(result, obj, dict(options))
+    return replay_leashes(P, result.witness, **kw)
 
 
 @register_checker("width")
@@ -233,26 +413,8 @@ def check_width(result: Any, obj: Any, **options: Any) -> float:
         No witness, an illegal move, or a width different from ``result.upper``.
     """
     tol = float(options.pop("tol", 1e-9))
-    P = obj
-    recorded: dict = dict((result.stats or {}).get("options", {}) or {})
-    if hasattr(obj, "graph") and hasattr(obj, "options") and callable(obj.options):
-        P = obj.graph
-        recorded = dict(obj.options())
-    valid = ("a", "b", "start", "end", "holes", "backward", "spikes", "simple", "weight")
-    unknown = sorted(set(options) - set(valid))
-    if unknown:
-        raise InvalidArgumentError(f"unknown checker option(s) {unknown}; valid: {', '.join(valid)}, tol")
-    kw = {k: recorded[k] for k in valid if k in recorded}
-    kw.update(options)
-    missing = [k for k in ("a", "b", "start", "end") if k not in kw]
-    if missing:
-        raise WitnessError(f"the width problem's {missing} are not recorded; pass them to check()")
-    if result.witness is None:
-        raise WitnessError(f"result ({result.status}) has no leash sweep witness to check")
+    P, kw = _problem_of(result, obj, dict(options))
     w = replay_width(P, result.witness, **kw)
     if result.upper is not None and abs(w - float(result.upper)) > tol:
         raise WitnessError(f"the witness has width {w:g} but the result claims upper = {result.upper:g}")
     return w
-
-
-
