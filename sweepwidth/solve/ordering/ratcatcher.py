@@ -96,7 +96,7 @@ from ...errors import ProblemTooLargeError
 from ...problems.ordering import OrderingProblem
 from .carving import _rotation
 
-__all__ = ["carving_width_game", "rat_escapes", "ratcatcher_bound"]
+__all__ = ["carving_width_game", "rat_escapes", "ratcatcher_bound", "ratcatcher_method"]
 
 DEFAULT_MAX_MEMORY = 1 << 29
 
@@ -295,15 +295,15 @@ def carving_width_game(
         # integers: carving width = largest integer K with rat_escapes(K); search K in [lo, hi]
         a, b = int(round(lo * scale)), int(round(hi * scale))
         while a < b:
-            mid = (a + b + 1) // 2
-            res = rat_escapes(problem, mid / scale, planar_embedding=planar_embedding, deadline=deadline,
+            kk = (a + b + 1) // 2
+            res = rat_escapes(problem, kk / scale, planar_embedding=planar_embedding, deadline=deadline,
                               max_memory=max_memory)
             if res is None:
                 return a / scale, b / scale
             if res:
-                a = mid
+                a = kk
             else:
-                b = mid - 1
+                b = kk - 1
         return a / scale, a / scale
     while hi - lo > 1e-9 * max(1.0, hi):
         mid = 0.5 * (lo + hi)
@@ -360,3 +360,29 @@ def ratcatcher_bound(
     except ProblemTooLargeError:
         return pin_cut
     return max(pin_cut, lo) if lo > free_deg else pin_cut
+
+
+class _Bounds:
+    """What a registered cutwidth method returns: bounds, the ordering, stats."""
+
+    def __init__(self, lower: float, upper: float, order: list[int], stats: dict) -> None:
+        self.lower, self.upper, self.order, self.stats = lower, upper, order, stats
+
+
+def ratcatcher_method(
+    problem: OrderingProblem,
+    *,
+    lower: float,
+    upper: float,
+    upper_order: list[int],
+    deadline: float | None,
+    seed: int | None,
+    max_memory: int = DEFAULT_MAX_MEMORY,
+    **_: Any,
+) -> _Bounds:
+    """The registered cutwidth method 'ratcatcher': the dispatcher's bounds and ordering plus
+    :func:`ratcatcher_bound` (non-planar graphs keep the dispatcher's bounds)."""
+    t0 = time.monotonic()
+    b = ratcatcher_bound(problem, deadline, max_memory=max_memory)
+    stats = {"ratcatcher": {"bound": b, "seconds": round(time.monotonic() - t0, 3)}}
+    return _Bounds(max(float(lower), b), float(upper), list(upper_order), stats)
