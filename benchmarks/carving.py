@@ -9,7 +9,10 @@ Columns: instance, vertices / edges, the best of
 ``sweepwidth.solve.ordering.bounds.lower_bounds`` (``cheap+costly``) and
 ``flow.flow_bound`` with their seconds, then ``carving_bound`` (no upper bound
 passed: its levels stop at the width of a breadth-first layout) with its
-seconds, and the published optimum (``known``) where one exists.
+seconds, ``ratcatcher_bound`` (``solve.ordering.ratcatcher``: the carving width by the
+ratcatcher game, a cutwidth bound when it exceeds the largest unpinned degree; 0 when
+the game's memory estimate is refused or the graph is not planar) with its seconds, and
+the published optimum (``known``) where one exists.
 
 Instances:
 
@@ -38,6 +41,7 @@ from sweepwidth.problems.ordering import OrderingProblem  # noqa: E402
 from sweepwidth.solve.ordering.bounds import lower_bounds  # noqa: E402
 from sweepwidth.solve.ordering.carving import carving_bound  # noqa: E402
 from sweepwidth.solve.ordering.flow import flow_bound  # noqa: E402
+from sweepwidth.solve.ordering.ratcatcher import ratcatcher_bound  # noqa: E402
 
 
 def disk(n: int, seed: int) -> tuple[OrderingProblem, object]:
@@ -69,7 +73,7 @@ def main() -> None:
     tiny = OrderingProblem.from_graph(nx.cycle_graph(5))
     flow_bound(tiny)
     carving_bound(tiny)
-    head = ["instance", "n", "m", "lower_bounds", "s", "flow", "s", "walk", "s", "known"]
+    head = ["instance", "n", "m", "lower_bounds", "s", "flow", "s", "walk", "s", "ratcatcher", "s", "known"]
     rows = []
     for label, P, emb, known in instances(args.big):
         t = time.monotonic()
@@ -80,7 +84,10 @@ def main() -> None:
         row += [f"{fl:g}", f"{time.monotonic() - t:.1f}"]
         t = time.monotonic()
         cb = carving_bound(P, time.monotonic() + args.time, planar_embedding=emb)
-        row += [f"{cb:g}", f"{time.monotonic() - t:.1f}", known]
+        row += [f"{cb:g}", f"{time.monotonic() - t:.1f}"]
+        t = time.monotonic()
+        rb = ratcatcher_bound(P, time.monotonic() + args.time, planar_embedding=emb)
+        row += [f"{rb:g}", f"{time.monotonic() - t:.1f}", known]
         rows.append(row)
         print(" | ".join(row), flush=True)
     widths = [max(len(r[i]) for r in rows + [head]) for i in range(len(head))]

@@ -262,7 +262,7 @@ METHODS: dict[str, Callable[..., Outcome]] = {
     "sat": _m_sat,
     "tree": _m_bnb,
 }
-assert set(METHODS) | {"auto", "heuristic", "search"} == builtin_names("cutwidth"), "registry and dispatcher disagree"
+assert set(METHODS) | {"auto", "heuristic", "search", "ratcatcher"} == builtin_names("cutwidth"), "registry and dispatcher disagree"
 
 
 class _Named:
