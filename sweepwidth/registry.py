@@ -172,7 +172,7 @@ _BUILTIN_METHODS: tuple[Method, ...] = (
     Method("cutwidth", "tree", "exact", "forests: recursive three-branch bound, then the prefix-set search", ("max_states",)),
     Method("cutwidth", "heuristic", "bounds", "constructions and local search with the lower bounds", ("improve", "effort")),
     Method("cutwidth", "search", "bounds", "bounds with the flow bound, then the kick search", ("improve", "effort")),
-    Method("cutwidth", "ratcatcher", "bounds", "bounds with the carving width of a plane graph (ratcatcher game)",
+    Method("cutwidth", "ratcatcher", "bounds", "carving-width bound of a plane graph (a ratcatcher-type game; agrees with brute force on small graphs, not yet proven)",
            ("max_memory",), function="sweepwidth.solve.ordering.ratcatcher:ratcatcher_method"),
     Method("homology", "auto", "auto", "subset DP for small sweeps, else the pinned cutwidth of the dual", _HOM_OPTIONS),
     Method("homology", "dual-cutwidth", "exact", "nested sweeps as pinned cutwidth of the dual (a relaxation when crossing)", _HOM_OPTIONS),
