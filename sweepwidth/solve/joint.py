@@ -73,6 +73,7 @@ Examples
 from __future__ import annotations
 
 import dataclasses
+import math
 import time
 from typing import Any, Iterable, Mapping
 
@@ -274,6 +275,9 @@ def _solve_pair(P: Any, limit: float | None, seed: int | None, start: Any, end: 
     r2 = solve_homotopy(H, method=h_method, deadline=Deadline.at_time(dl.at), seed=seed, max_memory=htp_opts.get("max_memory"),
                         homology=hint)
     joint: dict[str, Any] = {"comparable": comparable, "homology_to_homotopy": "none", "homotopy_to_homology": "none"}
+    joint["seconds"] = {"homology": round(r1.seconds, 3), "homotopy": round(r2.seconds, 3)}
+    if limit is not None and monotone and comparable:
+        r1, r2 = _use_leftover(P, H, problem, r1, r2, dl, seed, joint)
     # homotopy lower bound >= homology lower bound (when comparable)
     if comparable and r1.lower is not None and r2.status != "infeasible":
         lo2 = r2.lower if r2.lower is not None else 0.0
@@ -314,6 +318,119 @@ def _solve_pair(P: Any, limit: float | None, seed: int | None, start: Any, end: 
             joint["homology_upper"] = "face order" if mono else "toggle sequence (non-monotone witness)"
     r1 = _replace(r1, stats={**r1.stats, "joint": joint})
     r2 = _replace(r2, stats={**r2.stats, "joint": joint})
+    return r1, r2
+
+
+def _gap(r: Result) -> float:
+    if r.status == "infeasible" or r.upper is None:
+        return float("inf")
+    return float(r.upper) - (float(r.lower) if r.lower is not None else 0.0)
+
+
+def _rank_of(order: list[int], n_faces: int) -> list[float]:
+    rank = [float(n_faces + f) for f in range(n_faces)]
+    for k, f in enumerate(order):
+        if 0 <= f < n_faces and rank[f] >= n_faces:
+            rank[f] = float(k)
+    return rank
+
+
+def _use_leftover(P: Any, H: Any, problem: Any, r1: Result, r2: Result, dl: Deadline, seed: int | None,
+                  joint: dict[str, Any]) -> tuple[Result, Result]:
+    """Spend the time the pair has left (the homotopy side often ends early) on the larger gap.
+
+    Homotopy's gap is the larger one only when its upper bound is above
+    homology's (its lower bound is at least homology's): then homotopies are
+    built from homology's face order (strictly, then in windows).  Otherwise
+    homology's cutwidth engine continues from its bounds
+    (:func:`~sweepwidth.solve.homology.refine_face_order`: the kick search
+    for the shared upper bound, the prefix-set search for the lower one), and
+    a homotopy is built from each face order it improves.  Every bound kept
+    is proven by the stage that produced it, so they stay sound and the
+    non-contradiction rules of the module docstring still hold.
+    """
+    from .homology import refine_face_order
+    from .homotopy import WINDOW_FACTOR, construct_homotopy
+
+    if r1.status == "infeasible" or r2.status == "infeasible" or not isinstance(r1.witness, list):
+        return r1, r2
+    if not r1.stats.get("monotone", True) or r1.lower is None or r1.upper is None:
+        return r1, r2
+    F = H.n_faces
+    win = max(2, round(WINDOW_FACTOR * math.sqrt(F)))
+    log: list[dict[str, Any]] = []
+    t_start = time.monotonic()
+    lo1, up1, order1 = float(r1.lower), float(r1.upper), list(r1.witness)
+    lo2 = float(r2.lower) if r2.lower is not None else 0.0
+    up2 = float(r2.upper) if r2.upper is not None else float("inf")
+    wit2 = r2.witness
+    built_from: set[tuple[float, int]] = set()  # (homology width of the order, window) already built
+    changed1 = changed2 = False
+    engine_done = False  # the engine gave up before its slice ended without progress (e.g. its state cap)
+    how2 = ""
+    shared = 0.0  # seconds of engine rounds: they work for both sides (shared order and lower bound)
+    own2 = 0.0  # seconds of homotopy constructions
+    while dl.remaining() > 1.0:
+        g1, g2 = up1 - lo1, up2 - max(lo2, lo1)
+        if max(g1, g2) <= _EPS:
+            break
+        t = time.monotonic()
+        pending = [w for w in (0, win) if (up1, w) not in built_from]
+        entry: dict[str, Any]
+        if pending and (g2 > g1 + _EPS or up2 > up1 + _EPS or engine_done or g1 <= _EPS):
+            # homotopy side: build from homology's current best face order
+            w = pending[0]
+            built_from.add((up1, w))
+            got = construct_homotopy(H, _rank_of(order1, F), window=w, deadline=dl.at - 0.3)
+            entry = {"side": "homotopy", "stage": f"construction from homology's face order, window {w}",
+                     "height": None if got is None else got[0]}
+            if got is not None and got[0] < up2 - _EPS:
+                up2, wit2, changed2 = float(got[0]), got[1], True
+                how2 = f"constructed homotopy (homology's face order after the leftover rounds, window {w})"
+            own2 += time.monotonic() - t
+        elif g1 > _EPS and not engine_done:
+            # homology side: the cutwidth engine continues from its bounds, in a slice that leaves
+            # time to build a homotopy from an improved order
+            left = dl.remaining()
+            slice_s = max(0.5, 0.7 * left if g2 > _EPS else left - 0.6)
+            out = refine_face_order(problem, order1, lo1, deadline=Deadline.from_limit(slice_s), seed=seed)
+            if out is None:
+                log.append({"side": "homology", "stage": "not refinable (several swept sets or a crossing sweep)"})
+                break
+            nlo, nup, norder, st = out
+            entry = {"side": "both", "stage": "homology's cutwidth engine (kick search, prefix-set search)",
+                     "lower": nlo, "upper": nup}
+            progress = nlo > lo1 + _EPS or nup < up1 - _EPS
+            if nlo > lo1 + _EPS:
+                lo1, changed1 = nlo, True
+            if nup < up1 - _EPS:
+                up1, order1, changed1 = nup, norder, True
+            if not progress and time.monotonic() - t < slice_s - 0.5:
+                engine_done = True
+                entry["stopped"] = (st.get("bnb") or {}).get("stopped", "no progress")
+            shared += time.monotonic() - t
+        else:
+            break
+        entry["seconds"] = round(time.monotonic() - t, 3)
+        log.append(entry)
+    joint["leftover"] = {"seconds": round(time.monotonic() - t_start, 3), "rounds": log}
+    if changed1:
+        old_bounds = r1.stats.get("bounds")
+        bounds = dict(old_bounds) if isinstance(old_bounds, dict) else {"lower": old_bounds}
+        if lo1 > float(r1.lower) + _EPS:
+            bounds["lower"] = "cutwidth engine lower bound + constant (continued with the pair's time left)"
+        if up1 < float(r1.upper) - _EPS:
+            bounds["upper"] = "cutwidth engine ordering (continued with the pair's time left)"
+        r1 = make_result("homology", lower=lo1, upper=up1, witness=order1, method=r1.method, seconds=r1.seconds,
+                         stats={**r1.stats, "bounds": bounds})
+    if changed2:
+        b2 = dict(r2.stats.get("bounds") or {})
+        b2["upper"] = how2
+        r2 = make_result("homotopy", lower=max(lo2, min(lo1, up2)), upper=up2, witness=wit2, method=r2.method,
+                         seconds=r2.seconds, stats={**r2.stats, "bounds": b2})
+    # each side's seconds include the leftover work done for it (engine rounds for both)
+    r1 = _replace(r1, seconds=r1.seconds + shared)
+    r2 = _replace(r2, seconds=r2.seconds + shared + own2)
     return r1, r2
 
 
