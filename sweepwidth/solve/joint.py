@@ -19,6 +19,21 @@ homotopy solver: the bound as the homotopy lower bound, the order as one of
 the construction orders), then the homotopy height, then projects the best
 homotopy witness and keeps it as the homology witness when it is narrower.
 
+Time left over
+--------------
+The homotopy side often ends before the pair's limit (its exact search
+stops at its memory cap).  The time left goes, round by round, to the
+larger gap: while homotopy's upper bound is above homology's, homotopies
+are built from homology's best face order (strictly in order, then in
+windows); otherwise homology's cutwidth engine continues from its bounds
+(:func:`~sweepwidth.solve.homology.refine_face_order`: the kick search for
+a better face order, the shared upper bound, then the prefix-set search
+for more thresholds, the shared lower bound), and a homotopy is built from
+each order it improves.  ``stats['joint']['leftover']`` lists the rounds.
+Each result's ``seconds`` is its own solve plus the leftover rounds that
+worked for it (engine rounds for both, since their order and bound feed
+the homotopy result too), so the two may add up to more than the wall time.
+
 Non-contradiction
 -----------------
 When the homology width compared is a lower bound of the homotopy height
@@ -82,11 +97,17 @@ from ..registry import PARAMETERS
 from ..result import Result
 from .contract import Deadline, check_seed, make_result
 
-__all__ = ["solve_parameters", "paired_homology", "paired_homotopy", "HOMOLOGY_SHARE"]
+__all__ = ["solve_parameters", "paired_homology", "paired_homotopy", "HOMOLOGY_SHARE", "LARGE_FACES",
+           "LARGE_HOMOTOPY_SHARE"]
 
 #: share of the pair's time given to the homology width (the homotopy solver gets the rest and
 #: does not compute the homology bound again)
 HOMOLOGY_SHARE = 0.45
+
+#: above this many sweepable faces (with a shared homology bound) the homotopy solver gets
+#: ``LARGE_HOMOTOPY_SHARE`` of the time left after the homology width; the leftover rounds get the rest
+LARGE_FACES = 120
+LARGE_HOMOTOPY_SHARE = 0.5
 
 _EPS = 1e-9
 _HOMOTOPY_KEYS = ("spikes", "simple", "monotone", "weight", "s", "t", "method", "max_memory")
@@ -272,7 +293,12 @@ def _solve_pair(P: Any, limit: float | None, seed: int | None, start: Any, end: 
                               "seconds": round(r1.seconds, 3), "monotone": monotone, "from": "solve_parameters"}},
                 order)
     h_method = htp_opts.get("method", "auto")
-    r2 = solve_homotopy(H, method=h_method, deadline=Deadline.at_time(dl.at), seed=seed, max_memory=htp_opts.get("max_memory"),
+    h2_dl = Deadline.at_time(dl.at)
+    if limit is not None and comparable and monotone and len(H.sweepable_faces) > LARGE_FACES:
+        # the exact homotopy search settles no level above the homology bound on inputs this large
+        # (benchmarks/NOTES.md): part of its time goes to the leftover rounds below instead
+        h2_dl = Deadline.from_limit(LARGE_HOMOTOPY_SHARE * dl.remaining())
+    r2 = solve_homotopy(H, method=h_method, deadline=h2_dl, seed=seed, max_memory=htp_opts.get("max_memory"),
                         homology=hint)
     joint: dict[str, Any] = {"comparable": comparable, "homology_to_homotopy": "none", "homotopy_to_homology": "none"}
     joint["seconds"] = {"homology": round(r1.seconds, 3), "homotopy": round(r2.seconds, 3)}
@@ -367,6 +393,7 @@ def _use_leftover(P: Any, H: Any, problem: Any, r1: Result, r2: Result, dl: Dead
     built_from: set[tuple[float, int]] = set()  # (homology width of the order, window) already built
     changed1 = changed2 = False
     engine_done = False  # the engine gave up before its slice ended without progress (e.g. its state cap)
+    search_share = 0.5  # of each engine round for the kick search (the prefix-set search gets the rest)
     how2 = ""
     shared = 0.0  # seconds of engine rounds: they work for both sides (shared order and lower bound)
     own2 = 0.0  # seconds of homotopy constructions
@@ -381,7 +408,7 @@ def _use_leftover(P: Any, H: Any, problem: Any, r1: Result, r2: Result, dl: Dead
             # homotopy side: build from homology's current best face order
             w = pending[0]
             built_from.add((up1, w))
-            got = construct_homotopy(H, _rank_of(order1, F), window=w, deadline=dl.at - 0.3)
+            got = construct_homotopy(H, _rank_of(order1, F), window=w, deadline=time.monotonic() + dl.remaining() - 0.3)
             entry = {"side": "homotopy", "stage": f"construction from homology's face order, window {w}",
                      "height": None if got is None else got[0]}
             if got is not None and got[0] < up2 - _EPS:
@@ -393,7 +420,8 @@ def _use_leftover(P: Any, H: Any, problem: Any, r1: Result, r2: Result, dl: Dead
             # time to build a homotopy from an improved order
             left = dl.remaining()
             slice_s = max(0.5, 0.7 * left if g2 > _EPS else left - 0.6)
-            out = refine_face_order(problem, order1, lo1, deadline=Deadline.from_limit(slice_s), seed=seed)
+            out = refine_face_order(problem, order1, lo1, deadline=Deadline.from_limit(slice_s), seed=seed,
+                                    search_share=search_share)
             if out is None:
                 log.append({"side": "homology", "stage": "not refinable (several swept sets or a crossing sweep)"})
                 break
@@ -406,8 +434,12 @@ def _use_leftover(P: Any, H: Any, problem: Any, r1: Result, r2: Result, dl: Dead
             if nup < up1 - _EPS:
                 up1, order1, changed1 = nup, norder, True
             if not progress and time.monotonic() - t < slice_s - 0.5:
-                engine_done = True
+                # the prefix-set search gave up early (its state cap): the kick search alone from now on
                 entry["stopped"] = (st.get("bnb") or {}).get("stopped", "no progress")
+                if search_share < 1.0:
+                    search_share = 1.0
+                else:
+                    engine_done = True
             shared += time.monotonic() - t
         else:
             break
