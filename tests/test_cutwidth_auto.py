@@ -149,3 +149,34 @@ def test_search_is_registered():
 
     m = get_method("cutwidth", "search")
     assert m.guarantee == "bounds"
+
+
+class _FirstSlice(Exception):
+    pass
+
+
+@pytest.mark.parametrize("n,long_slice", [(80, False), (120, True), (190, True)])
+def test_regression_first_prefix_set_slice_from_100_to_200_vertices(monkeypatch, n, long_slice):
+    # regression: from 100 to 200 vertices the first prefix-set slice had shrunk to 15 % of the time left
+    # (the SAT stage after it only builds its encoding there), losing a lower-bound level on the homology
+    # reduction of the 100-point disk; it is 40 % again there, and stays short between 64 and 100 vertices
+    import sweepwidth.solve.ordering as so
+
+    seen: list[float] = []
+    limit = 30.0
+    end = time.monotonic() + limit
+
+    def first_slice(P, *, deadline, **kw):
+        now = time.monotonic()
+        seen.append((deadline - now) / (end - now))
+        raise _FirstSlice
+
+    monkeypatch.setattr(so, "solve_bnb", first_slice)
+    G = nx.random_regular_graph(3, n, seed=1)  # large width, weak lower bounds: the heuristics cannot close it
+    with pytest.raises(_FirstSlice):
+        sw.cutwidth(G, time_limit=limit, improve=False)
+    assert seen
+    if long_slice:
+        assert seen[0] > 0.35
+    else:
+        assert seen[0] < 0.25

@@ -272,3 +272,86 @@ def test_joint_short_limits_regression(limit):
     hom, htp = res["homology"], res["homotopy"]
     assert hom.witness is not None and htp.witness is not None
     _consistent(P, res)
+
+# ---------------------------------------------------------------- the pair's leftover time
+
+
+def test_regression_pair_spends_its_leftover_time():
+    # regression: the homotopy side used to end early (its exact search stops at its memory cap) and the
+    # pair returned with much of its limit unused; now the leftover goes to the larger gap.  A tiny
+    # memory cap makes the search stop at once, so the leftover path is exercised here.
+    import time
+
+    P = generators.weighted_delaunay_disk(100, seed=1)
+    limit = 12.0  # 6 s per side
+    t = time.monotonic()
+    res = sw.solve_parameters(P, ["homology", "homotopy"], time_limit=limit,
+                              homotopy_options={"max_memory": 1 << 20})
+    wall = time.monotonic() - t
+    _consistent(P, res)
+    assert wall <= limit + 1.5  # time limits are real (the solver contract; loose for a loaded machine)
+    left = res["homotopy"].stats["joint"]["leftover"]
+    assert left["rounds"], left  # the leftover was used
+    # each side reports at least ~70 % of its half of the limit (loose: a loaded machine)
+    for p in ("homology", "homotopy"):
+        assert res[p].seconds >= 0.6 * limit / 2, (p, res[p].seconds, left)
+
+
+def test_leftover_rounds_keep_lower_bounds_sound_on_small_disks():
+    # the refined lower bounds never exceed the optimum: the homology width from the exact subset DP
+    # (an independent method) and the homotopy height, checked against its own witness's replay
+    for n, seed in [(12, 1), (14, 2)]:
+        P = generators.weighted_delaunay_disk(n, seed=seed)
+        res = sw.solve_parameters(P, ["homology", "homotopy"], time_limit=10,
+                                  homotopy_options={"max_memory": 1 << 16})
+        _consistent(P, res)
+        exact = sw.homology_width(P, method="subset-dp")
+        assert exact.status == "optimal"
+        assert res["homology"].lower <= exact.value + 1e-9
+        assert res["homotopy"].lower <= res["homotopy"].check(P) + 1e-9
+
+
+def test_refine_face_order_against_the_subset_dp():
+    # refine_face_order's bounds bracket the exact width (subset DP over face sets, an independent method)
+    import time as _time
+
+    from sweepwidth.problems.cycles import HomologyProblem
+    from sweepwidth.solve.contract import Deadline
+    from sweepwidth.solve.homology import refine_face_order
+
+    for n, seed in [(10, 0), (12, 3), (14, 5)]:
+        P = generators.weighted_delaunay_disk(n, seed=seed)
+        Q = HomologyProblem.build(P, set(P.face_boundary_cycle(P.outer_face)), set(), [P.outer_face])
+        exact = sw.homology_width(P, method="subset-dp").value
+        faces = sorted(Q.swept[0])
+        random.Random(seed).shuffle(faces)
+        t = _time.monotonic()
+        lo, up, order, _ = refine_face_order(Q, faces, 0.0, deadline=Deadline.from_limit(3), seed=seed)
+        assert _time.monotonic() - t <= 3 + 1.0
+        assert sorted(order) == sorted(Q.swept[0])
+        assert lo <= exact + 1e-9 <= up + 2e-9
+        replay, _ = sweep_profile(P, set(P.face_boundary_cycle(P.outer_face)), order, {P.outer_face})
+        assert max(replay) == pytest.approx(up)  # the homology checker's replay of the returned order
+
+
+def test_refine_ordering_against_brute_force():
+    # the continued bounds bracket the cutwidth found by trying every ordering (itertools, independent)
+    import itertools
+    import time as _time
+
+    import networkx as nx
+
+    from sweepwidth.problems.ordering import OrderingProblem
+    from sweepwidth.solve.ordering import refine_ordering
+
+    rng = random.Random(7)
+    for trial in range(6):
+        G = nx.gnm_random_graph(7, 12, seed=trial)
+        for u, v in G.edges:
+            G[u][v]["weight"] = rng.randint(1, 5)
+        P = OrderingProblem.from_graph(G)
+        best = min(P.width(list(o)) for o in itertools.permutations(range(7)))
+        lo, up, order, _ = refine_ordering(P, list(range(7)), lower=0.0, deadline=_time.monotonic() + 1.0, seed=trial)
+        assert sorted(order) == list(range(7))
+        assert P.width(order) == pytest.approx(up)
+        assert lo <= best + 1e-9 <= up + 2e-9

@@ -19,6 +19,21 @@ homotopy solver: the bound as the homotopy lower bound, the order as one of
 the construction orders), then the homotopy height, then projects the best
 homotopy witness and keeps it as the homology witness when it is narrower.
 
+Time left over
+--------------
+The homotopy side often ends before the pair's limit (its exact search
+stops at its memory cap).  The time left goes, round by round, to the
+larger gap: while homotopy's upper bound is above homology's, homotopies
+are built from homology's best face order (strictly in order, then in
+windows); otherwise homology's cutwidth engine continues from its bounds
+(:func:`~sweepwidth.solve.homology.refine_face_order`: the kick search for
+a better face order, the shared upper bound, then the prefix-set search
+for more thresholds, the shared lower bound), and a homotopy is built from
+each order it improves.  ``stats['joint']['leftover']`` lists the rounds.
+Each result's ``seconds`` is its own solve plus the leftover rounds that
+worked for it (engine rounds for both, since their order and bound feed
+the homotopy result too), so the two may add up to more than the wall time.
+
 Non-contradiction
 -----------------
 When the homology width compared is a lower bound of the homotopy height
@@ -73,19 +88,25 @@ Examples
 from __future__ import annotations
 
 import dataclasses
+import math
 import time
 from typing import Any, Iterable, Mapping
-
-from ..errors import InvalidArgumentError, SweepwidthError, UnsupportedOptionError
+from ..errors import InvalidArgumentError, UnsupportedOptionError
 from ..registry import PARAMETERS
 from ..result import Result
 from .contract import Deadline, check_seed, make_result
 
-__all__ = ["solve_parameters", "paired_homology", "paired_homotopy", "HOMOLOGY_SHARE"]
+__all__ = ["solve_parameters", "paired_homology", "paired_homotopy", "HOMOLOGY_SHARE", "LARGE_FACES",
+           "LARGE_HOMOTOPY_SHARE"]
 
 #: share of the pair's time given to the homology width (the homotopy solver gets the rest and
 #: does not compute the homology bound again)
 HOMOLOGY_SHARE = 0.45
+
+#: above this many sweepable faces (with a shared homology bound) the homotopy solver gets
+#: ``LARGE_HOMOTOPY_SHARE`` of the time left after the homology width; the leftover rounds get the rest
+LARGE_FACES = 120
+LARGE_HOMOTOPY_SHARE = 0.5
 
 _EPS = 1e-9
 _HOMOTOPY_KEYS = ("spikes", "simple", "monotone", "weight", "s", "t", "method", "max_memory")
@@ -271,7 +292,12 @@ def _solve_pair(P: Any, limit: float | None, seed: int | None, start: Any, end: 
                               "seconds": round(r1.seconds, 3), "monotone": monotone, "from": "solve_parameters"}},
                 order)
     h_method = htp_opts.get("method", "auto")
-    r2 = solve_homotopy(H, method=h_method, deadline=Deadline.at_time(dl.at), seed=seed, max_memory=htp_opts.get("max_memory"),
+    h2_dl = Deadline.at_time(dl.at)
+    if limit is not None and comparable and monotone and len(H.sweepable_faces) > LARGE_FACES:
+        # the exact homotopy search settles no level above the homology bound on inputs this large
+        # (benchmarks/NOTES.md): part of its time goes to the leftover rounds below instead
+        h2_dl = Deadline.from_limit(max(0.0, LARGE_HOMOTOPY_SHARE * dl.remaining()))
+    r2 = solve_homotopy(H, method=h_method, deadline=h2_dl, seed=seed, max_memory=htp_opts.get("max_memory"),
                         homology=hint)
     joint: dict[str, Any] = {"comparable": comparable, "homology_to_homotopy": "none", "homotopy_to_homology": "none"}
     if r2.witness is None and r2.status != "infeasible" and order:
@@ -285,6 +311,9 @@ def _solve_pair(P: Any, limit: float | None, seed: int | None, start: Any, end: 
                              stats={**r2.stats, "bounds": {**dict(r2.stats.get("bounds") or {}),
                                                            "upper": "homology face order lifted to a homotopy (joint solve)"}})
             joint["homology_to_homotopy_witness"] = "lifted face order"
+    joint["seconds"] = {"homology": round(r1.seconds, 3), "homotopy": round(r2.seconds, 3)}
+    if limit is not None and monotone and comparable:
+        r1, r2 = _use_leftover(P, H, problem, r1, r2, dl, seed, joint)
     # homotopy lower bound >= homology lower bound (when comparable)
     if comparable and r1.lower is not None and r2.status != "infeasible":
         lo2 = r2.lower if r2.lower is not None else 0.0
@@ -335,6 +364,125 @@ def _lift_order(H: Any, order: list[int], seconds: float) -> tuple[float, dict] 
     pos = {f: i for i, f in enumerate(order)}
     rank = [float(pos.get(f, len(order))) for f in range(H.n_faces)]
     return construct_homotopy(H, rank, deadline=time.monotonic() + seconds)
+
+def _gap(r: Result) -> float:
+    if r.status == "infeasible" or r.upper is None:
+        return float("inf")
+    return float(r.upper) - (float(r.lower) if r.lower is not None else 0.0)
+
+
+def _rank_of(order: list[int], n_faces: int) -> list[float]:
+    rank = [float(n_faces + f) for f in range(n_faces)]
+    for k, f in enumerate(order):
+        if 0 <= f < n_faces and rank[f] >= n_faces:
+            rank[f] = float(k)
+    return rank
+
+
+def _use_leftover(P: Any, H: Any, problem: Any, r1: Result, r2: Result, dl: Deadline, seed: int | None,
+                  joint: dict[str, Any]) -> tuple[Result, Result]:
+    """Spend the time the pair has left (the homotopy side often ends early) on the larger gap.
+
+    Homotopy's gap is the larger one only when its upper bound is above
+    homology's (its lower bound is at least homology's): then homotopies are
+    built from homology's face order (strictly, then in windows).  Otherwise
+    homology's cutwidth engine continues from its bounds
+    (:func:`~sweepwidth.solve.homology.refine_face_order`: the kick search
+    for the shared upper bound, the prefix-set search for the lower one), and
+    a homotopy is built from each face order it improves.  Every bound kept
+    is proven by the stage that produced it, so they stay sound and the
+    non-contradiction rules of the module docstring still hold.
+    """
+    from .homology import refine_face_order
+    from .homotopy import construct_homotopy
+    from .homotopy.bounds import WINDOW_FACTOR
+
+    if r1.status == "infeasible" or r2.status == "infeasible" or not isinstance(r1.witness, list):
+        return r1, r2
+    if not r1.stats.get("monotone", True) or r1.lower is None or r1.upper is None:
+        return r1, r2
+    F = H.n_faces
+    win = max(2, round(WINDOW_FACTOR * math.sqrt(F)))
+    log: list[dict[str, Any]] = []
+    t_start = time.monotonic()
+    lo1, up1, order1 = float(r1.lower), float(r1.upper), list(r1.witness)
+    lo2 = float(r2.lower) if r2.lower is not None else 0.0
+    up2 = float(r2.upper) if r2.upper is not None else float("inf")
+    wit2 = r2.witness
+    built_from: set[tuple[float, int]] = set()  # (homology width of the order, window) already built
+    changed1 = changed2 = False
+    engine_done = False  # the engine gave up before its slice ended without progress (e.g. its state cap)
+    search_share = 0.5  # of each engine round for the kick search (the prefix-set search gets the rest)
+    how2 = ""
+    shared = 0.0  # seconds of engine rounds: they work for both sides (shared order and lower bound)
+    own2 = 0.0  # seconds of homotopy constructions
+    while dl.remaining() > 1.0:
+        g1, g2 = up1 - lo1, up2 - max(lo2, lo1)
+        if max(g1, g2) <= _EPS:
+            break
+        t = time.monotonic()
+        pending = [w for w in (0, win) if (up1, w) not in built_from]
+        entry: dict[str, Any]
+        if pending and (g2 > g1 + _EPS or up2 > up1 + _EPS or engine_done or g1 <= _EPS):
+            # homotopy side: build from homology's current best face order
+            w = pending[0]
+            built_from.add((up1, w))
+            got = construct_homotopy(H, _rank_of(order1, F), window=w, deadline=time.monotonic() + dl.remaining() - 0.3)
+            entry = {"side": "homotopy", "stage": f"construction from homology's face order, window {w}",
+                     "height": None if got is None else got[0]}
+            if got is not None and got[0] < up2 - _EPS:
+                up2, wit2, changed2 = float(got[0]), got[1], True
+                how2 = f"constructed homotopy (homology's face order after the leftover rounds, window {w})"
+            own2 += time.monotonic() - t
+        elif g1 > _EPS and not engine_done:
+            # homology side: the cutwidth engine continues from its bounds, in a slice that leaves
+            # time to build a homotopy from an improved order
+            left = dl.remaining()
+            slice_s = max(0.5, 0.7 * left if g2 > _EPS else left - 0.6)
+            out = refine_face_order(problem, order1, lo1, deadline=Deadline.from_limit(slice_s), seed=seed,
+                                    search_share=search_share)
+            if out is None:
+                log.append({"side": "homology", "stage": "not refinable (several swept sets or a crossing sweep)"})
+                break
+            nlo, nup, norder, st = out
+            entry = {"side": "both", "stage": "homology's cutwidth engine (kick search, prefix-set search)",
+                     "lower": nlo, "upper": nup}
+            progress = nlo > lo1 + _EPS or nup < up1 - _EPS
+            if nlo > lo1 + _EPS:
+                lo1, changed1 = nlo, True
+            if nup < up1 - _EPS:
+                up1, order1, changed1 = nup, norder, True
+            if not progress and time.monotonic() - t < slice_s - 0.5:
+                # the prefix-set search gave up early (its state cap): the kick search alone from now on
+                entry["stopped"] = (st.get("bnb") or {}).get("stopped", "no progress")
+                if search_share < 1.0:
+                    search_share = 1.0
+                else:
+                    engine_done = True
+            shared += time.monotonic() - t
+        else:
+            break
+        entry["seconds"] = round(time.monotonic() - t, 3)
+        log.append(entry)
+    joint["leftover"] = {"seconds": round(time.monotonic() - t_start, 3), "rounds": log}
+    if changed1:
+        old_bounds = r1.stats.get("bounds")
+        bounds = dict(old_bounds) if isinstance(old_bounds, dict) else {"lower": old_bounds}
+        if lo1 > float(r1.lower) + _EPS:
+            bounds["lower"] = "cutwidth engine lower bound + constant (continued with the pair's time left)"
+        if up1 < float(r1.upper) - _EPS:
+            bounds["upper"] = "cutwidth engine ordering (continued with the pair's time left)"
+        r1 = make_result("homology", lower=lo1, upper=up1, witness=order1, method=r1.method, seconds=r1.seconds,
+                         stats={**r1.stats, "bounds": bounds})
+    if changed2:
+        b2 = dict(r2.stats.get("bounds") or {})
+        b2["upper"] = how2
+        r2 = make_result("homotopy", lower=max(lo2, min(lo1, up2)), upper=up2, witness=wit2, method=r2.method,
+                         seconds=r2.seconds, stats={**r2.stats, "bounds": b2})
+    # each side's seconds include the leftover work done for it (engine rounds for both)
+    r1 = _replace(r1, seconds=r1.seconds + shared)
+    r2 = _replace(r2, seconds=r2.seconds + shared + own2)
+    return r1, r2
 
 
 def _odd(toggles: Iterable[int]) -> set[int]:

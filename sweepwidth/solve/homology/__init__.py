@@ -109,7 +109,7 @@ from .face_sets import (
     toggle_search,
 )
 
-__all__ = ["homology_width", "solve_problem", "validate_arguments", "METHODS", "OPTIONS"]
+__all__ = ["homology_width", "solve_problem", "validate_arguments", "refine_face_order", "METHODS", "OPTIONS"]
 
 #: the built-in method names (from the method registry, :mod:`sweepwidth.solve.contract`)
 METHODS = tuple(sorted(builtin_names("homology"), key=list(methods("homology")).index))
@@ -259,8 +259,12 @@ def _run_engine(G: Any, first: Any, last: Any, kw: dict, deadline: float | None,
     time-limited child) the engine runs without that option.
     """
     from ...problems.ordering import OrderingProblem
+    from ..ordering import kernels
     from ..ordering import solve_problem as solve_ordering
 
+    # the compiled kernels load (or compile) on first use: do it before the engine's time checks
+    # (a direct cutwidth() call does the same)
+    kernels.warm_up()
     Q = OrderingProblem.from_graph(G, weight=kw["weight"], first=[first], last=[last])
     options: dict[str, Any] = {}
 
@@ -290,6 +294,61 @@ def _run_engine(G: Any, first: Any, last: Any, kw: dict, deadline: float | None,
         if left <= 0.1:
             return None
         return run(outer.within(max(0.05, left - 0.1)))
+
+
+def refine_face_order(problem: HomologyProblem, order: list[int], lower: float, *, deadline: Deadline,
+                      seed: int | None = None, search_share: float = 0.5) -> tuple[float, float, list[int], dict] | None:
+    """Improve a monotone homology result by continuing its cutwidth engine from it.
+
+    For a problem with one swept face set whose sweep is nested (the
+    reduction to pinned cutwidth is exact), ``order`` (a face order sweeping
+    that set) and ``lower`` (a proven bound) go to
+    :func:`sweepwidth.solve.ordering.refine_ordering`: the kick search from
+    the order, then the prefix-set search from the bound.  Used by
+    :func:`sweepwidth.solve_parameters` with the time the pair has left.
+
+    Returns
+    -------
+    (lower, upper, order, info) or None
+        Proven lower bound, width of the returned face order (never above the
+        given one's), the order, and the engine's stats; None when the problem
+        does not fit (several swept sets, a crossing sweep, an order of other faces).
+
+    Examples
+    --------
+    >>> import time
+    >>> from sweepwidth import generators
+    >>> from sweepwidth.problems.cycles import HomologyProblem
+    >>> P = generators.grid(3, 3)
+    >>> Q = HomologyProblem.build(P, set(P.face_boundary_cycle(P.outer_face)), set(), [P.outer_face])
+    >>> faces = sorted(Q.swept[0])
+    >>> lo, up, o, info = refine_face_order(Q, faces, 0.0, deadline=Deadline.from_limit(2))
+    >>> lo <= up and sorted(o) == faces
+    True
+    """
+    from ...problems.ordering import OrderingProblem
+    from ..ordering import kernels
+    from ..ordering import refine_ordering
+
+    if len(problem.swept) != 1 or frozenset(order) != problem.swept[0] or len(order) != len(problem.swept[0]):
+        return None
+    fs = FaceSweep.build(problem.graph, problem.start, problem.swept[0])
+    if not fs.nested:
+        return None
+    kernels.warm_up()
+    G, first, last = fs.ordering_graph()
+    Q = OrderingProblem.from_graph(G, weight="weight", first=[first], last=[last])
+    index = {lab: i for i, lab in enumerate(Q.labels)}
+    q_order = [index[first]] + [index[f] for f in order] + [index[last]]
+    at = deadline.at if deadline.at is not None else time.monotonic() + 10.0
+    lo, up, q_new, st = refine_ordering(Q, q_order, lower=max(0.0, float(lower) - fs.const), deadline=at,
+                                        seed=seed, search_share=search_share)
+    new = [Q.labels[v] for v in q_new if v != index[first] and v != index[last]]
+    width = max(fs.profile(new))
+    old = max(fs.profile(order))
+    if width > old + _EPS:  # pragma: no cover - the engine never returns a wider ordering
+        new, width = list(order), old
+    return max(float(lower), fs.const + lo), width, new, st
 
 
 def _quick_lower(G: Any, first: Any, last: Any) -> float:

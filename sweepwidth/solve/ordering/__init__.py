@@ -22,8 +22,8 @@ Methods
                 if they meet); above 3000 vertices the flow bound
                 (:mod:`.flow`, a quarter of the time) and the kick search
                 (:mod:`.local_search`) for the rest; else a 'bnb' run (40 %
-                of the time left up to 64 vertices, else 15 % but at least
-                3 s; 10 s + n / 20 s without a limit), and if it does not
+                of the time left up to 64 and from 100 to 200 vertices, else
+                15 % but at least 3 s; 10 s + n / 20 s without a limit), and if it does not
                 finish the flow bound (20 %, stopped once it reaches the
                 upper bound), the kick search (stopped once it reaches the
                 lower bound; a quarter of the time and at most
@@ -79,7 +79,7 @@ from .bounds import lower_bounds
 from .dp import DEFAULT_MAX_MEMORY, dp_estimate, solve_dp
 from .heuristics import heuristic_ordering, improve_ordering
 
-__all__ = ["cutwidth", "solve_problem", "METHODS", "OPTIONS"]
+__all__ = ["cutwidth", "solve_problem", "refine_ordering", "METHODS", "OPTIONS"]
 
 #: options accepted by ``cutwidth`` (besides the named arguments), per built-in method
 #: (read from the method registry, :mod:`sweepwidth.solve.contract`)
@@ -119,6 +119,13 @@ def _heuristic(P: OrderingProblem, seed: int | None, deadline: float | None, imp
 
 
 _SMALL = 64  # up to this many vertices the prefix-set search keeps its long first slice
+# ... and from _SAT_SLOW_N to _MID vertices too: there the SAT stage spends its time building the
+# order encoding (about n^2 >= 10^4 prefix variables) and proves nothing in a 30-60 s limit, while
+# the prefix-set search settles one or more further thresholds in the longer slice
+# (benchmarks/NOTES.md, "the lost lower-bound level"); between _SMALL and _SAT_SLOW_N the SAT
+# stage pays (Les Miserables, 77 vertices) and the slice stays short
+_SAT_SLOW_N = 100
+_MID = 200
 
 
 def _flow_stage(P: OrderingProblem, lbs: dict[str, float], lb: float, ub: float, deadline: float | None,
@@ -172,6 +179,59 @@ def _search_stage(P: OrderingProblem, lb: float, ub: float, order: list[int], de
     st = dict(st, width=best[0])
     stats["search"] = st
     return float(best[0]), best[1]
+
+
+def refine_ordering(P: OrderingProblem, order: list[int], *, lower: float, deadline: float,
+                    seed: int | None = None, search_share: float = 0.5) -> tuple[float, float, list[int], dict]:
+    """Continue from known bounds: the kick search from ``order``, then the prefix-set search from ``lower``.
+
+    For callers that already ran the 'auto' chain and have time left (the
+    joint solve of :mod:`sweepwidth.solve.joint`): the kick search
+    (:mod:`.local_search`) gets ``search_share`` of the time and stops once
+    it reaches ``lower``; the prefix-set search (:mod:`.bnb`) settles the
+    thresholds from ``lower`` upwards in the rest, each settled threshold a
+    proven lower bound.
+
+    Parameters
+    ----------
+    P : OrderingProblem
+        At most one first and one last vertex.
+    order : list of int
+        An ordering of ``0..n-1`` (pins at the ends).
+    lower : float
+        A proven lower bound of the cutwidth of ``P``.
+    deadline : float
+        ``time.monotonic()`` value; returns within about 0.2 s of it.
+
+    Returns
+    -------
+    (lower, upper, order, stats)
+        ``upper`` is the width of the returned ordering (never above the given one).
+
+    Examples
+    --------
+    >>> import networkx as nx
+    >>> P = OrderingProblem.from_graph(nx.cycle_graph(8))
+    >>> lo, up, o, st = refine_ordering(P, list(range(8)), lower=0.0, deadline=time.monotonic() + 2)
+    >>> lo, up
+    (2.0, 2.0)
+    """
+    if len(P.first) > 1 or len(P.last) > 1:
+        raise InvalidArgumentError("refine_ordering needs at most one first and one last vertex (contract_pins first)")
+    stats: dict[str, Any] = {}
+    ub = P.width(order)
+    lb = float(lower)
+    t0 = time.monotonic()
+    if lb < ub - 1e-9:
+        ub, order = _search_stage(P, lb, ub, list(order), deadline, search_share * _left(deadline), seed, stats)
+    if lb < ub - 1e-9 and _left(deadline) > 0.1:
+        out = solve_bnb(P, lower=lb, upper=ub, upper_order=order, deadline=deadline, max_states=1_000_000)
+        stats["bnb"] = dict(out.stats)
+        lb, ub, order = max(lb, out.lower), out.upper, out.order
+        if out.optimal:
+            lb = ub
+    stats["seconds"] = time.monotonic() - t0
+    return min(lb, ub), ub, list(order), stats
 
 
 def _dp_child(P, max_memory, *, progress=None):
@@ -463,7 +523,7 @@ def _auto_part(P: OrderingProblem, deadline: float | None, seed: int | None, opt
     # a prefix-set search first: on sparse graphs of small width it is instant
     if deadline is None:
         slice_s = 10.0 + n / 20.0
-    elif n <= _SMALL:
+    elif n <= _SMALL or _SAT_SLOW_N <= n <= _MID:
         slice_s = 0.4 * _left(deadline)
     else:
         slice_s = min(0.4 * _left(deadline), max(3.0, 0.15 * _left(deadline)))
