@@ -91,6 +91,7 @@ import dataclasses
 import math
 import time
 from typing import Any, Iterable, Mapping
+
 from ..errors import InvalidArgumentError, UnsupportedOptionError
 from ..registry import PARAMETERS
 from ..result import Result
