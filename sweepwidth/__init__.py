@@ -53,6 +53,10 @@ def __getattr__(name: str) -> Any:
         module = _PUBLIC[name]
     except KeyError:
         raise AttributeError(f"module 'sweepwidth' has no attribute {name!r}") from None
+    if name == "draw":
+        # the package itself, callable as its draw function: binding the function here would hide the
+        # subpackage from ``import sweepwidth.draw.X as m`` (regression: test_cli_draw_options after test_api)
+        return importlib.import_module("sweepwidth.draw")
     value = getattr(importlib.import_module(module), name)
     globals()[name] = value
     return value

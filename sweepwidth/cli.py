@@ -29,6 +29,7 @@ witness fails or does not attain the claimed upper bound;
 from __future__ import annotations
 
 import argparse
+import importlib
 import json
 import os
 import sys
@@ -980,17 +981,13 @@ def cmd_convert(args: argparse.Namespace, out: Callable[[str], None]) -> int:
 
 # --------------------------------------------------------------------- draw
 def cmd_draw(args: argparse.Namespace, out: Callable[[str], None]) -> int:
-    import sweepwidth.draw as drawing
-    render = getattr(drawing, "render_cli", None)
-    if render is None:
-        try:
-            render = drawing.__getattr__("render_cli")  # lazy facades
-        except AttributeError:
-            render = None
-        except ImportError as err:  # say what failed to import (e.g. matplotlib: the 'plot' extra), never hide it
-            raise CliError(f"drawing needs the 'plot' extra: {err}") from err
-    if render is None:
-        raise CliError("drawing from the command line is not available yet (sweepwidth.draw.render_cli is missing)")
+    # the module itself: after ``sweepwidth.draw`` (the function of the top-level facade) has been looked up,
+    # ``import sweepwidth.draw as m`` gives that function, not the package (regression: test_api then draw)
+    drawing = importlib.import_module("sweepwidth.draw")
+    try:
+        render = drawing.render_cli
+    except ImportError as err:  # say what failed to import (e.g. matplotlib: the 'plot' extra), never hide it
+        raise CliError(f"drawing needs the 'plot' extra: {err}") from err
     if args.result and not os.path.exists(args.result):
         raise CliError(f"{args.result}: no such result file")
     if not os.path.exists(args.file):

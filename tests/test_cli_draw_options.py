@@ -122,3 +122,13 @@ def test_draw_width_bad_input_is_named(capsys, tmp_path):
     assert "--backward does not apply with --result" in refused(PAVILION, "--result", other, "--backward",
                                                                 "-o", tmp_path / "x.png")
     assert not list(tmp_path.glob("x.*"))
+
+
+def test_draw_after_the_facade_function_was_looked_up(tmp_path, capsys):
+    # regression: once ``sweepwidth.draw`` (the facade's draw function) had been read, the CLI's
+    # ``import sweepwidth.draw as m`` got the function and said "drawing ... not available"
+    assert callable(sw.draw)
+    rc, out, err = _run(capsys, "draw", PAVILION, "--frames", "4", "-o", tmp_path / "p.png")
+    assert rc == 1 and "--frames does not apply" in err
+    rc, out, err = _run(capsys, "draw", PAVILION, "-o", tmp_path / "p.png")
+    assert rc == 0 and (tmp_path / "p.png").exists(), err
