@@ -340,7 +340,8 @@ def _pavilion_files(P: Any, results: dict, out_dir: str, pictures: bool) -> Iter
         import importlib
 
         # the package, not the facade's ``sweepwidth.draw`` function that may shadow it as an attribute
-        draw_fn = importlib.import_module("sweepwidth.draw").draw
+        drawing = importlib.import_module("sweepwidth.draw")
+        draw_fn = drawing.draw
     except (AttributeError, ImportError) as err:  # noqa: BLE001
         yield {"kind": "note", "text": f"  pictures skipped: the drawing module is not available ({err})"}
         return
