@@ -219,7 +219,7 @@ def _method_bounds(st: _State, share: float | None = None) -> None:
     if share is None:
         share = CONSTRUCT_SHARE
     sub = None if at is None else time.monotonic() + share * max(0.0, at - time.monotonic())
-    got = best_constructed(W, deadline=sub)
+    got = best_constructed(W, deadline=sub, lower=st.lower)
     if got is not None:
         st.upper, st.witness = got[0], got[1]
         st.bounds["upper"] = f"constructed sweep ({got[2]})"
@@ -245,7 +245,8 @@ def _method_search(st: _State, *, constructions: bool = True) -> None:
         st.bounds = {"lower": "geodesic discrete Fréchet distance or leash lengths", "upper": "none"}
         _passage(st)
         at = st.deadline.at
-        got = best_constructed(W, deadline=None if at is None else time.monotonic() + 0.5 * max(0.0, at - time.monotonic()))
+        got = best_constructed(W, deadline=None if at is None else time.monotonic() + 0.5 * max(0.0, at - time.monotonic()),
+                               lower=st.lower)
         if got is not None:
             st.upper, st.witness = got[0], got[1]
             st.bounds["upper"] = f"constructed sweep ({got[2]})"

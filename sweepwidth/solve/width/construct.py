@@ -142,47 +142,101 @@ def construct_sweep(
     return width, {"start": W.leash_json(W.start.darts, W.start.vertex), "moves": moves}
 
 
-def best_constructed(W: Any, *, deadline: float | None = None) -> tuple[float, dict, str] | None:
-    """The narrowest replayed sweep over the construction variants: ``(width, witness, variant)``."""
+#: seconds of local improvement (:func:`.splitting.improve`) when no deadline is given
+IMPROVE_SECONDS = 10.0
+#: split variants improved locally (the narrowest ones)
+IMPROVE_TOP = 3
+
+
+def best_constructed(W: Any, *, deadline: float | None = None,
+                     lower: float | None = None) -> tuple[float, dict, str] | None:
+    """The narrowest replayed sweep over the constructions: ``(width, witness, variant)``.
+
+    Order: the split sweep of :mod:`.splitting` (first variant), the
+    shortest-leash sweeps of :func:`construct_sweep`, the coned height
+    construction, the other split variants, then the local improvement of
+    the narrowest split sweeps (exact re-solves of windows around their
+    widest crossing) in the time left (``IMPROVE_SECONDS`` without a
+    deadline).  Every witness is replayed by the independent checker
+    (:func:`sweepwidth.verify.width.replay_width`) before it counts; the
+    search stops early when a sweep meets ``lower``.
+    """
     from ...verify.width import replay_width
     from ...errors import WitnessError
+    from . import splitting
 
-    D = leash_distances(W)
-    path = frechet_bound(W, D)[1]
     opts = W.options()
     kw = {k: opts[k] for k in ("a", "b", "start", "end", "holes", "backward", "spikes", "simple", "weight")}
-    best = None
-    variants = [(False, 0.0), (True, 0.0)]
+    best: tuple[float, dict, str] | None = None
+
+    def late() -> bool:
+        return deadline is not None and time.monotonic() > deadline
+
+    def met() -> bool:
+        return best is not None and lower is not None and best[0] <= lower + 1e-9
+
+    def consider(got: tuple[float, dict] | None, name: str) -> float | None:
+        nonlocal best
+        if got is None:
+            return None
+        try:
+            w = replay_width(W.graph, got[1], **kw)
+        except WitnessError:
+            return None
+        if best is None or w < best[0] - 1e-9:
+            best = (w, got[1], name)
+        return w
+
+    def split_name(v: tuple) -> str:
+        return f"split sweep (middle {v[0]:g}, balance {v[1]:g}, {v[2]} candidates)"
+
+    frames_of: list = []
+
+    def run_split(v: tuple) -> None:
+        try:
+            fr = splitting.keyframes(W, deadline=deadline, middle=v[0], balance=v[1], tries=v[2])
+            segs = None if fr is None else splitting.crossings(W, fr, deadline)
+        except Exception:  # noqa: BLE001 - a failed variant is skipped, never trusted
+            return
+        if fr is None or segs is None:
+            return
+        w = consider(splitting.join(W, segs), split_name(v))
+        if w is not None:
+            frames_of.append((w, v, fr, segs))
+
+    run_split(splitting.VARIANTS[0])
+    path = frechet_bound(W, leash_distances(W))[1]
     scale = max([c for c in W.cost if c > 0], default=1.0)
-    variants += [(False, 2 * scale), (True, 2 * scale), (False, 5 * scale)]
-    for from_b, slack in variants:
-        if deadline is not None and time.monotonic() > deadline:
+    for from_b, slack in [(False, 0.0), (True, 0.0), (False, 2 * scale), (True, 2 * scale), (False, 5 * scale)]:
+        if late() or met():
             break
         try:
             got = construct_sweep(W, from_b=from_b, slack=slack, path=path, deadline=deadline)
         except Exception:  # noqa: BLE001 - a failed variant is skipped, never trusted
             continue
-        if got is None:
-            continue
-        try:
-            w = replay_width(W.graph, got[1], **kw)
-        except WitnessError:
-            continue
-        if best is None or w < best[0]:
-            best = (w, got[1], f"shortest leashes from {'b' if from_b else 'a'}, slack {slack:g}")
-    if deadline is None or time.monotonic() < deadline:
+        consider(got, f"shortest leashes from {'b' if from_b else 'a'}, slack {slack:g}")
+    if not late() and not met():
         M = (best[0] if best is not None else sum(W.cost)) + 1.0
         try:
             got = coned_construction(W, M, deadline=deadline)
         except Exception:  # noqa: BLE001 - a failed variant is skipped, never trusted
             got = None
-        if got is not None:
-            try:
-                w = replay_width(W.graph, got[1], **kw)
-                if best is None or w < best[0]:
-                    best = (w, got[1], "height construction on the coned instance, translated back")
-            except WitnessError:
-                pass
+        consider(got, "height construction on the coned instance, translated back")
+    for v in splitting.VARIANTS[1:]:
+        if late() or met():
+            break
+        run_split(v)
+    until = deadline if deadline is not None else time.monotonic() + IMPROVE_SECONDS
+    frames_of.sort(key=lambda x: x[0])
+    for w, v, fr, segs in frames_of[:IMPROVE_TOP]:
+        if time.monotonic() > until or met():
+            break
+        try:
+            fr2, segs2, st = splitting.improve(W, fr, segs, deadline=until)
+        except Exception:  # noqa: BLE001 - an improvement that fails leaves the sweep as it was
+            continue
+        if st["narrowed"]:
+            consider(splitting.join(W, segs2), split_name(v) + f", {st['narrowed']} windows re-solved exactly")
     return best
 
 

@@ -55,65 +55,99 @@ import time
 from typing import Any, Sequence
 
 from ...problems.homotopy import Curve
+from ...problems.width import WidthState
 from ..homotopy import bfs_rank, construct_homotopy
 
-__all__ = ["split_sweep", "region_faces", "middle_leash"]
+__all__ = ["split_sweep", "keyframes", "realise", "region_faces", "middle_leash", "leaf_size", "VARIANTS"]
 
-#: regions of at most this many faces are crossed directly
+#: regions of at most this many faces are crossed directly (at least; see :func:`leaf_size`)
 LEAF_FACES = 2
-#: candidate middle vertices tried per region before it is crossed directly
+#: candidate middle vertices tried per region
 CANDIDATES = 8
 #: a middle vertex has |d(L1, x) - d(L2, x)| at most this share of d(L1, x) + d(L2, x)
 MIDDLE = 0.4
 #: a split is balanced when each side holds at least this share of the region's faces
 BALANCE = 0.2
+#: the variants tried by :func:`split_variants`: (middle, balance, candidates), the most often best first
+VARIANTS = ((0.4, 0.2, 8), (0.4, 0.1, 4), (0.6, 0.1, 16), (0.4, 0.3, 4), (0.2, 0.1, 8), (0.6, 0.3, 8),
+            (0.2, 0.2, 4), (0.4, 0.4, 16), (0.6, 0.1, 8), (0.2, 0.3, 8), (0.4, 0.3, 16), (0.2, 0.1, 16))
 
 _INF = float("inf")
 
 
-def region_faces(W: Any, closed: Sequence[int]) -> set[int] | None:
+def leaf_size(W: Any) -> int:
+    """Faces of the regions crossed directly: ``LEAF_FACES``, more on large graphs (about 250 crossings)."""
+    return max(LEAF_FACES, W.graph.number_of_faces() // 250)
+
+
+def region_faces(W: Any, closed: Sequence[int], within: set[int] | None = None) -> set[int] | None:
     """The faces on the odd side of a closed walk (mod 2), the holes' side being even.
 
     Two faces across an edge are on the same side unless the walk uses the
-    edge an odd number of times.  None when the holes do not all get side 0
-    (the walk winds around a hole) or the sides disagree.
+    edge an odd number of times.  With ``within``, a set of faces known to
+    contain the odd side, only those faces are searched (every other face
+    is even); the walk must then use each edge outside ``within`` an even
+    number of times.  None when the sides disagree or a hole is odd (the
+    walk winds around a hole, or leaves ``within``).
     """
     P = W.graph
-    m = P.number_of_edges()
-    z = bytearray(m)
-    for d in closed:
-        z[d >> 1] ^= 1
-    F = P.number_of_faces()
     df = W.path.dart_face
-    adj: list[list[tuple[int, int]]] = [[] for _ in range(F)]
-    for e in range(m):
-        f, g = df[2 * e], df[2 * e + 1]
-        if f != g:
-            adj[f].append((g, e))
-            adj[g].append((f, e))
-        elif z[e]:
-            return None
-    holes = sorted(W.holes)
-    root = holes[0] if holes else 0
-    side = [-1] * F
-    side[root] = 0
-    order = [root]
-    for f in order:
-        for g, e in adj[f]:
-            if side[g] < 0:
-                side[g] = side[f] ^ z[e]
-                order.append(g)
-    for e in range(m):
-        f, g = df[2 * e], df[2 * e + 1]
-        if side[f] < 0 or side[g] < 0 or (side[f] ^ side[g]) != z[e]:
-            return None
-    if any(side[h] for h in holes):
+    z: dict[int, int] = {}
+    for d in closed:
+        e = d >> 1
+        z[e] = z.get(e, 0) ^ 1
+    walks = W.path.face_walks
+    if within is None:
+        within = {f for f in range(P.number_of_faces()) if f not in W.holes}
+    elif any(h in within for h in W.holes):
         return None
-    return {f for f in range(F) if side[f] == 1}
+    for e, odd in z.items():
+        if odd and df[2 * e] not in within and df[2 * e + 1] not in within:
+            return None
+    side: dict[int, int] = {}
+    order: list[int] = []
+    # faces of `within` next to an outside face get their side from the edge between
+    for f in within:
+        for d in walks[f]:
+            g = df[d ^ 1]
+            if g not in within:
+                v = z.get(d >> 1, 0)
+                if side.setdefault(f, v) != v:
+                    return None
+                order.append(f)
+                break
+    for f in order:
+        for d in walks[f]:
+            g = df[d ^ 1]
+            v = side[f] ^ z.get(d >> 1, 0)
+            if g not in within:
+                if side[f] != z.get(d >> 1, 0):
+                    return None
+            elif g not in side:
+                side[g] = v
+                order.append(g)
+            elif side[g] != v:
+                return None
+    if len(side) != len(within):  # faces cut off from the outside (no holes): decide from any one
+        rest = [f for f in within if f not in side]
+        seed = rest[0]
+        side[seed] = 0
+        order = [seed]
+        for f in order:
+            for d in walks[f]:
+                g = df[d ^ 1]
+                if g in within and g not in side:
+                    side[g] = side[f] ^ z.get(d >> 1, 0)
+                    order.append(g)
+    return {f for f, v in side.items() if v}
 
 
-def _restricted(W: Any, allowed: Sequence[bool], sources: dict[int, int]) -> tuple[dict, dict, dict]:
-    """Dijkstra [2]_ along the allowed edges from several sources: distance, parent dart, source tag."""
+def _restricted(W: Any, allowed: set[int], sources: dict[int, int],
+                block: set[int] | None = None) -> tuple[dict, dict, dict]:
+    """Dijkstra [2]_ along the allowed edges (avoiding blocked vertices) from several sources.
+
+    Returns the distance, the parent dart and the source's tag of every vertex reached.
+    """
     cost, head = W.cost, W.head
     out = _out(W)
     dist: dict[int, float] = {}
@@ -121,6 +155,8 @@ def _restricted(W: Any, allowed: Sequence[bool], sources: dict[int, int]) -> tup
     tag: dict[int, int] = {}
     heap = []
     for v, t in sources.items():
+        if block is not None and v in block:
+            continue
         dist[v] = 0.0
         par[v] = -1
         tag[v] = t
@@ -131,9 +167,11 @@ def _restricted(W: Any, allowed: Sequence[bool], sources: dict[int, int]) -> tup
         if dv > dist[v]:
             continue
         for d in out[v]:
-            if not allowed[d >> 1]:
+            if (d >> 1) not in allowed:
                 continue
             u = head[d]
+            if block is not None and u in block:
+                continue
             nd = dv + cost[d]
             if nd < dist.get(u, _INF):
                 dist[u] = nd
@@ -186,8 +224,6 @@ def _simplify(darts: list[int], tail: Sequence[int], head: Sequence[int]) -> lis
                 seen.pop(head[x], None)
             del out[k:]
             seen[v] = k
-            if not out:
-                seen = {v: 0}
         else:
             out.append(d)
             seen[v] = len(out)
@@ -195,26 +231,27 @@ def _simplify(darts: list[int], tail: Sequence[int], head: Sequence[int]) -> lis
 
 
 def middle_leash(W: Any, X: set[int], i1: int, i2: int, j1: int, j2: int, L1: Sequence[int], L2: Sequence[int],
-                 *, tries: int = CANDIDATES) -> list[tuple[int, int, tuple]]:
+                 *, tries: int = CANDIDATES, middle: float = MIDDLE) -> list[tuple[int, int, tuple]]:
     """Candidate middle leashes ``(i, j, darts)`` of region X (see the module docstring).
 
     The candidates run through interior vertices about halfway between the
-    two leashes, spread from the shallowest to the deepest (farthest from
-    both); each is a shortest path from A to x inside X and then a shortest
-    path from x to B inside X that avoids the first one (so it is simple).
+    two leashes (``|d1 - d2| <= middle * (d1 + d2)``), spread from the
+    deepest (farthest from both) to the shallowest; each is a shortest path
+    from A to x inside X and then a shortest path from x to B inside X that
+    avoids the first one (so it is simple).
     """
-    P = W.graph
-    m = P.number_of_edges()
     df = W.path.dart_face
     tail, head = W.tail, W.head
-    allowed = [df[2 * e] in X or df[2 * e + 1] in X for e in range(m)]
+    walks = W.path.face_walks
+    allowed: set[int] = set()
+    inside: set[int] = set()
+    for f in X:
+        for d in walks[f]:
+            allowed.add(d >> 1)
+            inside.add(tail[d])
     # the leashes and the pieces of A and B bound the region (shared pieces of the leashes included)
     for d in list(L1) + list(L2) + list(W.a.darts[i1:i2]) + list(W.b.darts[j1:j2]):
-        allowed[d >> 1] = True
-    inside: dict[int, bool] = {}
-    for f in X:
-        for d in W.path.face_walks[f]:
-            inside.setdefault(tail[d], True)
+        allowed.add(d >> 1)
     out_ = _out(W)
     interior = [v for v in inside if all(df[d] in X for d in out_[v])]
     if not interior:
@@ -239,22 +276,22 @@ def middle_leash(W: Any, X: set[int], i1: int, i2: int, j1: int, j2: int, L1: Se
         t = d1[v] + d2[v]
         return abs(d1[v] - d2[v]) / t if t > 0 else 0.0
 
-    near = [v for v in cand if off(v) <= MIDDLE]
+    near = [v for v in cand if off(v) <= middle]
     if not near:
         near = sorted(cand, key=off)[:tries]
-    near.sort(key=lambda v: (min(d1[v], d2[v]), -dA[v]))
+    near.sort(key=lambda v: (min(d1[v], d2[v]), -dA[v], v))
     if len(near) > tries:  # spread over the depths, the deepest included
-        step = (len(near) - 1) / (tries - 1) if tries > 1 else 0
-        near = [near[round(k * step)] for k in range(tries)] if tries > 1 else [near[-1]]
+        if tries > 1:
+            step = (len(near) - 1) / (tries - 1)
+            near = [near[round(k * step)] for k in range(tries)]
+        else:
+            near = [near[-1]]
     out: list[tuple[int, int, tuple]] = []
     seen: set = set()
     for v in reversed(near):
         up = _trace(pA, tail, v)
-        block = [False] * P.number_of_vertices()
-        for d in up:
-            block[tail[d]] = True
-        ok = [allowed[e] and not block[tail[2 * e]] and not block[head[2 * e]] for e in range(m)]
-        dB, pB, tB = _restricted(W, ok, {u: k for u, k in srcB.items() if not block[u]})
+        block = {tail[d] for d in up}
+        dB, pB, tB = _restricted(W, allowed, srcB, block)
         if v not in dB:
             continue
         down = [d ^ 1 for d in reversed(_trace(pB, tail, v))]
@@ -266,11 +303,28 @@ def middle_leash(W: Any, X: set[int], i1: int, i2: int, j1: int, j2: int, L1: Se
     return out
 
 
-def split_sweep(W: Any, *, leaf: int = LEAF_FACES, deadline: float | None = None,
-                tries: int = CANDIDATES) -> tuple[float, dict] | None:
+def split_sweep(W: Any, *, leaf: int | None = None, deadline: float | None = None, tries: int = CANDIDATES,
+                middle: float = MIDDLE, balance: float = BALANCE) -> tuple[float, dict] | None:
     """A leash sweep by recursive splitting (see the module docstring); ``(width, witness)`` or None.
 
-    The witness is not replayed here (the caller does that).
+    Parameters
+    ----------
+    W : WidthProblem
+    leaf : int, optional
+        Regions of at most this many faces are crossed directly (default :func:`leaf_size`).
+    deadline : float, optional
+        ``time.monotonic()`` value; None is returned when it passes.
+    tries, middle, balance
+        Candidates per region, how far from halfway a middle vertex may be,
+        and the least share of faces on each side of a balanced split (the
+        shortest middle leash among balanced splits is taken, else the most
+        balanced split).
+
+    Returns
+    -------
+    (width, witness) or None
+        None when a crossing cannot be constructed (the witness is not
+        replayed here: the caller does that).
 
     Examples
     --------
@@ -282,68 +336,218 @@ def split_sweep(W: Any, *, leaf: int = LEAF_FACES, deadline: float | None = None
     >>> split_sweep(W)[0]
     4.0
     """
-    tail = W.tail
+    frames = keyframes(W, leaf=leaf, deadline=deadline, tries=tries, middle=middle, balance=balance)
+    if frames is None:
+        return None
+    return realise(W, frames, deadline)
+
+
+def keyframes(W: Any, *, leaf: int | None = None, deadline: float | None = None, tries: int = CANDIDATES,
+              middle: float = MIDDLE, balance: float = BALANCE) -> list[tuple[int, int, tuple]] | None:
+    """The leashes ``(i, j, darts)`` the split sweep passes through, start and end included (None at the deadline)."""
+    if leaf is None:
+        leaf = leaf_size(W)
     A, B = W.a.darts, W.b.darts
-    p, q = W.p, W.q
 
     def closed(i1: int, j1: int, L1: Sequence[int], i2: int, j2: int, L2: Sequence[int]) -> list[int]:
         return (list(L1) + list(B[j1:j2]) + [d ^ 1 for d in reversed(L2)]
                 + [d ^ 1 for d in reversed(A[i1:i2])])
 
-    # keyframes by an explicit stack: (i1, j1, L1) .. (i2, j2, L2) with the region between
     frames: list[tuple[int, int, tuple]] = [(0, 0, tuple(W.start.darts))]
-    stack = [(p, q, tuple(W.end.darts))]
+    top = (W.p, W.q, tuple(W.end.darts))
+    stack: list[tuple[tuple[int, int, tuple], set[int] | None]] = [
+        (top, region_faces(W, closed(0, 0, frames[0][2], *top)))]
     while stack:
         if deadline is not None and time.monotonic() > deadline:
             return None
         i1, j1, L1 = frames[-1]
-        i2, j2, L2 = stack[-1]
-        X = region_faces(W, closed(i1, j1, L1, i2, j2, L2))
+        (i2, j2, L2), X = stack[-1]
         best = None
         if X is not None and len(X) > leaf:
-            for i, j, M in middle_leash(W, X, i1, i2, j1, j2, L1, L2, tries=tries):
-                X1 = region_faces(W, closed(i1, j1, L1, i, j, M))
-                X2 = region_faces(W, closed(i, j, M, i2, j2, L2))
-                if X1 is None or X2 is None or not X1 or not X2 or len(X1) >= len(X) or len(X2) >= len(X):
+            for i, j, M in middle_leash(W, X, i1, i2, j1, j2, L1, L2, tries=tries, middle=middle):
+                X1 = region_faces(W, closed(i1, j1, L1, i, j, M), X)
+                if X1 is None or not X1 or len(X1) >= len(X):
                     continue
-                if len(X1) + len(X2) != len(X) or X1 | X2 != X:  # the middle leash leaves the region
+                X2 = X - X1
+                # the rest must be exactly the region between M and L2 (M stays inside X)
+                if region_faces(W, closed(i, j, M, i2, j2, L2), X) != X2:
                     continue
                 share = min(len(X1), len(X2)) / len(X)
-                key = (share < BALANCE, W.length_of(M) if share >= BALANCE else -share)
+                key = (share < balance, W.length_of(M) if share >= balance else -share)
                 if best is None or key < best[0]:
-                    best = (key, (i, j, M))
+                    best = (key, (i, j, M), X1, X2)
         if best is not None:
-            stack.append(best[1])
+            _, mid, X1, X2 = best
+            stack[-1] = ((i2, j2, L2), X2)
+            stack.append((mid, X1))
         else:
-            frames.append(stack.pop())
-    return _realise(W, frames, deadline)
+            frames.append(stack.pop()[0])
+    return frames
 
 
-def _realise(W: Any, frames: list[tuple[int, int, tuple]], deadline: float | None) -> tuple[float, dict] | None:
-    """Walk through the keyframe leashes: steps to their indices, then a constructed homotopy onto each."""
-    H0 = W.path
-    rank = bfs_rank(H0)
-    s = W.initial()
+def _steps(W: Any, s: Any, i: int, j: int) -> tuple[Any, list, float]:
+    """Forward endpoint steps from state s to indices (i, j), A first: (state, moves, widest leash)."""
     moves: list = []
     width = W.length_of(s.darts)
-    for i, j, L in frames[1:]:
-        for walk, to, cur in (("a", i, s.i), ("b", j, s.j)):
-            for k in range(cur + 1, to + 1):
-                mv = {"op": "step", "walk": walk, "to": k}
-                s = W.step(s, walk, k)
-                moves.append(mv)
-                width = max(width, W.length_of(s.darts))
-        if s.darts == tuple(L):
-            continue
-        H = dataclasses.replace(H0, start=Curve(s.darts, s.vertex), end=Curve(tuple(L), s.vertex))
-        got = construct_homotopy(H, rank, greedy=True, deadline=deadline)
+    for walk, to, cur in (("a", i, s.i), ("b", j, s.j)):
+        for k in range(cur + 1, to + 1):
+            s = W.step(s, walk, k)
+            moves.append({"op": "step", "walk": walk, "to": k})
+            width = max(width, W.length_of(s.darts))
+    return s, moves, width
+
+
+def crossing(W: Any, s: Any, target: tuple[int, int, tuple], rank: Sequence[float],
+             deadline: float | None) -> tuple[float, list] | None:
+    """Moves from state s to the leash ``target = (i, j, darts)``: steps, then a greedy constructed homotopy.
+
+    Returns ``(widest leash, moves)`` or None when the homotopy cannot be constructed.
+    """
+    i, j, L = target
+    s, moves, width = _steps(W, s, i, j)
+    if s.darts == tuple(L):
+        return width, moves
+    H = dataclasses.replace(W.path, start=Curve(s.darts, s.vertex), end=Curve(tuple(L), s.vertex))
+    got = construct_homotopy(H, rank, greedy=True, deadline=deadline)
+    if got is None:
+        return None
+    return max(width, got[0]), moves + list(got[1]["moves"])
+
+
+def realise(W: Any, frames: list[tuple[int, int, tuple]], deadline: float | None) -> tuple[float, dict] | None:
+    """Walk through the keyframe leashes: steps to their indices, then a constructed homotopy onto each."""
+    segs = crossings(W, frames, deadline)
+    if segs is None:
+        return None
+    return join(W, segs)
+
+
+def crossings(W: Any, frames: list[tuple[int, int, tuple]], deadline: float | None) -> list[tuple[float, list]] | None:
+    """One ``(widest leash, moves)`` per pair of consecutive keyframes (None when one cannot be built)."""
+    rank = bfs_rank(W.path)
+    out = []
+    for (i1, j1, L1), target in zip(frames, frames[1:]):
+        s = _state(W, i1, j1, L1)
+        got = crossing(W, s, target, rank, deadline)
         if got is None:
             return None
-        h, wit = got
-        moves.extend(wit["moves"])
-        width = max(width, h)
-        s = dataclasses.replace(s, darts=tuple(L))
-    if not W.is_final(s):
-        return None
+        out.append(got)
+    return out
+
+
+def _state(W: Any, i: int, j: int, L: tuple) -> WidthState:
+    return WidthState(i, j, tuple(L), W.tail[L[0]] if L else W.a_vertices[i])
+
+
+def join(W: Any, segs: list[tuple[float, list]]) -> tuple[float, dict]:
+    """The whole sweep from its crossings: ``(width, witness)``."""
+    width = max([W.length_of(W.start.darts)] + [h for h, _ in segs])
+    moves = [mv for _, ms in segs for mv in ms]
     return width, {"start": W.leash_json(W.start.darts, W.start.vertex), "moves": moves}
 
+
+#: the local improvement re-solves windows of at most this many faces exactly
+WINDOW_FACES = 60
+#: seconds per exact re-solve of a window
+WINDOW_SECONDS = 0.5
+
+
+def sub_problem(W: Any, first: tuple[int, int, tuple], last: tuple[int, int, tuple]) -> tuple[Any, set[int]] | None:
+    """The width problem from leash ``first`` to leash ``last`` inside the region between them.
+
+    Walks ``A[i1..i2]`` and ``B[j1..j2]``, start ``first``, end ``last``, every
+    face outside the region a hole; the options of W otherwise.  Returns
+    ``(problem, region)`` or None when the region is not defined.
+    """
+    from ...errors import SweepwidthError
+    from ...problems.width import WidthProblem
+
+    (i1, j1, L1), (i2, j2, L2) = first, last
+    A, B = W.a.darts, W.b.darts
+    cl = list(L1) + list(B[j1:j2]) + [d ^ 1 for d in reversed(L2)] + [d ^ 1 for d in reversed(A[i1:i2])]
+    X = region_faces(W, cl)
+    if X is None:
+        return None
+    P = W.graph
+    lab = P.label
+    holes = [f for f in range(P.number_of_faces()) if f not in X]
+    try:
+        S = WidthProblem.build(P, {"vertex": lab(W.a_vertices[i1]), "darts": list(A[i1:i2])},
+                               {"vertex": lab(W.b_vertices[j1]), "darts": list(B[j1:j2])},
+                               start={"vertex": lab(W.a_vertices[i1]), "darts": list(L1)},
+                               end={"vertex": lab(W.a_vertices[i2]), "darts": list(L2)},
+                               holes=holes, spikes=W.spikes, simple=W.simple, weight=W.weight)
+    except SweepwidthError:
+        return None
+    return S, X
+
+
+def improve(W: Any, frames: list[tuple[int, int, tuple]], segs: list[tuple[float, list]], *,
+            deadline: float | None, window_faces: int = WINDOW_FACES,
+            seconds: float = WINDOW_SECONDS) -> tuple[list, list, dict]:
+    """Local improvement: re-solve windows of crossings around the widest one exactly.
+
+    The widest crossing, then the window of crossings ``k - r .. k + r``
+    around it (``r = 0, 1, ...`` while the window's region has at most
+    ``window_faces`` faces) is solved by the exact search of :mod:`.exact`
+    as a width problem of its own (:func:`sub_problem`), asked only for a
+    sweep narrower than the current width; the first narrower one replaces
+    the window's crossings (and the keyframes inside it).  Stops when no
+    widest crossing can be narrowed or at the deadline.
+
+    Returns ``(frames, segs, stats)``.
+    """
+    from .exact import search_width
+
+    frames, segs = list(frames), list(segs)
+    stats = {"windows": 0, "narrowed": 0}
+    stuck: set = set()
+    while segs:
+        if deadline is not None and time.monotonic() > deadline:
+            break
+        w = max(h for h, _ in segs)
+        ks = [k for k, (h, _) in enumerate(segs) if h >= w - 1e-9]
+        done = False
+        for k in ks:
+            for r in range(0, len(segs)):
+                lo, hi = max(0, k - r), min(len(segs), k + 1 + r)
+                if r and lo == 0 and hi == len(segs) and r > 1:
+                    break
+                key = (frames[lo], frames[hi])
+                if key in stuck:
+                    continue
+                got = sub_problem(W, frames[lo], frames[hi])
+                if got is None or len(got[1]) > window_faces:
+                    break
+                S, _ = got
+                now = time.monotonic()
+                if deadline is not None and now > deadline:
+                    return frames, segs, stats
+                until = now + seconds if deadline is None else min(deadline, now + seconds)
+                stats["windows"] += 1
+                ends = max(W.length_of(frames[lo][2]), W.length_of(frames[hi][2]))
+                try:
+                    out = search_width(S, lower=ends, upper=w, deadline=until)
+                except Exception:  # noqa: BLE001 - a window that cannot be searched is left as it is
+                    stuck.add(key)
+                    continue
+                if out.witness is None or out.upper is None or out.upper >= w - 1e-9:
+                    stuck.add(key)
+                    continue
+                i1, j1 = frames[lo][0], frames[lo][1]
+                moves = []
+                for mv in out.witness["moves"]:
+                    mv = dict(mv)
+                    if mv.get("op") == "step":
+                        mv["to"] = int(mv["to"]) + (i1 if mv["walk"] == "a" else j1)
+                    moves.append(mv)
+                frames[lo + 1:hi] = []
+                segs[lo:hi] = [(float(out.upper), moves)]
+                stats["narrowed"] += 1
+                done = True
+                break
+            if done:
+                break
+        if not done:
+            break
+    return frames, segs, stats
