@@ -9,21 +9,32 @@ faces, width, seconds of ours and of the reference, the ratio, and whether
 the values agree and the witness replays.  Larger disks (up to 40 faces)
 are solved by ours alone with a 10 s limit.
 
-Part 2 (bounds): disks of about 500 faces; ``method='bounds'`` with a 60 s
-limit; columns: lower, upper, gap (upper / lower - 1), seconds, replay.
+Part 2 (bounds): disks of about 500 faces (``disk(270, seed)``);
+``method='bounds'`` with a 60 s limit (``--time-limit``), the code before the
+split sweeps (commit ``d57dc19``, exported with ``git archive`` into a
+temporary directory first on the child's ``PYTHONPATH``) and this tree, each
+in its own child process, one after the other, in the same run.  Columns:
+lower, upper, both gaps (``upper / lower - 1`` and ``(upper - lower) /
+upper``), seconds, whether both witnesses replay, where the new upper bound
+came from; then the median gaps and their ratio old / new.
 
 Usage::
 
     python benchmarks/width.py            # quick
-    python benchmarks/width.py --full     # more seeds, the 500-face rows with 60 s limits
+    python benchmarks/width.py --full     # more seeds (1, 2, 3 for the 500-face rows)
+    python benchmarks/width.py --part bounds --seeds 1,2,3 --time-limit 60
 """
 
 from __future__ import annotations
 
 import argparse
+import json
 import os
 import random
+import statistics
+import subprocess
 import sys
+import tempfile
 import time
 
 sys.path.insert(0, os.path.join(os.path.dirname(os.path.abspath(__file__)), "..", "tests"))
@@ -88,30 +99,107 @@ def exact_rows(full: bool) -> None:
               f"{s:.2f} s states={r.stats.get('search', {}).get('states')} replay={r.check(P) == r.upper}", flush=True)
 
 
-def bound_rows(full: bool) -> None:
-    print("bounds on large disks")
-    rows = [(270, 1)] + ([(270, 2), (270, 3)] if full else [])
-    for n, seed in rows:
-        P, a, b = disk(n, seed)
-        t = time.perf_counter()
-        r = sw.homotopy_width(P, a, b, method="bounds", time_limit=60)
-        s = time.perf_counter() - t
-        gap = r.upper / r.lower - 1 if r.upper is not None else float("inf")
-        print(f"delaunay-{n}-{seed} faces={P.number_of_faces() - 1} p={r.stats['p']} q={r.stats['q']} "
-              f"lower={r.lower:g} upper={r.upper} gap={100 * gap:.1f}% {s:.1f} s "
-              f"replay={r.check(P) == r.upper if r.upper is not None else None} upper from: {r.stats['bounds']['upper']}",
-              flush=True)
+BASELINE_COMMIT = "d57dc19"  # the constructions before the split sweeps
+
+# the child: builds disk(points, seed) with this file's disk() and runs method='bounds' on it
+CHILD = r"""
+import json, sys, time
+sys.path.insert(0, sys.argv[1])
+from width import disk
+import sweepwidth as sw
+n, seed, limit = int(sys.argv[2]), int(sys.argv[3]), float(sys.argv[4])
+P, a, b = disk(n, seed)
+t = time.monotonic()
+r = sw.homotopy_width(P, a, b, method="bounds", time_limit=limit)
+wall = time.monotonic() - t
+replay = None if r.upper is None else r.check(P) == r.upper
+print("RESULT " + json.dumps({"faces": P.number_of_faces() - 1, "p": r.stats["p"], "q": r.stats["q"],
+                              "lower": r.lower, "upper": r.upper, "wall": wall, "replay": replay,
+                              "source": r.stats["bounds"]["upper"]}))
+"""
+
+
+def _export_old(tmp: str) -> str:
+    dest = os.path.join(tmp, "old")
+    os.makedirs(dest)
+    root = os.path.dirname(os.path.dirname(os.path.abspath(__file__)))
+    archive = subprocess.run(["git", "-C", root, "archive", BASELINE_COMMIT, "sweepwidth"], check=True,
+                             capture_output=True).stdout
+    subprocess.run(["tar", "-x", "-C", dest], input=archive, check=True)
+    return dest
+
+
+def _child(pythonpath: str, n: int, seed: int, limit: float) -> dict:
+    here = os.path.dirname(os.path.abspath(__file__))
+    env = dict(os.environ, PYTHONPATH=pythonpath)
+    try:
+        p = subprocess.run([sys.executable, "-c", CHILD, here, str(n), str(seed), str(limit)], capture_output=True,
+                           text=True, env=env, cwd=tempfile.gettempdir(), timeout=3 * limit + 120)
+    except subprocess.TimeoutExpired:
+        return {"error": "no answer"}
+    for line in p.stdout.splitlines():
+        if line.startswith("RESULT "):
+            return json.loads(line[len("RESULT "):])
+    return {"error": ((p.stderr.strip().splitlines() or ["no output"])[-1])[:80]}
+
+
+def _gaps(d: dict) -> tuple[float, float]:
+    """(upper / lower - 1, (upper - lower) / upper), in per cent."""
+    lo, up = d.get("lower"), d.get("upper")
+    if lo is None or up is None or not lo or not up:
+        return float("inf"), float("inf")
+    return 100.0 * (up / lo - 1.0), 100.0 * (up - lo) / up
+
+
+def bound_rows(full: bool, limit: float, seeds: list[int], points: list[int]) -> None:
+    """Before (commit ``BASELINE_COMMIT``, exported with git archive) and after, each in its own child, same run."""
+    print(f"bounds on large disks: method='bounds', {limit:g} s; old = {BASELINE_COMMIT}, new = this tree")
+    print("gap1 = upper / lower - 1, gap2 = (upper - lower) / upper (per cent)")
+    head = (f"{'instance':>18} {'faces':>5} {'p,q':>5} | {'old lo':>6} {'old up':>6} {'gap1':>6} {'gap2':>6} {'s':>5} | "
+            f"{'new lo':>6} {'new up':>6} {'gap1':>6} {'gap2':>6} {'s':>5} replay  upper from (new)")
+    print(head)
+    here_root = os.path.dirname(os.path.dirname(os.path.abspath(__file__)))
+    new_gaps, old_gaps = [], []
+    with tempfile.TemporaryDirectory() as tmp:
+        old_path = _export_old(tmp)
+        for n in points:
+            for seed in seeds:
+                old = _child(old_path, n, seed, limit)
+                new = _child(here_root, n, seed, limit)
+                if "error" in old or "error" in new:
+                    print(f"delaunay-{n}-{seed}: old {old.get('error', 'ok')} / new {new.get('error', 'ok')}")
+                    continue
+                og, ng = _gaps(old), _gaps(new)
+                old_gaps.append(og)
+                new_gaps.append(ng)
+                print(f"{f'delaunay-{n}-{seed}':>18} {new['faces']:>5} {str(new['p']) + ',' + str(new['q']):>5} | "
+                      f"{old['lower']:>6g} {old['upper'] if old['upper'] is not None else '-':>6} {og[0]:>6.1f} "
+                      f"{og[1]:>6.1f} {old['wall']:>5.1f} | {new['lower']:>6g} "
+                      f"{new['upper'] if new['upper'] is not None else '-':>6} {ng[0]:>6.1f} {ng[1]:>6.1f} "
+                      f"{new['wall']:>5.1f} {str(old['replay']) + '/' + str(new['replay']):>11}  {new['source']}",
+                      flush=True)
+    if new_gaps:
+        for k, name in ((0, "upper / lower - 1"), (1, "(upper - lower) / upper")):
+            o = statistics.median(g[k] for g in old_gaps)
+            nn = statistics.median(g[k] for g in new_gaps)
+            print(f"median gap ({name}): old {o:.1f} %, new {nn:.1f} %, ratio old/new "
+                  f"{(o / nn) if nn else float('inf'):.2f}")
 
 
 def main() -> None:
     ap = argparse.ArgumentParser(description=__doc__.splitlines()[0])
     ap.add_argument("--full", action="store_true")
     ap.add_argument("--part", choices=("exact", "bounds", "all"), default="all")
+    ap.add_argument("--time-limit", type=float, default=60.0, help="seconds per bounds call (default 60)")
+    ap.add_argument("--seeds", default=None, help="comma-separated disk seeds (default 1 quick, 1,2,3 full)")
+    ap.add_argument("--points", default=None, help="comma-separated disk sizes in points (default 270)")
     args = ap.parse_args()
     if args.part in ("exact", "all"):
         exact_rows(args.full)
     if args.part in ("bounds", "all"):
-        bound_rows(args.full)
+        seeds = [int(x) for x in args.seeds.split(",")] if args.seeds else ([1, 2, 3] if args.full else [1])
+        points = [int(x) for x in args.points.split(",")] if args.points else [270]
+        bound_rows(args.full, args.time_limit, seeds, points)
 
 
 if __name__ == "__main__":

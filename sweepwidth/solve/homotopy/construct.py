@@ -48,6 +48,10 @@ _EPS = 1e-9
 
 
 # ====================================================================== construction
+# the faces' edge lists for the last dart-to-face table seen (shared by problems made with dataclasses.replace)
+_LAST_ADJ: list = [None, None]
+
+
 def _chain_coefficients(problem: HomotopyProblem, a: Sequence[int], b: Sequence[int]) -> list[int] | None:
     """``c`` with ``chain(a) - chain(b) = sum c_f boundary(f)``, zero on the holes (None if impossible)."""
     m = len(problem.tail) // 2
@@ -58,10 +62,14 @@ def _chain_coefficients(problem: HomotopyProblem, a: Sequence[int], b: Sequence[
         x[d >> 1] -= 1 if d % 2 == 0 else -1
     F = problem.n_faces
     df = problem.dart_face
-    adj: list[list[int]] = [[] for _ in range(F)]
-    for e in range(m):
-        adj[df[2 * e]].append(e)
-        adj[df[2 * e + 1]].append(e)
+    if _LAST_ADJ[0] is df:
+        adj: list[list[int]] = _LAST_ADJ[1]
+    else:
+        adj = [[] for _ in range(F)]
+        for e in range(m):
+            adj[df[2 * e]].append(e)
+            adj[df[2 * e + 1]].append(e)
+        _LAST_ADJ[:] = [df, adj]
     holes = problem.holes
     root = min(holes) if holes else 0
     c: list[int | None] = [None] * F
@@ -99,13 +107,31 @@ class _Run:
         self.face, self.pos, self.take, self.right, self.gain = face, pos, take, right, gain
 
 
+# the face lengths and whether every cost is an integer, for the last (cost, face walks) pair seen:
+# problems made by dataclasses.replace share these tuples, so repeated constructions skip the O(F) work
+_LAST_COSTS: list = [None, None, None, False]
+
+
+def _cost_facts(problem: HomotopyProblem) -> tuple[list[float], bool]:
+    last = _LAST_COSTS
+    if last[0] is not problem.cost or last[1] is not problem.face_walks:
+        cost = problem.cost
+        last[:] = [cost, problem.face_walks, [sum(cost[d] for d in w) for w in problem.face_walks],
+                   all(float(x).is_integer() for x in cost)]
+    return last[2], last[3]
+
+
+def _face_lengths(problem: HomotopyProblem) -> list[float]:
+    return _cost_facts(problem)[0]
+
+
 class _Sweeper:
     """Greedy face-by-face sweep of one curve (see the module docstring)."""
 
     def __init__(self, problem: HomotopyProblem, deadline: float | None) -> None:
         self.H = problem
         self.deadline = deadline
-        self.face_len = [sum(problem.cost[d] for d in w) for w in problem.face_walks]
+        self.face_len = _face_lengths(problem)
 
     # -- lengths
     def length(self, darts: Sequence[int]) -> float:
@@ -949,7 +975,7 @@ def construct_homotopy(
             height = max(height, _replay_height(H, end, red))
     elif W.darts:
         return None
-    if not all(float(x).is_integer() for x in H.cost):
+    if not _cost_facts(H)[1]:
         # lengths were updated incrementally: recompute them exactly as sums along each walk
         height = _replay_height(H, H.start, moves)
     witness = {"start": H.to_json(H.start), "moves": moves}

@@ -146,15 +146,18 @@ def construct_sweep(
 IMPROVE_SECONDS = 10.0
 #: split variants improved locally (the narrowest ones)
 IMPROVE_TOP = 3
+#: up to this many faces the first split sweep comes first (above, the faster older constructions do)
+SPLIT_FIRST_FACES = 2000
 
 
 def best_constructed(W: Any, *, deadline: float | None = None,
                      lower: float | None = None) -> tuple[float, dict, str] | None:
     """The narrowest replayed sweep over the constructions: ``(width, witness, variant)``.
 
-    Order: the split sweep of :mod:`.splitting` (first variant), the
-    shortest-leash sweeps of :func:`construct_sweep`, the coned height
-    construction, the other split variants, then the local improvement of
+    Order: the split sweep of :mod:`.splitting` (first variant; on graphs
+    of more than ``SPLIT_FIRST_FACES`` faces after the next two, which are
+    faster there), the shortest-leash sweeps of :func:`construct_sweep`, the
+    coned height construction, the other split variants, then the local improvement of
     the narrowest split sweeps (exact re-solves of windows around their
     widest crossing) in the time left (``IMPROVE_SECONDS`` without a
     deadline).  Every witness is replayed by the independent checker
@@ -204,7 +207,9 @@ def best_constructed(W: Any, *, deadline: float | None = None,
         if w is not None:
             frames_of.append((w, v, fr, segs))
 
-    run_split(splitting.VARIANTS[0])
+    split_first = W.graph.number_of_faces() <= SPLIT_FIRST_FACES
+    if split_first:
+        run_split(splitting.VARIANTS[0])
     path = frechet_bound(W, leash_distances(W))[1]
     scale = max([c for c in W.cost if c > 0], default=1.0)
     for from_b, slack in [(False, 0.0), (True, 0.0), (False, 2 * scale), (True, 2 * scale), (False, 5 * scale)]:
@@ -222,7 +227,7 @@ def best_constructed(W: Any, *, deadline: float | None = None,
         except Exception:  # noqa: BLE001 - a failed variant is skipped, never trusted
             got = None
         consider(got, "height construction on the coned instance, translated back")
-    for v in splitting.VARIANTS[1:]:
+    for v in splitting.VARIANTS[1:] if split_first else splitting.VARIANTS:
         if late() or met():
             break
         run_split(v)
