@@ -248,6 +248,56 @@ def test_memory_estimate_refuses_tiny_budget():
         search_width(W, max_memory=1000)
 
 
+def _deep_size(obj, seen):
+    if id(obj) in seen:
+        return 0
+    seen.add(id(obj))
+    n = sys.getsizeof(obj)
+    if isinstance(obj, (list, tuple)):
+        n += sum(_deep_size(x, seen) for x in obj)
+    return n
+
+
+@pytest.mark.parametrize("points", [30, 120])
+def test_memory_estimate_of_the_walk_space_against_its_measured_size(points):
+    # the a-priori table estimate against sys.getsizeof over the compiled walk space actually built
+    from sweepwidth.solve.width.exact import memory_estimate, walk_space
+
+    P = generators.delaunay(points, seed=1)
+    cyc = _cycle(P)
+    n = len(cyc)
+    W = WidthProblem.build(P, {"vertices": cyc[: n // 3]}, {"vertices": cyc[n // 2: n // 2 + n // 3][::-1]})
+    sp = walk_space(W)
+    seen: set = set()
+    measured = sum(_deep_size(getattr(sp, k), seen) for k in ("tail", "head", "dlen", "face", "idx", "ridx", "CC",
+                                                              "RCC", "flen", "out", "hole", "fweight", "tree"))
+    est = memory_estimate(W)
+    assert 0.5 * est["tables"] <= measured <= 1.5 * est["tables"]
+    assert est["least"] == est["tables"] + est["cells"] * est["per_state"]
+
+
+def test_search_refusal_names_the_bytes_needed_and_auto_keeps_its_bounds():
+    # instances/leashes/reflip-delaunay-1010: the bounds leave a gap, so 'auto' would search
+    from sweepwidth.solve.width.exact import memory_estimate
+
+    here = os.path.join(os.path.dirname(__file__), "..", "instances", "leashes", "reflip-delaunay-1010.json")
+    P = sw.read(here)
+    c = P.meta["curves"]
+    kw = {"start": c["start"], "end": c["end"]}
+    full = sw.homotopy_width(P, c["a"], c["b"], method="bounds", **kw)
+    assert full.upper is not None and full.lower < full.upper
+    W = WidthProblem.build(P, c["a"], c["b"], **kw)
+    least = memory_estimate(W, full.upper)["least"]
+    with pytest.raises(ProblemTooLargeError, match=f"at least {least} bytes"):
+        sw.homotopy_width(P, c["a"], c["b"], method="search", max_memory=least - 1, **kw)
+    r = sw.homotopy_width(P, c["a"], c["b"], method="auto", max_memory=least - 1, **kw)
+    assert r.status == "bounded" and (r.lower, r.upper) == (full.lower, full.upper)
+    assert r.check(P) == r.upper
+    assert "max_memory" in r.stats["auto"]["reason"] and r.stats["auto"]["choice"] == "bounds"
+    ok = sw.homotopy_width(P, c["a"], c["b"], method="auto", max_memory=least + 10**6, **kw)
+    assert ok.status == "optimal"
+
+
 def test_time_limit_returns_bounds():
     P = generators.delaunay(60, seed=3)
     cyc = _cycle(P)

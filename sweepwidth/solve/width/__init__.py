@@ -49,7 +49,7 @@ from ..homotopy.free_group import FreeGroup
 from .bounds import frechet_bound, leash_distances, passage_bound
 from .coning import homology_lower
 from .construct import best_constructed
-from .exact import DEFAULT_MAX_MEMORY, search_width
+from .exact import DEFAULT_MAX_MEMORY, memory_estimate, search_width
 
 __all__ = ["homotopy_width", "solve_problem", "METHODS", "classes_match"]
 
@@ -130,7 +130,7 @@ def homotopy_width(
     seed : int, optional
         Non-negative integer; recorded in the stats (the constructions are deterministic).
     max_memory : int
-        Bytes the exact search may use for its states.
+        Bytes the exact search may use for its walk space and states.
 
     Returns
     -------
@@ -151,7 +151,9 @@ def homotopy_width(
         A time limit, seed, weight or ``max_memory`` of the wrong kind (the
         rules of :mod:`sweepwidth.solve.contract`).
     ProblemTooLargeError
-        'search' when ``max_memory`` cannot hold one state per index pair.
+        'search' when ``max_memory`` cannot hold the compiled walk space and
+        one state per index pair (:func:`.exact.memory_estimate`); 'auto'
+        then keeps its bounds and witness and says so in ``stats['auto']``.
 
     Notes
     -----
@@ -283,6 +285,12 @@ def _method_auto(st: _State) -> None:
         st.stats["auto"] = (f"exact search skipped: {nf} sweepable faces > {AUTO_SEARCH_FACES} and no time limit"
                             if not zero else
                             "exact search skipped: zero-weight edges and no time limit (see sweepwidth.solve.width.exact)")
+        return
+    est = memory_estimate(W, st.upper)
+    if est["least"] > st.max_memory:
+        st.stats["auto"] = (f"exact search skipped: it needs at least {est['least']} bytes (walk space and one state "
+                            f"per index pair), more than max_memory={st.max_memory}; the bounds stand")
+        st.stats["search"] = {"reason": "memory estimate above max_memory", "least_bytes": est["least"]}
         return
     st.stats["auto"] = "bounds, then the exact search " + ("in the time left" if at is not None else f"({nf} faces)")
     _method_search(st, constructions=False)

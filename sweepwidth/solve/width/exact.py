@@ -33,12 +33,17 @@ proven bounds.
 
 Memory
 ------
-Each stored state costs about ``STATE_BYTES + 8 * darts`` bytes (the tuple,
-two dictionary entries and a heap entry).  Before the search starts the
-state limit is set to ``max_memory`` divided by this cost for the longest
-leash below the upper bound; the search stops with its bounds when it is
-reached (``stats['reason']``), and raises :class:`ProblemTooLargeError`
-up front when ``max_memory`` cannot even hold one state per index pair.
+:func:`memory_estimate` is worked out before anything is allocated: the
+compiled walk space (about ``TABLE_BYTES_PER_DART`` bytes per dart: ten flat
+per-dart lists and the doubled face walks, plus ``TABLE_BYTES_PER_FACE`` per
+face) and each stored state at about ``STATE_BYTES + 8 * darts`` bytes (the
+tuple, two dictionary entries and a heap entry) for the longest leash below
+the upper bound.  The state limit is what ``max_memory`` holds after the
+tables; the search stops with its bounds when it is reached
+(``stats['reason']``), and raises :class:`ProblemTooLargeError` up front when
+``max_memory`` cannot hold the tables and one state per index pair.  The
+dispatcher's 'auto' method then keeps its bounds and witness instead
+(``stats['search']['reason']``); 'search' asked for by name raises.
 
 References
 ----------
@@ -57,12 +62,50 @@ from typing import Any, Callable
 from ...errors import ProblemTooLargeError
 from ..homotopy.walks import WalkSpace
 
-__all__ = ["DEFAULT_MAX_MEMORY", "WidthSearchOutcome", "search_width", "walk_space"]
+__all__ = ["DEFAULT_MAX_MEMORY", "WidthSearchOutcome", "memory_estimate", "search_width", "walk_space"]
 
 #: default memory budget of the exact search (bytes)
 DEFAULT_MAX_MEMORY = 1 << 30
 #: fixed cost of one stored state (bytes, measured order of magnitude)
 STATE_BYTES = 420
+#: bytes of the compiled walk space per dart (list slots and int objects, measured order of magnitude)
+TABLE_BYTES_PER_DART = 200
+#: bytes of the compiled walk space per face (two doubled walk tuples' headers, per-face list slots)
+TABLE_BYTES_PER_FACE = 250
+
+
+def memory_estimate(W: Any, upper: float | None = None) -> dict:
+    """A priori memory of the exact search: ``{'tables', 'per_state', 'longest', 'cells', 'least'}`` in bytes.
+
+    ``tables`` is the compiled walk space, ``per_state`` one stored state
+    with the longest leash shorter than ``upper`` (``longest`` darts; without
+    an upper bound a multiple of the start, end and walk lengths), ``cells``
+    the number of index pairs and ``least`` the memory for the tables and one
+    state per index pair (below it the search is refused).
+
+    Examples
+    --------
+    >>> from sweepwidth.generators import grid
+    >>> from sweepwidth.problems.width import WidthProblem
+    >>> W = WidthProblem.build(grid(3, 3), {"vertices": [(0, 0), (0, 1), (0, 2)]},
+    ...                        {"vertices": [(2, 0), (2, 1), (2, 2)]})
+    >>> est = memory_estimate(W, upper=3.0)
+    >>> est["cells"], est["longest"], est["least"] == est["tables"] + est["cells"] * est["per_state"]
+    (9, 4, True)
+    """
+    P = W.graph
+    m, F = P.number_of_edges(), P.number_of_faces()
+    positive = [c for c in W.cost if c > 0]
+    cmin = min(positive) if positive else 1.0
+    if upper is not None and upper != float("inf"):
+        longest = int(upper / cmin) + 1
+    else:
+        longest = 4 * (len(W.start.darts) + len(W.end.darts) + W.p + W.q) + 8
+    per_state = STATE_BYTES + 8 * longest
+    tables = TABLE_BYTES_PER_DART * 2 * m + TABLE_BYTES_PER_FACE * F
+    cells = (W.p + 1) * (W.q + 1)
+    return {"tables": tables, "per_state": per_state, "longest": longest, "cells": cells,
+            "least": tables + cells * per_state}
 
 
 @dataclass
@@ -108,7 +151,8 @@ def search_width(
     deadline : float, optional
         ``time.monotonic()`` value; the bounds so far are returned then.
     max_memory : int
-        Bytes the stored states may take (see the module docstring).
+        Bytes the compiled walk space and the stored states may take (see
+        the module docstring and :func:`memory_estimate`).
     on_progress : callable, optional
         Called with ``(lower, upper)`` when a bound improves.
     allow_reflip : bool
@@ -122,7 +166,8 @@ def search_width(
     Raises
     ------
     ProblemTooLargeError
-        When ``max_memory`` cannot hold one state for each index pair.
+        When ``max_memory`` cannot hold the walk space and one state for
+        each index pair (the message names the bytes needed).
 
     Examples
     --------
@@ -135,29 +180,24 @@ def search_width(
     (True, 2.0)
     """
     t0 = time.monotonic()
-    sp = walk_space(W)
     p, q = W.p, W.q
+    ex = 1 if W.weight == "vertices" else 0
+    backward, simple = W.backward, W.simple
+    est = memory_estimate(W, upper)
+    per_state, cells = est["per_state"], est["cells"]
+    max_states = int(max(0, max_memory - est["tables"]) // per_state)
+    if max_states < cells:
+        raise ProblemTooLargeError(
+            f"homotopy width search: max_memory={max_memory} bytes holds the compiled walk space (about "
+            f"{est['tables']} bytes) and {max_states} states of about {per_state} bytes, fewer than the "
+            f"{cells} index pairs; it needs at least {est['least']} bytes: raise max_memory or use method='bounds'"
+        )
+    stats: dict = {"max_states": max_states, "bytes_per_state": per_state, "table_bytes": est["tables"]}
+    sp = walk_space(W)
     A, B = W.a.darts, W.b.darts
     av = W.a_vertices
     tail = sp.tail
     dl = sp.dlen
-    ex = 1 if W.weight == "vertices" else 0
-    backward, simple = W.backward, W.simple
-    positive = [c for c in W.cost if c > 0]
-    cmin = min(positive) if positive else 1.0
-    if upper is not None:
-        longest = int(upper / cmin) + 1
-    else:
-        longest = 4 * (len(W.start.darts) + len(W.end.darts) + p + q) + 8
-    per_state = STATE_BYTES + 8 * longest
-    max_states = int(max_memory // per_state)
-    cells = (p + 1) * (q + 1)
-    if max_states < cells:
-        raise ProblemTooLargeError(
-            f"homotopy width search: max_memory={max_memory} bytes holds {max_states} states of about "
-            f"{per_state} bytes, fewer than the {cells} index pairs; raise max_memory"
-        )
-    stats: dict = {"max_states": max_states, "bytes_per_state": per_state}
     start = (0, 0, tuple(W.start.darts)) if allow_reflip else (0, 0, tuple(W.start.darts), 0)
     goal = (p, q, tuple(W.end.darts))
 
