@@ -333,8 +333,9 @@ def split_sweep(W: Any, *, leaf: int | None = None, deadline: float | None = Non
     >>> P = grid(4, 4)
     >>> W = WidthProblem.build(P, {"vertices": [(0, 0), (0, 1), (0, 2), (0, 3)]},
     ...                        {"vertices": [(3, 0), (3, 1), (3, 2), (3, 3)]})
-    >>> split_sweep(W)[0]
-    4.0
+    >>> from sweepwidth.solve.width.exact import search_width
+    >>> split_sweep(W)[0], search_width(W).upper     # a heuristic: one more than the optimum here
+    (5.0, 4.0)
     """
     frames = keyframes(W, leaf=leaf, deadline=deadline, tries=tries, middle=middle, balance=balance)
     if frames is None:
