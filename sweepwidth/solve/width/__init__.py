@@ -6,7 +6,10 @@ The definition, the moves and the witness form are in
 * :mod:`.bounds`: proven lower bounds (leash lengths, geodesic discrete
   Fréchet distance, its grid-bottleneck form with backward steps, the
   face-passage bound);
-* :mod:`.construct`: constructed leash sweeps (upper bounds with witnesses);
+* :mod:`.construct`: constructed leash sweeps (upper bounds with witnesses),
+  the best of all constructions under a deadline;
+* :mod:`.splitting`: sweeps by recursive splitting with middle leashes and
+  their local improvement (the strongest constructions on large disks);
 * :mod:`.exact`: the exact bottleneck search over leash states;
 * :mod:`.coning`: the coned height instance and the relation to the height,
   and the homology lower bound of the closed cone (default leashes).

@@ -23,7 +23,11 @@ variant's witness is replayed by the independent checker before it is
 used.  When the walks fit the coning construction of :mod:`.coning`, the
 height dispatcher's constructions on the coned instance (spectral,
 straight-line and greedy face orders) are translated back into a leash
-sweep too (:func:`coned_construction`).
+sweep too (:func:`coned_construction`).  The split sweeps of
+:mod:`.splitting` (middle leashes through vertices halfway between two
+leashes, recursively) and their local improvement (exact re-solves of
+windows around the widest crossing) are the strongest constructions on
+large disks; :func:`best_constructed` runs them all under the deadline.
 
 Time: O(r) homotopy constructions, each O(M * L) for M moves and leashes of
 length at most L, plus ``p + q + 2`` runs of Dijkstra's algorithm.

@@ -12,19 +12,24 @@ step along A and B to the next leash's indices, and the path-form homotopy of
 :func:`sweepwidth.solve.homotopy.construct_homotopy` (greedy by length) sweeps
 the leash onto it.
 
-The middle leash runs through a vertex ``x`` of X halfway between the two
-leashes: with distances measured inside X (only edges on a face of X),
-``x`` is an interior vertex with ``|d(L1, x) - d(L2, x)|`` smallest and,
-among those, ``dA(x) + dB(x)`` smallest, where ``dA`` is the distance from
-``a_{i1} .. a_{i2}`` and ``dB`` from ``b_{j1} .. b_{j2}``.  M is the shortest
-path from A to x followed by the shortest path from x to B (inside X), freely
-reduced and with its loops cut out, so that it is a simple path from some
-``a_i`` to some ``b_j`` with ``i1 <= i <= i2`` and ``j1 <= j <= j2``.  Every
-leash of the sweep is then a shortest path through a point of the region it
-splits, so its length is about ``dA(x) + dB(x)``: the same quantity as the
-face-passage lower bound of :mod:`.bounds` (every face is flipped by a leash
-running through it, of length at least ``dA + dB`` there), measured inside
-the shrinking regions instead of the whole graph.  The width comes from the
+The middle leash runs through a vertex ``x`` of X about halfway between the
+two leashes: with distances measured inside X (the edges on a face of X and
+those of the two leashes and of the walks' pieces),
+``|d(L1, x) - d(L2, x)| <= middle * (d(L1, x) + d(L2, x))``; up to ``tries``
+such interior vertices, spread from the deepest (farthest from both
+leashes) to the shallowest, are tried.  For each, M is the shortest path
+inside X from ``a_{i1} .. a_{i2}`` to x followed by the shortest path inside
+X from x to ``b_{j1} .. b_{j2}`` that avoids the first one's vertices, so a
+simple path from some ``a_i`` to some ``b_j`` with ``i1 <= i <= i2`` and
+``j1 <= j <= j2``.  A candidate counts when it cuts X into two non-empty
+parts (the odd sides of ``L1 .. M`` and ``M .. L2`` partition X); the
+shortest M among the *balanced* ones (each part at least ``balance`` of
+X's faces) is taken, else the most balanced.  Every leash of the sweep is
+then a shortest path through a point of the region it splits, so its
+length is about ``dA(x) + dB(x)``: the same quantity as the face-passage
+lower bound of :mod:`.bounds` (every face is flipped by a leash running
+through it, of length at least ``dA + dB`` there), measured inside the
+shrinking regions instead of the whole graph.  The width comes from the
 middle leashes and the small crossings at the leaves.
 
 This is a divide-and-conquer sweep in the spirit of the separator recursion
@@ -33,6 +38,19 @@ balanced shortest-path separators and an ``O(log n)`` factor), here as a
 heuristic with a replayed witness, not an approximation guarantee.  When a
 region cannot be split (no interior vertex, a middle leash that does not
 cut it, holes inside), it is crossed directly.
+
+Local improvement
+-----------------
+:func:`improve` takes the widest crossing between two consecutive
+keyframes and re-solves the window of crossings around it (widened one
+crossing on each side at a time, up to ``WINDOW_FACES`` faces) exactly, as a
+width problem of its own: the walks' pieces between the window's ends, its
+first and last leash, every face outside the window's region a hole
+(:func:`sub_problem`).  The exact search of :mod:`.exact` is asked only for
+a sweep narrower than the current width, with ``WINDOW_SECONDS`` per window;
+a narrower one replaces the window (its step indices shifted back).  This
+repeats on the new widest crossing until none can be narrowed.  Every
+result is replayed by the caller.
 
 Time: each level of the recursion runs four restricted Dijkstra searches
 [2]_ over its region, so ``O(F log F)`` per level and about ``log F`` levels
