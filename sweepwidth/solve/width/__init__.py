@@ -63,6 +63,8 @@ AUTO_SEARCH_FACES = 40
 _EPS = 1e-9
 #: seconds for the homology lower bound when no time limit is given
 HOMOLOGY_BUDGET = 20.0
+#: seconds that must be left for the homology lower bound to start (it builds the closed cone first)
+HOMOLOGY_LEAST = 0.3
 #: share of the time limit for the constructions ('bounds'; the rest goes to the homology bound)
 CONSTRUCT_SHARE = 0.45
 
@@ -224,11 +226,13 @@ def _method_bounds(st: _State, share: float | None = None) -> None:
     if share is None:
         share = CONSTRUCT_SHARE
     sub = None if at is None else time.monotonic() + share * max(0.0, at - time.monotonic())
-    got = best_constructed(W, deadline=sub, lower=st.lower)
+    got = best_constructed(W, deadline=sub, lower=st.lower, hard_deadline=at)
     if got is not None:
         st.upper, st.witness = got[0], got[1]
         st.bounds["upper"] = f"constructed sweep ({got[2]})"
-    if st.gap():
+    if st.gap() and at is not None and dl.remaining() < HOMOLOGY_LEAST:
+        st.stats["homology"] = "not run: the time limit was reached"
+    elif st.gap():
         M = (st.upper if st.upper is not None else sum(W.cost)) + 1.0
         hdl = dl if at is not None else Deadline.from_limit(HOMOLOGY_BUDGET)
         if at is not None and share < CONSTRUCT_SHARE:  # 'auto' keeps time for the search
@@ -251,7 +255,7 @@ def _method_search(st: _State, *, constructions: bool = True) -> None:
         _passage(st)
         at = st.deadline.at
         got = best_constructed(W, deadline=None if at is None else time.monotonic() + 0.5 * max(0.0, at - time.monotonic()),
-                               lower=st.lower)
+                               lower=st.lower, hard_deadline=at)
         if got is not None:
             st.upper, st.witness = got[0], got[1]
             st.bounds["upper"] = f"constructed sweep ({got[2]})"
