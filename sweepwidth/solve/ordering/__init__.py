@@ -78,6 +78,7 @@ from .bnb import solve_bnb
 from .bounds import lower_bounds
 from .dp import DEFAULT_MAX_MEMORY, dp_estimate, solve_dp
 from .heuristics import heuristic_ordering, improve_ordering
+from .split_bound import split_bound
 
 __all__ = ["cutwidth", "solve_problem", "refine_ordering", "METHODS", "OPTIONS"]
 
@@ -89,6 +90,7 @@ _TINY_DP = 16  # 'auto' uses the DP up to this many unpinned vertices (the searc
 _SAT_MAX_N = 400  # 'auto' does not build SAT encodings (n^2 variables) above this
 _BIG = 3000  # above this many vertices 'auto' only runs bounds and heuristics
 _SAT_HARD_N = 1500  # method='sat' refuses larger graphs (the encoding alone would not fit)
+_SPLIT_MAX_N = 2000  # the split bound's integer programs grow with n + m: not above this
 
 Outcome = tuple[float, float, list[int], dict]  # lower, upper, order, stats
 
@@ -396,6 +398,15 @@ def _solve_part(P: OrderingProblem, method: Any, deadline: float | None, seed: i
         more = lower_bounds(P, deadline=deadline, which="costly")
         lbs.update(more)
         lb = max(lbs.values(), default=0.0)
+        met = lb >= hw - 1e-9
+    if not met and P.n <= _SPLIT_MAX_N and float(P.degrees().max()) > lb + 1e-9:
+        # the neighbourhood split bound: only a vertex heavier than the bound so far can raise it
+        share = min(0.1 * _left(deadline), 10.0) if deadline is not None else 1.0 + P.n / 100.0
+        sb, sinfo = split_bound(P, deadline=_sub_deadline(deadline, share), known=lb, per_vertex=max(0.2, share / 2))
+        stats["split"] = sinfo
+        if sinfo["tried"]:
+            lbs["split"] = sb
+            lb = max(lb, sb)
         met = lb >= hw - 1e-9
     if not met and improve:
         share = (0.25 if P.n <= _BIG else 0.7) * _left(deadline) if deadline is not None else 5.0 + P.n / 500.0
