@@ -111,3 +111,15 @@ def test_split_bound_respects_its_deadline():
     lb, info = split_bound(P, deadline=t)
     assert lb == 0.0 and info["tried"] == 0
     assert time.monotonic() - t < 0.5
+
+
+def test_auto_uses_the_split_bound_on_a_hub_graph():
+    # the dispatcher's flow-bound stage starts with the split bound: on Les Miserables (networkx's
+    # shipped graph, co-occurrence weights) it lifts the lower bound from the degree bound's 79
+    import sweepwidth as sw
+
+    G = nx.les_miserables_graph()
+    r = sw.cutwidth(G, time_limit=10, seed=0)
+    assert "split" in r.stats["lower_bounds"]
+    assert 105 <= r.lower <= r.upper
+    r.check(G)

@@ -35,9 +35,9 @@ Methods
                 or 'bnb' for the rest of the time.  ``stats['auto']`` says
                 what was chosen and why (``chain``: the stages run),
                 ``stats['lower_bounds']`` each lower bound's value.  The
-                bounds stage of every method except 'dp' includes the
+                flow-bound stage (here and in 'search') starts with the
                 neighbourhood split bound (:mod:`.split_bound`, up to 2000
-                vertices, a tenth of the time and at most 10 s) when some
+                vertices, at most 60 % of the stage and 10 s) when some
                 vertex is heavier than the other bounds.
 'dp'            subset dynamic programming (:mod:`.dp`), exact,
                 ``O(2^n n)`` time and ``16 * 2^n`` bytes.
@@ -139,13 +139,15 @@ _MID = 200
 
 def _flow_stage(P: OrderingProblem, lbs: dict[str, float], lb: float, ub: float, deadline: float | None,
                 seconds: float, seed: int | None) -> float:
-    """The face-walk bound, then the concurrent-flow bound, in their share of the time.
+    """The split bound, the face-walk bound, then the concurrent-flow bound, in their share of the time.
 
-    The walk bound (:func:`.carving.carving_bound`, strong on sparse planar
+    The neighbourhood split bound (:func:`.split_bound.split_bound`, up to
+    2000 vertices, when some vertex is heavier than ``lb``) gets at most 60 %
+    of ``seconds`` and 10 s; the walk bound (:func:`.carving.carving_bound`, strong on sparse planar
     graphs such as the duals of the homology reduction) gets 40 % of
     ``seconds``, the flow bound (:func:`.flow.flow_bound`) the rest; each
-    stops once it reaches ``ub``.  Records the values in ``lbs['walk']`` and
-    ``lbs['flow']``; returns the new lower bound.
+    stops once it reaches ``ub``.  Records the values in ``lbs['split']``,
+    ``lbs['walk']`` and ``lbs['flow']``; returns the new lower bound.
     """
     from .carving import carving_bound
     from .flow import flow_bound
@@ -153,6 +155,15 @@ def _flow_stage(P: OrderingProblem, lbs: dict[str, float], lb: float, ub: float,
     if seconds <= 0.05 or lb >= ub:
         return lb
     t_end = time.monotonic() + seconds
+    if P.n <= _SPLIT_MAX_N and float(P.degrees().max()) > lb + 1e-9:
+        # the neighbourhood split bound first: only a vertex heavier than the bound so far can raise it
+        share = min(0.6 * seconds, 10.0)  # it usually stops long before (one program on a hub graph)
+        sb, sinfo = split_bound(P, deadline=_sub_deadline(deadline, share), known=lb, per_vertex=max(0.2, share / 2))
+        if sinfo["tried"]:
+            lbs["split"] = sb
+            lb = max(lb, sb)
+        if lb >= ub:
+            return lb
     wb = carving_bound(P, _sub_deadline(deadline, 0.4 * seconds), upper=ub, lower=lb)
     lbs["walk"] = wb
     lb = max(lb, wb)
@@ -405,15 +416,6 @@ def _solve_part(P: OrderingProblem, method: Any, deadline: float | None, seed: i
         more = lower_bounds(P, deadline=deadline, which="costly")
         lbs.update(more)
         lb = max(lbs.values(), default=0.0)
-        met = lb >= hw - 1e-9
-    if not met and P.n <= _SPLIT_MAX_N and float(P.degrees().max()) > lb + 1e-9:
-        # the neighbourhood split bound: only a vertex heavier than the bound so far can raise it
-        share = min(0.1 * _left(deadline), 10.0) if deadline is not None else 1.0 + P.n / 100.0
-        sb, sinfo = split_bound(P, deadline=_sub_deadline(deadline, share), known=lb, per_vertex=max(0.2, share / 2))
-        stats["split"] = sinfo
-        if sinfo["tried"]:
-            lbs["split"] = sb
-            lb = max(lb, sb)
         met = lb >= hw - 1e-9
     if not met and improve:
         share = (0.25 if P.n <= _BIG else 0.7) * _left(deadline) if deadline is not None else 5.0 + P.n / 500.0
