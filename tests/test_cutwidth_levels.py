@@ -82,3 +82,16 @@ def test_level_value_rejects_uncounted_sizes():
     P = OrderingProblem.from_graph(nx.cycle_graph(5), first=0)
     with pytest.raises(InvalidArgumentError, match="level 0"):
         level_value(P, 0)
+
+
+def test_level_bound_keeps_its_deadline_on_a_graph_without_symmetry():
+    # regression: the automorphism search ran in-process and one VF2 search on the weighted Les
+    # Miserables graph (networkx's shipped graph) kept 'auto' busy 100 s past a 60 s limit
+    import time
+
+    G = nx.les_miserables_graph()
+    P = OrderingProblem.from_graph(G, weight="weight")
+    t = time.monotonic()
+    lb, info = level_bound(P, deadline=t + 8.0, max_idle=100)
+    assert time.monotonic() - t < 10.0
+    assert 0 < lb <= 141  # 141: width of an ordering found by the kick search

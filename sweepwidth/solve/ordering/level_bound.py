@@ -106,6 +106,26 @@ def symmetry_rows(problem: OrderingProblem, time_budget: float = 0.3) -> tuple[l
     return reps, ((lead, orbit) if orbit else None)
 
 
+def _symmetry_child(problem: OrderingProblem, budget: float, *, progress=None):
+    return symmetry_rows(problem, budget)
+
+
+def _symmetry_limited(problem: OrderingProblem, budget: float) -> tuple[list[int], tuple[int, list[int]] | None] | None:
+    """:func:`symmetry_rows` in a child process killed soon after ``budget`` seconds.
+
+    One VF2 search for an automorphism can run far beyond any budget (its
+    time is only checked between searches), so it never runs in this
+    process.  Returns None when the child did not finish or could not start.
+    """
+    from .._deadline import run_limited
+
+    try:
+        finished, value, _ = run_limited(_symmetry_child, (problem, budget), {}, deadline=time.monotonic() + budget + 1.5)
+    except (OSError, RuntimeError, AssertionError):
+        return None  # e.g. inside a daemonic process: no symmetry, still a valid bound
+    return value if finished else None
+
+
 def level_value(problem: OrderingProblem, i: int, time_limit: float = 10.0,
                 symmetry: tuple[list[int], tuple[int, list[int]] | None] | None = None) -> tuple[float, bool]:
     """``b(i)``: the least boundary of a counted prefix set of ``i`` vertices.
@@ -221,7 +241,9 @@ def level_bound(problem: OrderingProblem, order: Sequence[int] | None = None, *,
     Returns
     -------
     (bound, info)
-        ``info``: ``levels`` (list of ``(i, value, exact, seconds)``), ``seconds``.
+        ``info``: ``levels`` (list of ``(i, value, exact, seconds)``),
+        ``symmetry`` (whether orbit representatives were used: only with
+        more than 5 s left, found in a child process), ``seconds``.
 
     Examples
     --------
@@ -249,7 +271,8 @@ def level_bound(problem: OrderingProblem, order: Sequence[int] | None = None, *,
     else:
         cand.sort(key=lambda i: min(abs(i - n / 3), abs(i - n / 2)))
     left = (lambda: math.inf) if deadline is None else (lambda: deadline - time.monotonic())
-    sym = symmetry_rows(problem, min(0.3, max(0.0, 0.05 * left()))) if left() > 0.2 else None
+    sym = _symmetry_limited(problem, min(1.0, 0.1 * left())) if left() > 5.0 else None
+    info["symmetry"] = sym is not None
     best = 0.0
     idle = 0
     for i in cand:
