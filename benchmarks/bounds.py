@@ -17,6 +17,10 @@ Rows
   weights.
 * ``grid-100``: the 100 x 100 grid graph, cutwidth (the known value is 101:
   m + 1 for P_m x P_n, Rolim, Sykora and Vrto, WG 1995; from memory).
+* ``hypercube-6``: the hypercube Q_6 (64 vertices), cutwidth 42 =
+  floor(2^7 / 3) (Harper's edge-isoperimetric theorem, J. SIAM 1964; from
+  memory); ``grid-16``: the 16 x 16 grid, cutwidth 17 (Rolim, Sykora and
+  Vrto, as above).
 * ``bintree-8``: the complete binary tree of height 8 (cutwidth
   ceil(h/2) + 1 = 5, Lengauer 1982; from memory); ``tree-10k``: a uniformly
   random labelled tree on 10^4 vertices (networkx ``random_labeled_tree``, seed 1).
@@ -24,7 +28,8 @@ Rows
 Columns
 -------
 For each row and parameter: the current code ("new") and the code as it was
-before the bounds work (commit ``8908aee``, "old"), each in its own child
+before the bounds work (commit ``8908aee``, "old"; ``--baseline COMMIT``
+names another one), each in its own child
 process with the same time limit per parameter.  The instance is built here
 by the current code and handed to both as a JSON file (``sweepwidth.write``
 / ``read``; the old code has no ``weighted_delaunay_disk``).  The old code is
@@ -107,6 +112,8 @@ def _rows(quick: bool) -> list[tuple[str, Callable[[], Any], list[str]]]:
 
     rows.append(("lesmis", lambda: lesmis(False), ["cutwidth"]))
     rows.append(("lesmis-w", lambda: lesmis(True), ["cutwidth"]))
+    rows.append(("hypercube-6", lambda: nx.convert_node_labels_to_integers(nx.hypercube_graph(6)), ["cutwidth"]))
+    rows.append(("grid-16", lambda: nx.convert_node_labels_to_integers(nx.grid_2d_graph(16, 16)), ["cutwidth"]))
     if not quick:
         rows.append(("grid-100", lambda: nx.convert_node_labels_to_integers(nx.grid_2d_graph(100, 100)), ["cutwidth"]))
     rows.append(("bintree-8", lambda: nx.balanced_tree(2, 8), ["cutwidth"]))
@@ -114,10 +121,10 @@ def _rows(quick: bool) -> list[tuple[str, Callable[[], Any], list[str]]]:
     return rows
 
 
-def _export_old(tmp: str) -> str:
+def _export_old(tmp: str, commit: str = BASELINE_COMMIT) -> str:
     dest = os.path.join(tmp, "old")
     os.makedirs(dest)
-    archive = subprocess.run(["git", "-C", ROOT, "archive", BASELINE_COMMIT, "sweepwidth"], check=True,
+    archive = subprocess.run(["git", "-C", ROOT, "archive", commit, "sweepwidth"], check=True,
                              capture_output=True).stdout
     subprocess.run(["tar", "-x", "-C", dest], input=archive, check=True)
     return dest
@@ -160,6 +167,7 @@ def main(argv: list[str] | None = None) -> int:
     ap.add_argument("--time-limit", type=float, default=None, help="seconds per call (default 60, 10 with --quick)")
     ap.add_argument("--only", default=None, help="comma list of row-name prefixes (e.g. disk-100,lesmis)")
     ap.add_argument("--no-baseline", action="store_true", help="skip the old code's rows")
+    ap.add_argument("--baseline", default=BASELINE_COMMIT, help=f"commit of the old code (default {BASELINE_COMMIT})")
     ap.add_argument("--out", default=None, help="also write the table to this file")
     args = ap.parse_args(argv)
     limit = args.time_limit if args.time_limit is not None else (10.0 if args.quick else 60.0)
@@ -172,7 +180,7 @@ def main(argv: list[str] | None = None) -> int:
     header = ["row", "param", "new lo", "new up", "new gap%", "new s", "old lo", "old up", "old gap%", "old s", "gap ratio"]
     table: list[list[str]] = []
     with tempfile.TemporaryDirectory() as tmp:
-        old = None if args.no_baseline else _export_old(tmp)
+        old = None if args.no_baseline else _export_old(tmp, args.baseline)
         for name, build, params in rows:
             obj = build()
             path = os.path.join(tmp, f"{name}.json")
@@ -195,7 +203,7 @@ def main(argv: list[str] | None = None) -> int:
     lines = ["  ".join(h.ljust(w) for h, w in zip(header, widths)), "  ".join("-" * w for w in widths)]
     lines += ["  ".join(c.ljust(w) for c, w in zip(r, widths)) for r in table]
     text = "\n".join(lines)
-    print(f"time limit {limit:g} s per parameter; baseline commit {BASELINE_COMMIT}")
+    print(f"time limit {limit:g} s per parameter; baseline commit {args.baseline}")
     print(text)
     if args.out:
         with open(args.out, "w") as fh:

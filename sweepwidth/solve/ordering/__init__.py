@@ -25,14 +25,20 @@ Methods
                 of the time left up to 64 and from 100 to 200 vertices, else
                 15 % but at least 3 s; 10 s + n / 20 s without a limit), and if it does not
                 finish the flow bound (20 %, stopped once it reaches the
-                upper bound), the kick search (stopped once it reaches the
+                upper bound), up to 400 vertices the edge-isoperimetric
+                level bounds (:mod:`.level_bound`, a quarter of the time
+                left), the kick search (stopped once it reaches the
                 lower bound; a quarter of the time and at most
                 0.5 + n / 40 s before 'sat', 60 % above 400 vertices), then
                 'sat' (integral weights, or rationals with a small common
                 denominator, up to 400 vertices, with at least 1.5 s left)
                 or 'bnb' for the rest of the time.  ``stats['auto']`` says
                 what was chosen and why (``chain``: the stages run),
-                ``stats['lower_bounds']`` each lower bound's value.
+                ``stats['lower_bounds']`` each lower bound's value.  The
+                flow-bound stage (here and in 'search') starts with the
+                neighbourhood split bound (:mod:`.split_bound`, up to 2000
+                vertices, at most 60 % of the stage and 10 s) when some
+                vertex is heavier than the other bounds.
 'dp'            subset dynamic programming (:mod:`.dp`), exact,
                 ``O(2^n n)`` time and ``16 * 2^n`` bytes.
 'bnb'           threshold search over prefix sets (:mod:`.bnb`),
@@ -78,6 +84,7 @@ from .bnb import solve_bnb
 from .bounds import lower_bounds
 from .dp import DEFAULT_MAX_MEMORY, dp_estimate, solve_dp
 from .heuristics import heuristic_ordering, improve_ordering
+from .split_bound import split_bound
 
 __all__ = ["cutwidth", "solve_problem", "refine_ordering", "METHODS", "OPTIONS"]
 
@@ -89,6 +96,8 @@ _TINY_DP = 16  # 'auto' uses the DP up to this many unpinned vertices (the searc
 _SAT_MAX_N = 400  # 'auto' does not build SAT encodings (n^2 variables) above this
 _BIG = 3000  # above this many vertices 'auto' only runs bounds and heuristics
 _SAT_HARD_N = 1500  # method='sat' refuses larger graphs (the encoding alone would not fit)
+_LEVEL_MAX_N = 400  # the level programs (n binaries each) are tried up to this size
+_SPLIT_MAX_N = 2000  # the split bound's integer programs grow with n + m: not above this
 
 Outcome = tuple[float, float, list[int], dict]  # lower, upper, order, stats
 
@@ -130,13 +139,15 @@ _MID = 200
 
 def _flow_stage(P: OrderingProblem, lbs: dict[str, float], lb: float, ub: float, deadline: float | None,
                 seconds: float, seed: int | None) -> float:
-    """The face-walk bound, then the concurrent-flow bound, in their share of the time.
+    """The split bound, the face-walk bound, then the concurrent-flow bound, in their share of the time.
 
-    The walk bound (:func:`.carving.carving_bound`, strong on sparse planar
+    The neighbourhood split bound (:func:`.split_bound.split_bound`, up to
+    2000 vertices, when some vertex is heavier than ``lb``) gets at most 60 %
+    of ``seconds`` and 10 s; the walk bound (:func:`.carving.carving_bound`, strong on sparse planar
     graphs such as the duals of the homology reduction) gets 40 % of
     ``seconds``, the flow bound (:func:`.flow.flow_bound`) the rest; each
-    stops once it reaches ``ub``.  Records the values in ``lbs['walk']`` and
-    ``lbs['flow']``; returns the new lower bound.
+    stops once it reaches ``ub``.  Records the values in ``lbs['split']``,
+    ``lbs['walk']`` and ``lbs['flow']``; returns the new lower bound.
     """
     from .carving import carving_bound
     from .flow import flow_bound
@@ -144,6 +155,15 @@ def _flow_stage(P: OrderingProblem, lbs: dict[str, float], lb: float, ub: float,
     if seconds <= 0.05 or lb >= ub:
         return lb
     t_end = time.monotonic() + seconds
+    if P.n <= _SPLIT_MAX_N and float(P.degrees().max()) > lb + 1e-9:
+        # the neighbourhood split bound first: only a vertex heavier than the bound so far can raise it
+        share = min(0.6 * seconds, 10.0)  # it usually stops long before (one program on a hub graph)
+        sb, sinfo = split_bound(P, deadline=_sub_deadline(deadline, share), known=lb, per_vertex=max(0.2, share / 2))
+        if sinfo["tried"]:
+            lbs["split"] = sb
+            lb = max(lb, sb)
+        if lb >= ub:
+            return lb
     wb = carving_bound(P, _sub_deadline(deadline, 0.4 * seconds), upper=ub, lower=lb)
     lbs["walk"] = wb
     lb = max(lb, wb)
@@ -546,6 +566,19 @@ def _auto_part(P: OrderingProblem, deadline: float | None, seed: int | None, opt
         if lb >= ub - 1e-9:
             stats["auto"] = {"choice": "flow", "reason": "the flow bound met the upper bound", "chain": chain, "notes": why}
             return _Part(ub, ub, order, stats, "flow")
+    if _left(deadline) > 1.0 and n <= _LEVEL_MAX_N:
+        from .level_bound import level_bound
+
+        level_s = 0.25 * _left(deadline) if deadline is not None else 2.0 + n / 50.0
+        vb, vinfo = level_bound(P, order, deadline=_sub_deadline(deadline, level_s), known=lb, target=ub)
+        stats["levels"] = vinfo
+        chain.append("levels")
+        if vinfo["levels"]:
+            lbs["levels"] = vb
+            lb = max(lb, vb)
+        if lb >= ub - 1e-9:
+            stats["auto"] = {"choice": "levels", "reason": "an edge-isoperimetric level bound met the upper bound", "chain": chain, "notes": why}
+            return _Part(ub, ub, order, stats, "levels")
     if _left(deadline) > 0.5:
         if n > _SAT_MAX_N:
             frac, cap = 0.6, math.inf  # the exact methods are hopeless here: searching pays more
