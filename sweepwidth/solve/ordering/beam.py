@@ -63,6 +63,7 @@ def beam_ordering(
     deadline: float | None = None,
     seed: int | None = None,
     max_width: int | None = None,
+    min_width: int | None = None,
     target: float | None = None,
 ) -> tuple[float, list[int], dict[str, Any]] | None:
     """The narrowest ordering found by a schedule of beam searches (see the module docstring).
@@ -76,8 +77,8 @@ def beam_ordering(
         time fits before it.  Without one the widths up to 1024 are run.
     seed : int, optional
         Seeds the tie-breaking noise (results are reproducible for a seed).
-    max_width : int, optional
-        Largest beam width to try.
+    max_width, min_width : int, optional
+        Largest and smallest beam widths to try (default: all of the schedule).
     target : float, optional
         A proven lower bound: stop once an ordering of that width is found.
 
@@ -113,7 +114,8 @@ def beam_ordering(
     scale = float(np.mean(wts)) if wts.size else 1.0
     tol = 1e-9 * max(1.0, float(wts.max()) if wts.size else 1.0)
     cap_b = max(8, BEAM_BYTES // (32 * n + 64))
-    widths = [B for B in _WIDTHS if B <= cap_b and (max_width is None or B <= max_width)]
+    widths = [B for B in _WIDTHS if B <= cap_b and (max_width is None or B <= max_width)
+              and (min_width is None or B >= min_width)]
     if not widths:
         widths = [min(cap_b, max_width or cap_b)]
     if deadline is None:
