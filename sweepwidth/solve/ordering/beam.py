@@ -129,7 +129,7 @@ def beam_ordering(
             for noise in (0.0, 0.3 * scale):
                 if deadline is not None:
                     left = deadline - time.monotonic()
-                    guess = (per_unit * B) if per_unit is not None else 1e-7 * B * n * (n + 16)
+                    guess = (per_unit * B) if per_unit is not None else 1e-8 * B * n * (n + 16)
                     if guess > left:
                         break
                 s = int(rng.integers(2**31 - 1))

@@ -1052,7 +1052,7 @@ def residue_closure(h, M):  # type: ignore[no-untyped-def]
 
 
 @_jit
-def _beam_nb(n, indptr, indices, wts, deg, a, b, B, tol, noise, seed, free, cap):  # pragma: no cover - compiled
+def _beam_nb(n, indptr, indices, wts, deg, a, b, B, tol, noise, seed, free):  # pragma: no cover - compiled
     """Beam search over prefix sets with free moves; returns (width, order).
 
     Every generation expands each kept prefix by one vertex (then the free
@@ -1125,7 +1125,7 @@ def _beam_nb(n, indptr, indices, wts, deg, a, b, B, tol, noise, seed, free, cap)
                     continue
                 cut = pcut[s] + deg[v] - 2.0 * pws[s, v]
                 wd = max(pwid[s], cut)
-                if wd >= best_w - tol or cut > cap + tol:
+                if wd >= best_w - tol:
                     continue
                 c_par[nc] = s
                 c_v[nc] = v
@@ -1135,8 +1135,8 @@ def _beam_nb(n, indptr, indices, wts, deg, a, b, B, tol, noise, seed, free, cap)
         if nc == 0:
             break
         # best first: by width so far, then by cut now
-        keyv = c_s2[:nc] if cap < np.inf else c_s1[:nc] * 1e6 + c_s2[:nc]
-        idx = np.argsort(keyv)
+        idx0 = np.argsort(c_s2[:nc], kind="mergesort")
+        idx = idx0[np.argsort(c_s1[:nc][idx0], kind="mergesort")]
         stamp += 1
         size2 = 0
         for t in range(nc):
@@ -1184,7 +1184,7 @@ def _beam_nb(n, indptr, indices, wts, deg, a, b, B, tol, noise, seed, free, cap)
                     if not inS[x]:
                         work[wtop] = x
                         wtop += 1
-            if wid >= best_w - tol or wid > cap + tol:
+            if wid >= best_w - tol:
                 continue
             if cnt == goal:
                 total = max(wid, final_cut)
@@ -1231,8 +1231,8 @@ def _beam_nb(n, indptr, indices, wts, deg, a, b, B, tol, noise, seed, free, cap)
     return best_w, best_o
 
 
-def beam_orderings(n, indptr, indices, wts, deg, a, b, B, tol=1e-9, noise=0.0, seed=0, free=True, cap=np.inf):
+def beam_orderings(n, indptr, indices, wts, deg, a, b, B, tol=1e-9, noise=0.0, seed=0, free=True):
     """Compiled beam search over prefix sets; see :func:`_beam_nb` (numba only)."""
     if not HAVE_NUMBA:  # pragma: no cover - the wrapper in beam.py checks first
         raise RuntimeError("beam search needs numba")
-    return _beam_nb(n, indptr, indices, wts, deg, a, b, B, tol, noise, seed, free, cap)
+    return _beam_nb(n, indptr, indices, wts, deg, a, b, B, tol, noise, seed, free)
