@@ -24,7 +24,9 @@ sweeping a disk from its boundary inwards or growing the swept region's
 complement from a point outwards.  Neither wins everywhere, and the result
 is not monotone in ``B`` (a wider beam can keep greedier sets), so
 :func:`beam_ordering` runs a schedule of widths, directions and seeds in the
-time it is given and keeps the best.
+time it is given and keeps the best; it stops after two widths in a row that
+found nothing narrower, and never goes above ``16 n`` (wider beams keep
+near-copies of the same sets).
 
 Cost: a run of width ``B`` takes ``O(n B (n + m / n * f))`` time for
 frontier size ``f`` and ``32 n B`` bytes; the width schedule is cut so that
@@ -116,6 +118,9 @@ def beam_ordering(
     cap_b = max(8, BEAM_BYTES // (32 * n + 64))
     widths = [B for B in _WIDTHS if B <= cap_b and (max_width is None or B <= max_width)
               and (min_width is None or B >= min_width)]
+    # a beam much wider than the graph keeps near-copies of the same sets (and small graphs are
+    # settled by the exact searches anyway)
+    widths = [B for B in widths if B <= max(64, 16 * n)] or widths[:1]
     if not widths:
         widths = [min(cap_b, max_width or cap_b)]
     if deadline is None:
@@ -124,7 +129,11 @@ def beam_ordering(
     best_w, best_o = np.inf, None
     runs: list[tuple] = []
     per_unit = None  # seconds per (beam width) unit, from the last run
+    stale = 0  # widths in a row that found nothing narrower
     for B in widths:
+        if stale >= 2:
+            break
+        before = best_w
         for x, y, rev in directions:
             for noise in (0.0, 0.3 * scale):
                 if deadline is not None:
@@ -148,6 +157,7 @@ def beam_ordering(
                     best_w, best_o = width, order
                 if target is not None and best_w <= target + tol:
                     return float(best_w), best_o, {"runs": runs}
+        stale = stale + 1 if best_w >= before else 0
     if best_o is None:
         return None
     return float(best_w), best_o, {"runs": runs}
