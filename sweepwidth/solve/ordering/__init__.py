@@ -135,6 +135,7 @@ _SMALL = 64  # up to this many vertices the prefix-set search keeps its long fir
 # stage pays (Les Miserables, 77 vertices) and the slice stays short
 _SAT_SLOW_N = 100
 _MID = 200
+_CLIMB = 3  # thresholds the first prefix-set slice must settle for the search to replace SAT
 
 
 def _flow_stage(P: OrderingProblem, lbs: dict[str, float], lb: float, ub: float, deadline: float | None,
@@ -193,7 +194,18 @@ def _search_stage(P: OrderingProblem, lb: float, ub: float, order: list[int], de
         if width < best[0] - 1e-12:
             best[0], best[1] = width, list(o)
 
-    starts = [order] + start_orderings(P, seed=seed, deadline=time.monotonic() + 0.1 * max(0.0, end - time.monotonic()))
+    if len(P.first) <= 1 and len(P.last) <= 1 and P.n >= _SAT_SLOW_N:
+        # wider beams than the heuristic stage ran, in a third of the share
+        from .beam import beam_ordering
+
+        got = beam_ordering(P, deadline=time.monotonic() + 0.33 * max(0.0, end - time.monotonic()), seed=seed,
+                            min_width=1024, target=lb)
+        if got is not None:
+            keep(got[0], got[1])
+            stats["beam"] = {"width": got[0], "runs": len(got[2]["runs"])}
+            if got[0] <= lb + 1e-9:
+                return float(best[0]), best[1]
+    starts = [best[1]] + start_orderings(P, seed=seed, deadline=time.monotonic() + 0.1 * max(0.0, end - time.monotonic()))
     w, o, st = search_orderings(P, end, start_orders=starts, seed=seed, on_improve=keep, target=lb)
     keep(w, o)
     st = dict(st, width=best[0])
@@ -245,7 +257,15 @@ def refine_ordering(P: OrderingProblem, order: list[int], *, lower: float, deadl
     if lb < ub - 1e-9:
         ub, order = _search_stage(P, lb, ub, list(order), deadline, search_share * _left(deadline), seed, stats)
     if lb < ub - 1e-9 and _left(deadline) > 0.1:
-        out = solve_bnb(P, lower=lb, upper=ub, upper_order=order, deadline=deadline, max_states=1_000_000)
+        if P.n >= _SAT_SLOW_N:
+            # half of the lower-bound time for the search on the lifted graph (see 'auto')
+            from .lifting import lifted_bound
+
+            lb2, lst = lifted_bound(P, _sub_deadline(deadline, 0.5 * _left(deadline)), lower=lb, upper=ub)
+            stats["lifted"] = lst
+            lb = max(lb, lb2)
+    if lb < ub - 1e-9 and _left(deadline) > 0.1:
+        out = solve_bnb(P, lower=lb, upper=ub, upper_order=order, deadline=deadline, max_states=4_000_000)
         stats["bnb"] = dict(out.stats)
         lb, ub, order = max(lb, out.lower), out.upper, out.order
         if out.optimal:
@@ -540,6 +560,23 @@ def _auto_part(P: OrderingProblem, deadline: float | None, seed: int | None, opt
         choice = "search" if "search" in chain else "flow"
         stats["auto"] = {"choice": choice, "reason": f"{n} vertices: only bounds and searches (exact search above {_BIG} vertices is hopeless)", "chain": chain, "notes": why}
         return _Part(ub if lb >= ub - 1e-9 else lb, ub, order, stats, choice)
+    from .lifting import lifted_bound
+
+    lb_start = lb
+    if n >= _SAT_SLOW_N and _left(deadline) > 1.0:
+        # the prefix-set search on a smaller graph (low-degree vertices lifted away): a lower
+        # bound several thresholds above what the full search settles in the same time on
+        # sparse graphs such as the duals of the homology reduction
+        lift_s = 0.25 * _left(deadline) if deadline is not None else 5.0 + n / 50.0
+        lb2, lst = lifted_bound(P, _sub_deadline(deadline, lift_s), lower=lb, upper=ub,
+                                max_states=max_states)
+        lbs["lifted"] = lb2
+        stats["lifted"] = lst
+        chain.append("lifted")
+        lb = max(lb, lb2)
+        if lb >= ub - 1e-9:
+            stats["auto"] = {"choice": "lifted", "reason": "the lifted graph's bound met the upper bound", "chain": chain, "notes": why}
+            return _Part(ub, ub, order, stats, "lifted")
     # a prefix-set search first: on sparse graphs of small width it is instant
     if deadline is None:
         slice_s = 10.0 + n / 20.0
@@ -555,7 +592,16 @@ def _auto_part(P: OrderingProblem, deadline: float | None, seed: int | None, opt
         stats["auto"] = {"choice": "bnb", "reason": "prefix-set search finished within its slice", "chain": chain, "notes": why}
         return _Part(ub, ub, order, stats, "bnb")
     q = P.integer_scale()
-    sat_next = q is not None and n <= _SAT_MAX_N
+    # on larger graphs the SAT stage rarely proves anything in a 30-60 s limit; when the
+    # prefix-set search climbed several thresholds in its slice, it gets the rest of the
+    # time instead (the duals of weighted disks: benchmarks/NOTES.md, "prefix sets over SAT")
+    climbed = sum(1 for t in out.stats.get("thresholds", ()) if t < out.lower)
+    if P.integral:  # levels gained since the heuristics, by the lifted bound and the slice
+        climbed = max(climbed, int(round(lb - lb_start)))
+    search_pays = n >= _SAT_SLOW_N and climbed >= _CLIMB
+    if search_pays:
+        why.append(f"sat skipped: the prefix-set search settled {climbed} thresholds in its slice")
+    sat_next = q is not None and n <= _SAT_MAX_N and not search_pays
     # the exact searches did not finish: a stronger lower bound and a better
     # ordering (each stops once it meets the other bound), then the exact
     # method for the rest of the time, from the improved bounds
@@ -593,7 +639,9 @@ def _auto_part(P: OrderingProblem, deadline: float | None, seed: int | None, opt
     if _left(deadline) <= 0.3:
         stats["auto"] = {"choice": chain[-1], "reason": "time limit reached", "chain": chain, "notes": why}
         return _Part(lb, ub, order, stats, chain[-1])
-    if q is not None and deadline is not None and _left(deadline) < 1.5:
+    if search_pays:
+        pass
+    elif q is not None and deadline is not None and _left(deadline) < 1.5:
         why.append("sat skipped: less than 1.5 s left")
     elif q is not None and n > _SAT_MAX_N:
         why.append(f"sat skipped: {n} vertices make an order encoding of about n^2 = {n * n} variables")
@@ -607,11 +655,23 @@ def _auto_part(P: OrderingProblem, deadline: float | None, seed: int | None, opt
         return _Part(ub if lb >= ub - 1e-9 else lb, ub, order, stats, "sat")
     else:
         why.append("sat skipped: weights are not rationals with a small common denominator")
+    lifted_ahead = "lifted" in chain and not stats["lifted"].get("optimal") and lbs.get("lifted", -1.0) >= lb - 1e-9
+    if lifted_ahead and deadline is not None:
+        # the full search stalled at the lifted graph's bound: the lifted search climbs on
+        lb2, lst = lifted_bound(P, deadline, lower=lb, upper=ub, max_states=max_states)
+        chain.append("lifted")
+        stats["lifted_more"] = lst
+        lbs["lifted"] = max(lbs["lifted"], lb2)
+        lb = max(lb, lb2)
+        stats["auto"] = {"choice": "lifted", "reason": "the search on the lifted graph settles more thresholds than the full one here", "chain": chain, "notes": why}
+        return _Part(ub if lb >= ub - 1e-9 else lb, ub, order, stats, "lifted")
     out = solve_bnb(P, lower=lb, upper=ub, upper_order=order, deadline=deadline, max_states=max_states)
     chain.append("bnb")
     stats["bnb_full"] = dict(out.stats)
     lb, ub, order = max(lb, out.lower), out.upper, out.order
-    if q is None:
+    if search_pays:
+        reason = "the prefix-set search climbs faster than the SAT stage starts on this graph"
+    elif q is None:
         reason = "real weights: the prefix-set search is exact on them"
     elif n > _SAT_MAX_N:
         reason = "graph too large for the SAT encoding"

@@ -39,7 +39,7 @@ from ...problems.ordering import OrderingProblem
 from . import kernels as _kernels
 
 #: memory cap of the compiled search's table of failed sets, bytes
-_TABLE_BYTES = 512 << 20
+_TABLE_BYTES = 2048 << 20
 
 __all__ = ["solve_bnb", "BnbOutcome"]
 

@@ -403,6 +403,16 @@ def heuristic_ordering(
     if n <= 20000 and not late(margin=1.0 + n / 10000.0):
         for i, o in enumerate(spectral_orderings(problem)):
             add(f"spectral {i}", o)
+    if not late():
+        # beam search over prefix sets (strong on sparse planar duals), in part of the time left
+        from .beam import beam_ordering
+
+        share = 0.4 if n <= 1000 else 0.15  # on large graphs the local search below pays more
+        beam_end = None if deadline is None else time.monotonic() + share * max(0.0, deadline - time.monotonic())
+        out = beam_ordering(problem, deadline=beam_end, seed=int(rng.integers(2**31)), target=target)
+        if out is not None:
+            add("beam search", out[1])
+            stats["beam"] = {"width": out[0], "runs": len(out[2]["runs"])}
     scored = sorted(((problem.width(o), i, name, o) for i, (name, o) in enumerate(cands)), key=lambda t: (t[0], t[1]))
     best_w, _, best_name, best = scored[0]
     # greedy growth with the best few constructions as tie-breakers

@@ -1046,3 +1046,193 @@ _residue_closure_nb = _jit(_residue_closure_py)
 def residue_closure(h, M):  # type: ignore[no-untyped-def]
     """The min-plus closure of ``h`` over the residues mod ``M`` (entry 0 is 0)."""
     return _residue_closure_nb(np.asarray(h, dtype=np.float64), int(M))
+
+
+# ---------------------------------------------------------------- beam search over prefix sets (see beam.py)
+
+
+@_jit
+def _beam_nb(n, indptr, indices, wts, deg, a, b, B, tol, noise, seed, free):  # pragma: no cover - compiled
+    """Beam search over prefix sets with free moves; returns (width, order).
+
+    Every generation expands each kept prefix by one vertex (then the free
+    moves of :mod:`.bnb`), scores the children by (largest cut so far, cut
+    now) with a little seeded noise on the second key, drops repeated sets
+    and keeps the ``B`` best.  ``order`` lists the vertices of the best
+    complete prefix (pins at the ends).
+    """
+    np.random.seed(seed)
+    W = (n + 63) // 64
+    goal = n if b < 0 else n - 1
+    # parent generation
+    pk = np.zeros((B, W), dtype=np.uint64)
+    pws = np.zeros((B, n))
+    pcut = np.zeros(B)
+    pwid = np.zeros(B)
+    pcnt = np.zeros(B, dtype=np.int64)
+    pord = np.full((B, n), -1, dtype=np.int64)
+    # child generation
+    ck = np.zeros((B, W), dtype=np.uint64)
+    cws = np.zeros((B, n))
+    ccut = np.zeros(B)
+    cwid = np.zeros(B)
+    ccnt = np.zeros(B, dtype=np.int64)
+    cord = np.full((B, n), -1, dtype=np.int64)
+    inS = np.zeros(n, dtype=np.bool_)
+    work = np.empty(n + indices.shape[0] + 1, dtype=np.int64)
+    best_w = np.inf
+    best_o = np.full(n, -1, dtype=np.int64)
+    size = 1
+    if a >= 0:
+        pk[0, a >> 6] |= np.uint64(1) << np.uint64(a & 63)
+        for j in range(indptr[a], indptr[a + 1]):
+            pws[0, indices[j]] += wts[j]
+        pcut[0] = deg[a]
+        pwid[0] = deg[a]
+        pord[0, 0] = a
+        pcnt[0] = 1
+    final_cut = 0.0 if b < 0 else deg[b]
+    ccap = B * n
+    c_par = np.empty(ccap, dtype=np.int64)
+    c_v = np.empty(ccap, dtype=np.int64)
+    c_s1 = np.empty(ccap)
+    c_s2 = np.empty(ccap)
+    hsize = 1
+    while hsize < 4 * B:
+        hsize *= 2
+    hkeys = np.zeros((hsize, W), dtype=np.uint64)
+    hused = np.zeros(hsize, dtype=np.int64)
+    stamp = 0
+    while size > 0:
+        # candidates of every parent
+        nc = 0
+        for s in range(size):
+            any_front = False
+            for v in range(n):
+                if v == b:
+                    continue
+                if (pk[s, v >> 6] >> np.uint64(v & 63)) & np.uint64(1):
+                    continue
+                if pws[s, v] > 0.0:
+                    any_front = True
+                    break
+            for v in range(n):
+                if v == b:
+                    continue
+                if (pk[s, v >> 6] >> np.uint64(v & 63)) & np.uint64(1):
+                    continue
+                if any_front and pws[s, v] <= 0.0:
+                    continue
+                cut = pcut[s] + deg[v] - 2.0 * pws[s, v]
+                wd = max(pwid[s], cut)
+                if wd >= best_w - tol:
+                    continue
+                c_par[nc] = s
+                c_v[nc] = v
+                c_s1[nc] = wd
+                c_s2[nc] = cut + noise * np.random.random()
+                nc += 1
+        if nc == 0:
+            break
+        # best first: by width so far, then by cut now
+        idx0 = np.argsort(c_s2[:nc], kind="mergesort")
+        idx = idx0[np.argsort(c_s1[:nc][idx0], kind="mergesort")]
+        stamp += 1
+        size2 = 0
+        for t in range(nc):
+            if size2 >= B:
+                break
+            i = idx[t]
+            s = c_par[i]
+            v = c_v[i]
+            # build the child in slot size2
+            for w_ in range(W):
+                ck[size2, w_] = pk[s, w_]
+            for u in range(n):
+                cws[size2, u] = pws[s, u]
+                inS[u] = False
+            cnt = pcnt[s]
+            for p in range(cnt):
+                cord[size2, p] = pord[s, p]
+                inS[pord[s, p]] = True
+            cut = pcut[s]
+            wid = pwid[s]
+            # place v, then the free moves around it
+            wtop = 0
+            work[wtop] = v
+            wtop += 1
+            first = True
+            while wtop > 0:
+                wtop -= 1
+                u = work[wtop]
+                if inS[u] or u == b:
+                    continue
+                dl = deg[u] - 2.0 * cws[size2, u]
+                if not first and (dl > tol or not free):
+                    continue
+                first = False
+                inS[u] = True
+                ck[size2, u >> 6] |= np.uint64(1) << np.uint64(u & 63)
+                cord[size2, cnt] = u
+                cnt += 1
+                cut += dl
+                if cut > wid:
+                    wid = cut
+                for j in range(indptr[u], indptr[u + 1]):
+                    x = indices[j]
+                    cws[size2, x] += wts[j]
+                    if not inS[x]:
+                        work[wtop] = x
+                        wtop += 1
+            if wid >= best_w - tol:
+                continue
+            if cnt == goal:
+                total = max(wid, final_cut)
+                if total < best_w - tol:
+                    best_w = total
+                    for p in range(cnt):
+                        best_o[p] = cord[size2, p]
+                    if b >= 0:
+                        best_o[cnt] = b
+                continue
+            # drop a repeated set
+            h = np.uint64(1469598103934665603)
+            for w_ in range(W):
+                h = (h ^ ck[size2, w_]) * np.uint64(1099511628211)
+            slot = np.int64(h >> np.uint64(40)) & np.int64(hsize - 1)
+            dup = False
+            while hused[slot] == stamp:
+                same = True
+                for w_ in range(W):
+                    if hkeys[slot, w_] != ck[size2, w_]:
+                        same = False
+                        break
+                if same:
+                    dup = True
+                    break
+                slot = (slot + np.int64(1)) & np.int64(hsize - 1)
+            if dup:
+                continue
+            hused[slot] = stamp
+            for w_ in range(W):
+                hkeys[slot, w_] = ck[size2, w_]
+            ccut[size2] = cut
+            cwid[size2] = wid
+            ccnt[size2] = cnt
+            size2 += 1
+        # the children become the parents
+        pk, ck = ck, pk
+        pws, cws = cws, pws
+        pcut, ccut = ccut, pcut
+        pwid, cwid = cwid, pwid
+        pcnt, ccnt = ccnt, pcnt
+        pord, cord = cord, pord
+        size = size2
+    return best_w, best_o
+
+
+def beam_orderings(n, indptr, indices, wts, deg, a, b, B, tol=1e-9, noise=0.0, seed=0, free=True):
+    """Compiled beam search over prefix sets; see :func:`_beam_nb` (numba only)."""
+    if not HAVE_NUMBA:  # pragma: no cover - the wrapper in beam.py checks first
+        raise RuntimeError("beam search needs numba")
+    return _beam_nb(n, indptr, indices, wts, deg, a, b, B, tol, noise, seed, free)
