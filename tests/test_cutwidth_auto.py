@@ -71,10 +71,11 @@ def test_auto_without_dp_bounds_hold(case):
 
 
 def test_flow_stage_runs_and_is_reported():
-    # a 12 x 12 grid has cutwidth 13 (Rolim, Sykora and Vrto, WG 1995; from memory):
-    # the prefix-set search does not finish in its slice, so the face-walk bound runs (and the flow
-    # bound after it unless the walk bound already meets the upper bound)
-    G = nx.grid_2d_graph(12, 12)
+    # a k x k grid has cutwidth k + 1 for k >= 3 (Rolim, Sykora and Vrto, WG 1995; from memory):
+    # on the 16 x 16 grid the lifted-graph bound and the prefix-set slice stop short of 17, so the
+    # face-walk bound runs (and the flow bound after it unless the walk bound already meets the
+    # upper bound)
+    G = nx.grid_2d_graph(16, 16)
     t0 = time.monotonic()
     r = sw.cutwidth(G, time_limit=4.0, seed=0)
     assert time.monotonic() - t0 < 4.0 + 1.5
@@ -82,10 +83,20 @@ def test_flow_stage_runs_and_is_reported():
     assert "walk" in lbs and "degree" in lbs
     assert "flow" in lbs or lbs["walk"] >= r.upper
     assert r.lower == pytest.approx(max(lbs.values())) or r.status == "optimal"
-    assert max(lbs.values()) <= 13
-    assert r.upper >= 13
+    assert max(lbs.values()) <= 17
+    assert r.upper >= 17
     assert "flow" in r.stats["auto"]["chain"]
     assert r.check(G) == r.upper
+
+
+def test_lifted_stage_proves_the_12_grid():
+    # same source: cutwidth 13; the search on the lifted graph (degree-3 border vertices split off)
+    # reaches 13 before the flow stage is needed
+    G = nx.grid_2d_graph(12, 12)
+    r = sw.cutwidth(G, time_limit=4.0, seed=0)
+    assert r.status == "optimal" and r.value == 13
+    assert r.stats["lower_bounds"]["lifted"] <= 13
+    assert r.check(G) == 13
 
 
 def test_search_method_time_limit_and_witness():

@@ -155,7 +155,7 @@ def beam_ordering(
                 width = problem.width(order)  # the truth, not the kernel's bookkeeping
                 if width < best_w:
                     best_w, best_o = width, order
-                if target is not None and best_w <= target + tol:
+                if target is not None and best_o is not None and best_w <= target + tol:
                     return float(best_w), best_o, {"runs": runs}
         stale = stale + 1 if best_w >= before else 0
     if best_o is None:
