@@ -75,6 +75,7 @@ from typing import Any, Sequence
 from ...problems.homotopy import Curve
 from ...problems.width import WidthState
 from ..homotopy import bfs_rank, construct_homotopy
+from .bounds import _out
 
 __all__ = ["split_sweep", "keyframes", "realise", "region_faces", "middle_leash", "leaf_size", "VARIANTS"]
 
@@ -205,18 +206,6 @@ def _restricted(W: Any, allowed: set[int], sources: dict[int, int],
                 tag[u] = tag[v]
                 heapq.heappush(heap, (nd, u))
     return dist, par, tag
-
-
-def _out(W: Any) -> list[list[int]]:
-    cached = getattr(W, "_split_out", None)
-    if cached is not None:
-        return cached
-    n = W.graph.number_of_vertices()
-    out: list[list[int]] = [[] for _ in range(n)]
-    for d, t in enumerate(W.tail):
-        out[t].append(d)
-    object.__setattr__(W, "_split_out", out)
-    return out
 
 
 def _trace(par: dict, tail: Sequence[int], v: int) -> list[int]:
