@@ -363,3 +363,19 @@ def test_passage_bound_without_holes_takes_the_cheaper_side():
     assert sorted(sets[0] + sets[1]) == list(range(P.number_of_faces()))
     r = sw.homotopy_width(P, a, b, holes=[], method="search")
     assert passage_bound(W)[0] <= r.value
+
+
+@pytest.mark.parametrize("method", ["search", "auto"])
+def test_small_problems_try_the_exact_search_before_the_slow_constructions(method):
+    # regression: on this 7-face instance 'search' spent 0.9 s in the window re-solves of the
+    # constructions before a 0.08 s exact search; now a construction without them and the exact
+    # search come first.  Value: the manifest's (exact search, witness replayed) and the reference BFS.
+    here = os.path.join(os.path.dirname(__file__), "..", "instances", "leashes", "reflip-delaunay-1010.json")
+    P = sw.read(here)
+    c = P.meta["curves"]
+    kw = {"start": c["start"], "end": c["end"]}
+    r = sw.homotopy_width(P, c["a"], c["b"], method=method, **kw)
+    assert r.status == "optimal" and r.value == 9
+    assert "quick_search" in r.stats and r.check(P) == 9
+    W = WidthProblem.build(P, c["a"], c["b"], **kw)
+    assert reference_width(W, r.value) == 9
