@@ -67,8 +67,8 @@ HOMOLOGY_BUDGET = 20.0
 HOMOLOGY_LEAST = 0.3
 #: share of the time limit for the constructions ('bounds'; the rest goes to the homology bound)
 CONSTRUCT_SHARE = 0.45
-#: up to this many sweepable faces 'auto' and 'search' try the exact search before any construction
-#: (on small disks it finishes in milliseconds, while the constructions take a second)
+#: up to this many sweepable faces 'auto' and 'search' try the exact search after the constructions without
+#: their window re-solves (on small disks the search finishes in milliseconds, the re-solves take a second)
 QUICK_FACES = 24
 #: seconds (at most, and at most a quarter of the time left) for that first try
 QUICK_SECONDS = 0.5
@@ -272,7 +272,7 @@ def _quick_search(st: _State) -> bool:
     _passage(st)
     budget = QUICK_SECONDS if at is None else min(QUICK_SECONDS, 0.25 * max(0.0, at - time.monotonic()))
     end = time.monotonic() + budget
-    got = best_constructed(W, deadline=time.monotonic() + 0.3 * budget, lower=st.lower, improve=False)
+    got = best_constructed(W, deadline=time.monotonic() + 0.3 * budget, lower=st.lower, quick=True)
     if got is not None:  # an upper bound prunes the search (about 8x fewer states on small disks)
         st.upper, st.witness = got[0], got[1]
         st.bounds["upper"] = f"constructed sweep ({got[2]})"

@@ -153,7 +153,7 @@ IMPROVE_TOP = 3
 
 
 def best_constructed(W: Any, *, deadline: float | None = None, lower: float | None = None,
-                     hard_deadline: float | None = None, improve: bool = True) -> tuple[float, dict, str] | None:
+                     hard_deadline: float | None = None, quick: bool = False) -> tuple[float, dict, str] | None:
     """The narrowest replayed sweep over the constructions: ``(width, witness, variant)``.
 
     Order: the split sweep of :mod:`.splitting` (first variant; the
@@ -168,9 +168,10 @@ def best_constructed(W: Any, *, deadline: float | None = None, lower: float | No
     search stops early when a sweep meets ``lower``.  The first split sweep
     may run until ``hard_deadline`` (a later end, e.g. the caller's whole
     time limit) so that a short share still ends with a witness on large
-    graphs; everything after it keeps to ``deadline``.  ``improve=False``
+    graphs; everything after it keeps to ``deadline``.  ``quick=True``
     skips the local improvement (on small problems the exact search that
-    follows is faster than the window re-solves).
+    follows is faster than the window re-solves, while the other
+    constructions' tighter upper bound still pays: it prunes the search).
     """
     from ...verify.width import replay_width
     from ...errors import WitnessError
@@ -242,7 +243,7 @@ def best_constructed(W: Any, *, deadline: float | None = None, lower: float | No
         if late() or met():
             break
         run_split(v)
-    if not improve:
+    if quick:
         return best
     until = deadline if deadline is not None else time.monotonic() + IMPROVE_SECONDS
     frames_of.sort(key=lambda x: x[0])
