@@ -120,3 +120,36 @@ def test_lifting_keeps_pins_and_their_edges():
     assert solve_dp(Q)[0] <= solve_dp(P)[0]
     for a, b in itertools.combinations(range(Q.n), 2):
         assert Q.labels[a] != Q.labels[b]
+
+
+def test_the_state_cap_grows_with_the_memory_budget_and_an_explicit_cap_is_kept():
+    # regression: a long time limit ended early when the lifted search hit a fixed cap of
+    # 4,194,304 states (the 200-vertex weighted disk's dual: [58, 70] after 87 s of 200 s)
+    from sweepwidth.solve.ordering.lifting import states_for_memory
+
+    assert states_for_memory(242, 1 << 30) > 4_000_000
+    assert states_for_memory(64, 1 << 20) == (1 << 20) // (2 * 9)  # one word and a flag a set
+    assert states_for_memory(10_000, 1) == 1024  # never below a usable table
+    P = OrderingProblem.from_graph(nx.grid_2d_graph(6, 6))  # cutwidth 7 (from memory: min(m, n) + 1 for m x n grids)
+    _, st_mem = lifted_bound(P, time.monotonic() + 5, max_states=2048, max_memory=1 << 26)
+    assert st_mem["max_states"] == states_for_memory(st_mem["n"], 1 << 26)
+    _, st_cap = lifted_bound(P, time.monotonic() + 5, max_states=2048)
+    assert st_cap["max_states"] == 2048
+
+
+def test_auto_spends_time_left_after_a_capped_search_on_the_upper_bound():
+    # regression: the chain returned at 3.3 s of 6 when the last prefix-set search hit its state
+    # cap; it now goes on with the kick search (stats['search_more'])
+    import sweepwidth as sw
+
+    P = generators.weighted_delaunay_disk(60, seed=3)
+    from sweepwidth.problems.cycles import HomologyProblem
+
+    hp = HomologyProblem.build(P)
+    fs = FaceSweep.build(P, hp.start, hp.swept[0])
+    G, a, b = fs.ordering_graph()
+    r = sw.cutwidth(G, first=a, last=b, time_limit=6, max_states=20_000)
+    part = max(r.stats["parts"], key=lambda p: p.get("n", 0))
+    chain = part["auto"]["chain"]
+    assert r.lower <= r.upper
+    assert r.status == "optimal" or (chain[-1] == "search" and "search_more" in part), chain

@@ -514,6 +514,8 @@ def _auto_part(P: OrderingProblem, deadline: float | None, seed: int | None, opt
     opts = dict(options)
     dp_limit = int(opts.pop("dp_limit", _TINY_DP))
     max_memory = opts.pop("max_memory", DEFAULT_MAX_MEMORY)
+    # an explicit max_states is the lifted search's cap too; else its table may fill max_memory
+    lift_memory = None if "max_states" in opts else max_memory
     max_states = opts.pop("max_states", 4_000_000)
     solver = opts.pop("solver", "cadical195")
     sat_options = opts.pop("sat_options", None)
@@ -569,7 +571,7 @@ def _auto_part(P: OrderingProblem, deadline: float | None, seed: int | None, opt
         # sparse graphs such as the duals of the homology reduction
         lift_s = 0.25 * _left(deadline) if deadline is not None else 5.0 + n / 50.0
         lb2, lst = lifted_bound(P, _sub_deadline(deadline, lift_s), lower=lb, upper=ub,
-                                max_states=max_states)
+                                max_states=max_states, max_memory=lift_memory)
         lbs["lifted"] = lb2
         stats["lifted"] = lst
         chain.append("lifted")
@@ -657,18 +659,43 @@ def _auto_part(P: OrderingProblem, deadline: float | None, seed: int | None, opt
         why.append("sat skipped: weights are not rationals with a small common denominator")
     lifted_ahead = "lifted" in chain and not stats["lifted"].get("optimal") and lbs.get("lifted", -1.0) >= lb - 1e-9
     if lifted_ahead and deadline is not None:
-        # the full search stalled at the lifted graph's bound: the lifted search climbs on
-        lb2, lst = lifted_bound(P, deadline, lower=lb, upper=ub, max_states=max_states)
-        chain.append("lifted")
-        stats["lifted_more"] = lst
-        lbs["lifted"] = max(lbs["lifted"], lb2)
-        lb = max(lb, lb2)
-        stats["auto"] = {"choice": "lifted", "reason": "the search on the lifted graph settles more thresholds than the full one here", "chain": chain, "notes": why}
-        return _Part(ub if lb >= ub - 1e-9 else lb, ub, order, stats, "lifted")
+        # the full search stalled at the lifted graph's bound: the lifted search climbs on,
+        # unless it already stopped at its table's cap there (it would repeat the same work)
+        capped = "remembered states" in str(stats["lifted"].get("bnb", {}).get("stopped", ""))
+        if capped:
+            why.append("lifted search not resumed: it stopped at its state cap " + str(stats["lifted"].get("max_states")))
+        else:
+            lb2, lst = lifted_bound(P, _sub_deadline(deadline, 0.8 * _left(deadline)), lower=lb, upper=ub,
+                                    max_states=max_states, max_memory=lift_memory)
+            chain.append("lifted")
+            stats["lifted_more"] = lst
+            lbs["lifted"] = max(lbs["lifted"], lb2)
+            lb = max(lb, lb2)
+        if lb < ub - 1e-9 and _left(deadline) > 1.0:
+            # the lifted search stopped (time share or state cap) with time left: the rest goes
+            # to the upper bound rather than returning early
+            more: dict[str, Any] = {}
+            ub, order = _search_stage(P, lb, ub, order, deadline, _left(deadline), seed, more)
+            stats["search_more"] = more
+            chain.append("search")
+        choice = "search" if chain[-1] == "search" and lb >= ub - 1e-9 else "lifted"
+        reason = ("the kick search met the lower bound" if choice == "search"
+                  else "the search on the lifted graph settles more thresholds than the full one here")
+        stats["auto"] = {"choice": choice, "reason": reason, "chain": chain, "notes": why}
+        return _Part(ub if lb >= ub - 1e-9 else lb, ub, order, stats, choice)
     out = solve_bnb(P, lower=lb, upper=ub, upper_order=order, deadline=deadline, max_states=max_states)
     chain.append("bnb")
     stats["bnb_full"] = dict(out.stats)
     lb, ub, order = max(lb, out.lower), out.upper, out.order
+    if not out.optimal and lb < ub - 1e-9 and deadline is not None and _left(deadline) > 1.0:
+        # the search stopped at its state cap with time left: the rest goes to the upper bound
+        more2: dict[str, Any] = {}
+        ub, order = _search_stage(P, lb, ub, order, deadline, _left(deadline), seed, more2)
+        stats["search_more"] = more2
+        chain.append("search")
+        if lb >= ub - 1e-9:
+            stats["auto"] = {"choice": "search", "reason": "the kick search met the lower bound", "chain": chain, "notes": why}
+            return _Part(ub, ub, order, stats, "search")
     if search_pays:
         reason = "the prefix-set search climbs faster than the SAT stage starts on this graph"
     elif q is None:

@@ -51,7 +51,25 @@ import numpy as np
 from ...problems.ordering import OrderingProblem
 from .bnb import solve_bnb
 
-__all__ = ["lift_problem", "lifted_bound"]
+__all__ = ["lift_problem", "lifted_bound", "states_for_memory"]
+
+
+def states_for_memory(n: int, max_memory: float) -> int:
+    """How many failed sets the prefix-set search of an ``n``-vertex problem keeps in ``max_memory`` bytes.
+
+    The compiled search's table holds a set in ``8 * ceil(n / 64) + 1`` bytes and
+    is kept at most half full, so a cap of ``s`` states takes about
+    ``2 * s * (8 * ceil(n / 64) + 1)`` bytes (and never more than the table's own
+    cap, :data:`.bnb._TABLE_BYTES`).
+
+    >>> states_for_memory(242, 1 << 30)    # 4 words a set: 16 M states in 1 GiB
+    16268815
+    """
+    from .bnb import _TABLE_BYTES
+
+    per_slot = 8 * ((int(n) + 63) // 64) + 1
+    budget = min(float(max_memory), float(_TABLE_BYTES))
+    return max(1024, int(budget // (2 * per_slot)))
 
 
 def lift_problem(problem: OrderingProblem, *, max_share: float = 0.45) -> tuple[OrderingProblem, int]:
@@ -134,6 +152,7 @@ def lifted_bound(
     upper: float | None = None,
     max_states: int = 4_000_000,
     share: float = 0.45,
+    max_memory: float | None = None,
 ) -> tuple[float, dict[str, Any]]:
     """A proven lower bound: the prefix-set search on :func:`lift_problem`'s smaller graph.
 
@@ -151,6 +170,9 @@ def lifted_bound(
         Cap of the search's table of failed sets (its memory, see :mod:`.bnb`).
     share : float
         Largest share of the vertices lifted away (:func:`lift_problem`).
+    max_memory : float, optional
+        Bytes the search's table may take: raises ``max_states`` to what fits
+        (:func:`states_for_memory`, for the lifted graph's size), never lowers it.
 
     Returns
     -------
@@ -169,6 +191,9 @@ def lifted_bound(
     stats: dict[str, Any] = {"removed": k, "n": Q.n, "m": Q.m}
     if k == 0 or Q.m == 0:
         return float(lower), stats
+    if max_memory is not None:
+        max_states = max(int(max_states), states_for_memory(Q.n, max_memory))
+    stats["max_states"] = int(max_states)
     # starting at the original's lower bound is sound: a threshold the search refutes is a
     # fact about the lifted graph alone, and an ordering found at the first threshold gives
     # no more than ``lower`` back
