@@ -125,7 +125,7 @@ def test_lifting_keeps_pins_and_their_edges():
 def test_the_state_cap_grows_with_the_memory_budget_and_an_explicit_cap_is_kept():
     # regression: a long time limit ended early when the lifted search hit a fixed cap of
     # 4,194,304 states (the 200-vertex weighted disk's dual: [58, 70] after 87 s of 200 s)
-    from sweepwidth.solve.ordering.lifting import states_for_memory
+    from sweepwidth.solve.ordering.bnb import states_for_memory
 
     assert states_for_memory(242, 1 << 30) > 4_000_000
     assert states_for_memory(64, 1 << 20) == (1 << 20) // (2 * 9)  # one word and a flag a set

@@ -213,6 +213,21 @@ def _search_stage(P: OrderingProblem, lb: float, ub: float, order: list[int], de
     return float(best[0]), best[1]
 
 
+def _search_rest(P: OrderingProblem, lb: float, ub: float, order: list[int], deadline: float | None,
+                 seed: int | None, stats: dict[str, Any], chain: list[str]) -> tuple[float, list[int]]:
+    """The time left after the last stage, when more than a second, to :func:`_search_stage`.
+
+    Records in ``stats['search_more']`` and ``chain``; nothing happens without a
+    deadline or once the bounds meet.
+    """
+    if deadline is None or lb >= ub - 1e-9 or _left(deadline) <= 1.0:
+        return ub, order
+    more: dict[str, Any] = {}
+    ub, order = _search_stage(P, lb, ub, order, deadline, _left(deadline), seed, more)
+    stats["search_more"] = more
+    chain.append("search")
+    return ub, order
+
 def refine_ordering(P: OrderingProblem, order: list[int], *, lower: float, deadline: float,
                     seed: int | None = None, search_share: float = 0.5) -> tuple[float, float, list[int], dict]:
     """Continue from known bounds: the kick search from ``order``, then the prefix-set search from ``lower``.
@@ -671,13 +686,9 @@ def _auto_part(P: OrderingProblem, deadline: float | None, seed: int | None, opt
             stats["lifted_more"] = lst
             lbs["lifted"] = max(lbs["lifted"], lb2)
             lb = max(lb, lb2)
-        if lb < ub - 1e-9 and _left(deadline) > 1.0:
-            # the lifted search stopped (time share or state cap) with time left: the rest goes
-            # to the upper bound rather than returning early
-            more: dict[str, Any] = {}
-            ub, order = _search_stage(P, lb, ub, order, deadline, _left(deadline), seed, more)
-            stats["search_more"] = more
-            chain.append("search")
+        # the lifted search stopped (time share or state cap) with time left: the rest goes
+        # to the upper bound rather than returning early
+        ub, order = _search_rest(P, lb, ub, order, deadline, seed, stats, chain)
         choice = "search" if chain[-1] == "search" and lb >= ub - 1e-9 else "lifted"
         reason = ("the kick search met the lower bound" if choice == "search"
                   else "the search on the lifted graph settles more thresholds than the full one here")
@@ -687,12 +698,9 @@ def _auto_part(P: OrderingProblem, deadline: float | None, seed: int | None, opt
     chain.append("bnb")
     stats["bnb_full"] = dict(out.stats)
     lb, ub, order = max(lb, out.lower), out.upper, out.order
-    if not out.optimal and lb < ub - 1e-9 and deadline is not None and _left(deadline) > 1.0:
+    if not out.optimal:
         # the search stopped at its state cap with time left: the rest goes to the upper bound
-        more2: dict[str, Any] = {}
-        ub, order = _search_stage(P, lb, ub, order, deadline, _left(deadline), seed, more2)
-        stats["search_more"] = more2
-        chain.append("search")
+        ub, order = _search_rest(P, lb, ub, order, deadline, seed, stats, chain)
         if lb >= ub - 1e-9:
             stats["auto"] = {"choice": "search", "reason": "the kick search met the lower bound", "chain": chain, "notes": why}
             return _Part(ub, ub, order, stats, "search")

@@ -41,7 +41,23 @@ from . import kernels as _kernels
 #: memory cap of the compiled search's table of failed sets, bytes
 _TABLE_BYTES = 2048 << 20
 
-__all__ = ["solve_bnb", "BnbOutcome"]
+__all__ = ["solve_bnb", "BnbOutcome", "states_for_memory"]
+
+
+def states_for_memory(n: int, max_memory: float) -> int:
+    """How many failed sets the prefix-set search of an ``n``-vertex problem keeps in ``max_memory`` bytes.
+
+    The compiled search's table holds a set in ``8 * ceil(n / 64) + 1`` bytes and
+    is kept at most half full, so a cap of ``s`` states takes about
+    ``2 * s * (8 * ceil(n / 64) + 1)`` bytes (and never more than the table's own
+    cap, :data:`_TABLE_BYTES`).
+
+    >>> states_for_memory(242, 1 << 30)    # 4 words a set: 16 M states in 1 GiB
+    16268815
+    """
+    per_slot = 8 * ((int(n) + 63) // 64) + 1
+    budget = min(float(max_memory), float(_TABLE_BYTES))
+    return max(1024, int(budget // (2 * per_slot)))
 
 
 class _OutOfTime(Exception):

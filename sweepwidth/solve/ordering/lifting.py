@@ -49,27 +49,9 @@ from typing import Any
 import numpy as np
 
 from ...problems.ordering import OrderingProblem
-from .bnb import solve_bnb
+from .bnb import solve_bnb, states_for_memory
 
-__all__ = ["lift_problem", "lifted_bound", "states_for_memory"]
-
-
-def states_for_memory(n: int, max_memory: float) -> int:
-    """How many failed sets the prefix-set search of an ``n``-vertex problem keeps in ``max_memory`` bytes.
-
-    The compiled search's table holds a set in ``8 * ceil(n / 64) + 1`` bytes and
-    is kept at most half full, so a cap of ``s`` states takes about
-    ``2 * s * (8 * ceil(n / 64) + 1)`` bytes (and never more than the table's own
-    cap, :data:`.bnb._TABLE_BYTES`).
-
-    >>> states_for_memory(242, 1 << 30)    # 4 words a set: 16 M states in 1 GiB
-    16268815
-    """
-    from .bnb import _TABLE_BYTES
-
-    per_slot = 8 * ((int(n) + 63) // 64) + 1
-    budget = min(float(max_memory), float(_TABLE_BYTES))
-    return max(1024, int(budget // (2 * per_slot)))
+__all__ = ["lift_problem", "lifted_bound"]
 
 
 def lift_problem(problem: OrderingProblem, *, max_share: float = 0.45) -> tuple[OrderingProblem, int]:
@@ -172,7 +154,7 @@ def lifted_bound(
         Largest share of the vertices lifted away (:func:`lift_problem`).
     max_memory : float, optional
         Bytes the search's table may take: raises ``max_states`` to what fits
-        (:func:`states_for_memory`, for the lifted graph's size), never lowers it.
+        (:func:`.bnb.states_for_memory`, for the lifted graph's size), never lowers it.
 
     Returns
     -------
