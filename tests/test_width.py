@@ -379,3 +379,71 @@ def test_small_problems_try_the_exact_search_before_the_slow_constructions(metho
     assert "quick_search" in r.stats and r.check(P) == 9
     W = WidthProblem.build(P, c["a"], c["b"], **kw)
     assert reference_width(W, r.value) == 9
+
+
+@SLOW
+@given(boundary_instances(max_faces=6), st.sampled_from(["weight", None, "vertices"]))
+def test_rest_bound_never_exceeds_the_rest_of_an_optimal_sweep(inst, weight):
+    # StateBound(i, j, odd) is a lower bound on any continuation from a state; checked at every
+    # state of an optimal sweep against the brute-force reference (tests/reference_width.py) run
+    # on the rest as its own problem: A from a_i, B from b_j, the state's leash as start leash
+    from sweepwidth.solve.width.bounds import StateBound
+    from sweepwidth.verify.width import replay_leashes
+
+    P, a, b = inst
+    W = WidthProblem.build(P, a, b, weight=weight)
+    r = sw.homotopy_width(P, a, b, method="search", weight=weight)
+    assert r.status == "optimal"
+    opts = W.options()
+    sweep = replay_leashes(P, r.witness, a=opts["a"], b=opts["b"], start=opts["start"], end=opts["end"],
+                           weight=weight)
+    h = StateBound(W)
+    assert h(0, 0, 0) <= r.value + 1e-9
+    odd = 0
+    for le in sweep.leashes:
+        if le.face is not None:
+            odd ^= 1 << le.face
+        rest = WidthProblem.build(P, {"vertices": list(W.graph.label(v) for v in W.a_vertices[le.i:])},
+                                  {"vertices": list(W.graph.label(v) for v in W.b_vertices[le.j:])},
+                                  start={"vertex": le.a_end, "darts": list(le.darts)}, end=opts["end"],
+                                  weight=weight)
+        try:
+            ref = reference_width(rest, r.value, max_states=60_000)
+        except RuntimeError:
+            reject()
+        assert ref is not None
+        assert h(le.i, le.j, odd) <= ref + 1e-9
+
+
+@SLOW
+@given(boundary_instances(max_faces=7), st.booleans(), st.booleans())
+def test_search_with_and_without_the_rest_bound_agree(inst, backward, spikes):
+    # the keyed search (rest bound, partial expansion) against plain bottleneck keys: same width
+    P, a, b = inst
+    W = WidthProblem.build(P, a, b, backward=backward, spikes=spikes)
+    lo = frechet_bound(W)[0]
+    keyed = search_width(W, lower=lo)
+    plain = search_width(W, lower=lo, use_rest=False)
+    assert keyed.optimal and plain.optimal
+    assert keyed.upper == plain.upper
+    assert replay_width(P, keyed.witness, **{k: W.options()[k] for k in ("a", "b", "start", "end")},
+                        backward=backward, spikes=spikes) == keyed.upper
+
+
+def test_partial_expansion_stores_few_states_regression():
+    # regression: without an upper bound every expansion stored ~90 longer leashes that were
+    # never expanded; this 38-face disk filled the 1 GiB state limit after 17 s.  Now states
+    # longer than the current key are built only when the search reaches their key.
+    import random
+
+    rng = random.Random(2)
+    P = generators.delaunay(24, seed=2)
+    P = P.with_weights([rng.choice((1, 1, 1, 2, 3)) for _ in range(P.number_of_edges())])
+    cyc = _cycle(P)
+    k = len(cyc)
+    p = q = k // 3
+    s = p + 1 + (k - p - q - 2) // 2
+    W = WidthProblem.build(P, {"vertices": cyc[: p + 1]}, {"vertices": cyc[s: s + q + 1][::-1]})
+    out = search_width(W, lower=frechet_bound(W)[0], deadline=time.monotonic() + 60)
+    assert out.optimal and out.upper == 11.0  # the value the unkeyed search proves (plain keys, no cap)
+    assert out.stats["stored"] < 20 * out.stats["states"]

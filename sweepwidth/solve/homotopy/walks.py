@@ -295,7 +295,7 @@ class WalkSpace:
         dl = self.dlen
         return sum(dl[d] for d in key)
 
-    def moves(self, key: tuple, cap: Any = None) -> Iterator[tuple]:
+    def moves(self, key: tuple, cap: Any = None, low: list | None = None) -> Iterator[tuple]:
         """All walks one legal move from ``key`` whose length is below ``cap``.
 
         Yields ``(new_darts, vertex, move, face, sign, new_length)``: the new
@@ -305,7 +305,10 @@ class WalkSpace:
         face (``-1`` for spikes), the change of that face's winding number, and
         the new walk's length.  Moves whose result has length ``>= cap`` are
         skipped before the new tuple is built.  Moves that produce the same
-        walk several times are not removed here.
+        walk several times are not removed here.  Open walks only: with a
+        one-element list ``low``, the least length of a skipped move is kept
+        in ``low[0]`` (when below its value), for searches that expand a
+        state in parts.
         """
         if cap is None:
             cap = float("inf")
@@ -313,7 +316,7 @@ class WalkSpace:
         if self.closed:
             yield from self._moves_closed(key, ds, cap)
         else:
-            yield from self._moves_open(key, ds, cap)
+            yield from self._moves_open(key, ds, cap, low)
 
     def move_json(self, move: tuple) -> dict:
         """The witness form of a compact move record ``(kind, pos, arg, put, face)``."""
@@ -330,29 +333,38 @@ class WalkSpace:
             return 0
         return 1 if (empty or not self.closed) else 0
 
-    def _insertions(self, v: int, pos: int, before: tuple, after: tuple, ds: Any, cap: Any) -> Iterator[tuple]:
+    def _insertions(self, v: int, pos: int, before: tuple, after: tuple, ds: Any, cap: Any,
+                    low: list | None = None) -> Iterator[tuple]:
         CC, RCC, idx, ridx, face, flen, hole, fw = (
             self.CC, self.RCC, self.idx, self.ridx, self.face, self.flen, self.hole, self.fweight,
         )
         ex = self._extra(False)
         for c in self.out[v]:
             f = face[c]
-            if not hole[f] and ds + fw[f] + ex < cap:
-                m = flen[f]
-                o = idx[c]
-                loop = CC[f][o : o + m]  # boundary of f starting with dart c: winding of f +1
-                yield before + loop + after, v, (0, pos, 0, loop, f), f, 1, ds + fw[f] + ex
+            if not hole[f]:
+                if ds + fw[f] + ex < cap:
+                    m = flen[f]
+                    o = idx[c]
+                    loop = CC[f][o : o + m]  # boundary of f starting with dart c: winding of f +1
+                    yield before + loop + after, v, (0, pos, 0, loop, f), f, 1, ds + fw[f] + ex
+                elif low is not None and ds + fw[f] + ex < low[0]:
+                    low[0] = ds + fw[f] + ex
             # a loop leaving v along c around the face g on the right of c, clockwise
             g = face[c ^ 1]
-            if not hole[g] and ds + fw[g] + ex < cap:
-                m = flen[g]
-                o = ridx[c]
-                loop = RCC[g][o : o + m]  # reversed boundary of g starting with c: winding of g -1
-                yield before + loop + after, v, (0, pos, 0, loop, g), g, -1, ds + fw[g] + ex
+            if not hole[g]:
+                if ds + fw[g] + ex < cap:
+                    m = flen[g]
+                    o = ridx[c]
+                    loop = RCC[g][o : o + m]  # reversed boundary of g starting with c: winding of g -1
+                    yield before + loop + after, v, (0, pos, 0, loop, g), g, -1, ds + fw[g] + ex
+                elif low is not None and ds + fw[g] + ex < low[0]:
+                    low[0] = ds + fw[g] + ex
             if self.spikes:
                 nl = ds + 2 * self.dlen[c] + ex
                 if nl < cap:
                     yield before + (c, c ^ 1) + after, v, (1, pos, c, (), -1), -1, 0, nl
+                elif low is not None and nl < low[0]:
+                    low[0] = nl
 
     def _moves_closed(self, key: tuple, ds: Any, cap: Any) -> Iterator[tuple]:
         if self.is_point(key):
@@ -410,11 +422,11 @@ class WalkSpace:
             # insertions before position i
             yield from self._insertions(tl[d], i, W[:i], W[i:], ds, cap)
 
-    def _moves_open(self, key: tuple, ds: Any, cap: Any) -> Iterator[tuple]:
+    def _moves_open(self, key: tuple, ds: Any, cap: Any, low: list | None = None) -> Iterator[tuple]:
         ex = self._extra(False)
         if self.is_point(key):
             v = -1 - key[0]
-            yield from self._insertions(v, 0, (), (), 0, cap)
+            yield from self._insertions(v, 0, (), (), 0, cap, low)
             return
         W = key
         L = len(W)
@@ -443,13 +455,17 @@ class WalkSpace:
                     if nl < cap:
                         q = RCf[m - o : 2 * m - o - k]
                         yield W[:i] + q + W[i + k :], tl[d], (0, i, k, q, f), f, sign, nl
+                    elif low is not None and nl < low[0]:
+                        low[0] = nl
                     k += 1
             if self.spikes and i + 1 < L and W[i + 1] == d ^ 1:
                 nl = ds - 2 * dl[d] + ex
                 if nl < cap:
                     yield W[:i] + W[i + 2 :], tl[d], (2, i, 0, (), -1), -1, 0, nl
-            yield from self._insertions(tl[d], i, W[:i], W[i:], ds, cap)
-        yield from self._insertions(self.head[W[-1]], L, W, (), ds, cap)
+                elif low is not None and nl < low[0]:
+                    low[0] = nl
+            yield from self._insertions(tl[d], i, W[:i], W[i:], ds, cap, low)
+        yield from self._insertions(self.head[W[-1]], L, W, (), ds, cap, low)
 
     # ------------------------------------------------------ applying moves
     def apply(self, darts: tuple, vertex: int, move: dict) -> tuple[tuple, int]:

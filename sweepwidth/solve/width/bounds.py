@@ -43,7 +43,9 @@ from __future__ import annotations
 import heapq
 from typing import Any
 
-__all__ = ["distances_from", "frechet_bound", "leash_distances", "multi_source_distances", "odd_faces", "passage_bound"]
+import numpy as np
+
+__all__ = ["StateBound", "distances_from", "frechet_bound", "leash_distances", "multi_source_distances", "odd_faces", "passage_bound"]
 
 
 def distances_from(W: Any, source: int) -> tuple[list[float], list[int]]:
@@ -302,32 +304,11 @@ def passage_bound(W: Any) -> tuple[float, int | None]:
     sets = odd_faces(W)
     if not sets:
         return 0.0, None
-    dA = multi_source_distances(W, W.a_vertices)
-    dB = multi_source_distances(W, W.b_vertices)
-    P = W.graph
-    cost, tail = W.cost, W.tail
-    extra = 1.0 if W.weight == "vertices" else 0.0
-    memo: dict[int, float] = {}
+    runs = _face_runs(W)
+    gv = runs.values(multi_source_distances(W, W.a_vertices), multi_source_distances(W, W.b_vertices))
 
     def g(f: int) -> float:
-        if f in memo:
-            return memo[f]
-        walk = list(P.face_darts(f))
-        n = len(walk)
-        vs = [tail[d] for d in walk]
-        c = [cost[d] for d in walk]
-        per = sum(c)
-        best = float("inf")
-        for s in range(n):
-            run = 0.0
-            for k in range(n + 1):
-                u, v = vs[s], vs[(s + k) % n]
-                big = max(run, per - run)
-                best = min(best, dA[u] + dB[v] + big, dA[v] + dB[u] + big)
-                if k < n:
-                    run += c[(s + k) % n]
-        memo[f] = best + extra
-        return memo[f]
+        return float(gv[f])
 
     out: tuple[float, int | None] | None = None
     for X in sets:
@@ -338,3 +319,202 @@ def passage_bound(W: Any) -> tuple[float, int | None]:
             out = (g(f), f)
     assert out is not None
     return out
+
+
+class _FaceRuns:
+    """Every run of every face boundary as flat arrays, for the passage values of all faces at once.
+
+    A run from ``u`` to ``v`` with ``big = max(|R|, |f| - |R|)`` is stored in
+    both directions (``dA(u) + dB(v)`` and ``dA(v) + dB(u)``); ``values``
+    takes the least ``dA + dB + big`` per face (:func:`passage_bound`).
+    Faces with more than ``RUN_LIMIT`` darts get the weaker value
+    ``min dA + min dB + |f| / 2`` over their vertices (every run has
+    ``big >= |f| / 2``), so memory stays linear; holes (never flipped) get 0.
+    """
+
+    RUN_LIMIT = 200
+
+    def __init__(self, W: Any) -> None:
+        P = W.graph
+        cost, tail = W.cost, W.tail
+        us: list[int] = []
+        vs_: list[int] = []
+        bigs: list[float] = []
+        starts: list[int] = []
+        self.large: list[tuple[int, list[int], float]] = []
+        self.holes = sorted(W.holes)
+        for f in range(P.number_of_faces()):
+            starts.append(len(us))
+            walk = list(P.face_darts(f))
+            n = len(walk)
+            vs = [tail[d] for d in walk]
+            c = [cost[d] for d in walk]
+            per = sum(c)
+            if f in W.holes or n > self.RUN_LIMIT:
+                us.append(0)
+                vs_.append(0)
+                bigs.append(0.0)
+                if f not in W.holes:
+                    self.large.append((f, sorted(set(vs)), per / 2))
+                continue
+            for s in range(n):
+                run = 0.0
+                for k in range(n + 1):
+                    u, v = vs[s], vs[(s + k) % n]
+                    big = max(run, per - run)
+                    us += (u, v)
+                    vs_ += (v, u)
+                    bigs += (big, big)
+                    if k < n:
+                        run += c[(s + k) % n]
+        self.u = np.asarray(us, dtype=np.int64)
+        self.v = np.asarray(vs_, dtype=np.int64)
+        self.big = np.asarray(bigs, dtype=float)
+        self.starts = np.asarray(starts, dtype=np.int64)
+        self.extra = 1.0 if W.weight == "vertices" else 0.0
+
+    def values(self, dA: Any, dB: Any) -> Any:
+        """``g(f)`` of every face (numpy array) for the distance lists ``dA`` and ``dB``."""
+        a = np.asarray(dA, dtype=float)
+        b = np.asarray(dB, dtype=float)
+        g = np.minimum.reduceat(a[self.u] + b[self.v] + self.big, self.starts) + self.extra
+        for f, verts, half in self.large:
+            g[f] = a[verts].min() + b[verts].min() + half + self.extra
+        if self.holes:
+            g[self.holes] = 0.0
+        return g
+
+
+def _face_runs(W: Any) -> _FaceRuns:
+    cached = getattr(W, "_runs_cache", None)
+    if cached is None:
+        cached = _FaceRuns(W)
+        try:
+            object.__setattr__(W, "_runs_cache", cached)
+        except (AttributeError, TypeError):
+            pass
+    return cached
+
+
+class StateBound:
+    """A lower bound on the rest of a leash sweep from a state, for the exact search's keys.
+
+    Statement.  Let the sweep be at ``(i, j, L)`` having flipped the face set
+    ``M`` an odd number of times so far.  Write ``A_i`` for the vertices
+    ``a_i..a_p`` and ``B_j`` for ``b_j..b_q`` (forward steps only; with
+    backward steps all of A and B), and ``g_ij(f)`` for the face-passage value
+    of :func:`passage_bound` with ``dA``, ``dB`` the distances to ``A_i``
+    and ``B_j``.  Then every continuation to the end state has width at
+    least
+
+        ``h(i, j, M) = max(D_ij, min over the odd sets X of max over f in X xor M of g_ij(f))``
+
+    with ``D_ij`` the geodesic Fréchet value of the suffix pairs (the
+    recurrence of :func:`frechet_bound` run backwards from ``(p, q)``; the
+    grid bottleneck with backward steps).
+
+    Proof.  The faces the continuation flips an odd number of times form a
+    set Y with ``M xor Y`` one of the odd sets of the whole sweep
+    (:func:`odd_faces`: the mod-2 class of ``ell`` depends only on the state,
+    and each flip adds one face boundary), so ``Y = X xor M`` for some X.
+    Each face of Y is flipped at a later state ``(i', j', L')`` with
+    ``i' >= i`` and ``j' >= j`` when steps only go forward, so the proof of
+    :func:`passage_bound` applies with ``dA``, ``dB`` measured to ``A_i`` and
+    ``B_j``.  The later index pairs form a lattice path from ``(i, j)`` to
+    ``(p, q)`` (any grid path with backward steps), and every leash is at
+    least as long as the distance between its ends: ``D_ij``.  QED.
+
+    The bound depends on ``(i, j, M)`` only; values are cached.  Because a
+    flip can add a face back to the odd rest, ``h`` may rise along a move:
+    the search (:func:`.exact.search_width`) uses it as an admissible key,
+    for which the first end state settled is still optimal in bottleneck
+    form (every settled key is at most the optimum).
+    """
+
+    def __init__(self, W: Any, D: list[list[float]] | None = None) -> None:
+        self.W = W
+        self.p, self.q = W.p, W.q
+        sets = odd_faces(W)
+        self.sets = [] if not sets else [sum(1 << f for f in X) for X in sets]
+        self.runs = _face_runs(W)
+        if D is None:
+            D = leash_distances(W)
+        self.suffix = _suffix_frechet(D, self.p, self.q, W.backward)
+        self._dA: dict[int, Any] = {}
+        self._dB: dict[int, Any] = {}
+        self._order: dict[tuple[int, int], list[tuple[float, int]]] = {}
+        self._cache: dict[tuple[int, int, int], float] = {}
+
+    def _dist(self, side: str, k: int) -> Any:
+        memo = self._dA if side == "a" else self._dB
+        key = 0 if self.W.backward else k
+        if key not in memo:
+            verts = self.W.a_vertices if side == "a" else self.W.b_vertices
+            memo[key] = multi_source_distances(self.W, verts[key:])
+        return memo[key]
+
+    def _faces(self, i: int, j: int) -> list[tuple[float, int]]:
+        got = self._order.get((i, j))
+        if got is None:
+            g = self.runs.values(self._dist("a", i), self._dist("b", j))
+            idx = np.argsort(-g, kind="stable")
+            got = [(float(g[f]), 1 << int(f)) for f in idx]
+            self._order[(i, j)] = got
+        return got
+
+    def __call__(self, i: int, j: int, mask: int) -> float:
+        """``h(i, j, mask)`` (see the class docstring); ``inf`` when no odd set is left."""
+        key = (i, j, mask)
+        v = self._cache.get(key)
+        if v is not None:
+            return v
+        if not self.sets:
+            v = float("inf")
+        else:
+            faces = self._faces(i, j)
+            v = float("inf")
+            for X in self.sets:
+                rest = X ^ mask
+                here = 0.0
+                if rest:
+                    for g, bit in faces:
+                        if rest & bit:
+                            here = g
+                            break
+                v = min(v, here)
+            v = max(v, self.suffix[i][j])
+        self._cache[key] = v
+        return v
+
+
+def _suffix_frechet(D: list[list[float]], p: int, q: int, backward: bool) -> list[list[float]]:
+    """``S[i][j]``: the least over index paths from ``(i, j)`` to ``(p, q)`` of the largest ``D`` on them."""
+    if not backward:
+        S = [[0.0] * (q + 1) for _ in range(p + 1)]
+        for i in range(p, -1, -1):
+            for j in range(q, -1, -1):
+                if i == p and j == q:
+                    best = 0.0
+                elif i == p:
+                    best = S[i][j + 1]
+                elif j == q:
+                    best = S[i + 1][j]
+                else:
+                    best = min(S[i + 1][j], S[i][j + 1])
+                S[i][j] = max(D[i][j], best)
+        return S
+    inf = float("inf")
+    S = [[inf] * (q + 1) for _ in range(p + 1)]
+    S[p][q] = D[p][q]
+    heap = [(D[p][q], p, q)]
+    while heap:
+        f, i, j = heapq.heappop(heap)
+        if f > S[i][j]:
+            continue
+        for x, y in ((i + 1, j), (i - 1, j), (i, j + 1), (i, j - 1)):
+            if 0 <= x <= p and 0 <= y <= q:
+                g = max(f, D[x][y])
+                if g < S[x][y]:
+                    S[x][y] = g
+                    heapq.heappush(heap, (g, x, y))
+    return S

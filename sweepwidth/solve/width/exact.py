@@ -15,6 +15,16 @@ its key is the homotopy width.
 
 * Keys are clamped at a proven lower bound ``B`` (the Fréchet bound of
   :mod:`.bounds`): the clamped optimum is ``max(OPT, B) = OPT``.
+* Keys also carry a bound on the rest of the sweep
+  (:class:`.bounds.StateBound`: the face-passage bound of the faces still
+  to be flipped an odd number of times, measured from the remaining parts
+  of A and B, and the suffix Fréchet value).  The rest bound is admissible
+  but can rise along a move (a face flipped the wrong way must come back);
+  for bottleneck keys that is enough: while the end state is unsettled some
+  state of an optimal sequence waits with key at most the optimum, so
+  every settled key is a lower bound and the first end state settled is
+  optimal.  A state whose rest bound reaches the known upper bound is never
+  stored.
 * Within one key, states with larger ``i + j`` come first (closer to the
   end), then shorter leashes: a greedy descent inside the optimal level.
 * With a known sweep of width ``U`` only leashes shorter than ``U`` are
@@ -56,14 +66,17 @@ from __future__ import annotations
 import heapq
 import itertools
 import time
+from math import nextafter
 from dataclasses import dataclass, field
 from typing import Any, Callable
 
 from ...errors import ProblemTooLargeError
 from ..homotopy.walks import WalkSpace
+from .bounds import StateBound
 
 __all__ = ["DEFAULT_MAX_MEMORY", "WidthSearchOutcome", "memory_estimate", "search_width", "walk_space"]
 
+INF = float("inf")
 #: default memory budget of the exact search (bytes)
 DEFAULT_MAX_MEMORY = 1 << 30
 #: fixed cost of one stored state (bytes, measured order of magnitude)
@@ -138,6 +151,7 @@ def search_width(
     max_memory: int = DEFAULT_MAX_MEMORY,
     on_progress: Callable[[float, float | None], None] | None = None,
     allow_reflip: bool = True,
+    use_rest: bool = True,
 ) -> WidthSearchOutcome:
     """Bottleneck search for the homotopy width of a :class:`~sweepwidth.problems.width.WidthProblem`.
 
@@ -158,6 +172,10 @@ def search_width(
     allow_reflip : bool
         False: research restriction, every face is flipped at most once
         (the set of flipped faces joins the state).
+    use_rest : bool
+        Key states by ``max(width so far, bound on the rest)`` with
+        :class:`.bounds.StateBound` (default); False keys by the width so
+        far alone (plain bottleneck Dijkstra, kept as a cross-check).
 
     Returns
     -------
@@ -209,7 +227,15 @@ def search_width(
     parent: dict = {start: None}
     done: set = set()
     counter = itertools.count()
-    heap: list = [(f0, -0, length(start[2]), 0, start)]
+    rest = StateBound(W) if use_rest else None
+    k0 = f0 if rest is None else max(f0, rest(0, 0, 0))
+    if rest is not None and k0 == float("inf"):
+        stats.update(states=0, generated=0, stored=1, seconds=time.monotonic() - t0,
+                     reason="no end state is reachable (no set of faces to flip joins the start and end leashes)",
+                     infeasible=True)
+        return WidthSearchOutcome(float("inf"), None, None, False, stats)
+    # entries: (key, -(i + j), leash length, tie, state, bottleneck so far, faces flipped an odd number of times)
+    heap: list = [(k0, -0, length(start[2]), 0, start, f0, 0)]
     cap = upper
     level = f0
     settled = generated = 0
@@ -222,20 +248,19 @@ def search_width(
         if not heap:
             exhausted = True
             break
-        f, _, _, _, state = heapq.heappop(heap)
+        key0, _, _, _, state, f, odd = heapq.heappop(heap)
         if state in done or best.get(state, f) < f:
             continue
-        if f > level:
-            level = f
+        if key0 > level:
+            level = key0
             if on_progress is not None:
                 on_progress(level, cap)
         if state[:3] == goal:
             found = (f, state)
             break
-        if cap is not None and f >= cap:
+        if cap is not None and key0 >= cap:
             exhausted = True
             break
-        done.add(state)
         settled += 1
         if (settled & 15) == 0:
             if deadline is not None and time.monotonic() > deadline:
@@ -245,6 +270,7 @@ def search_width(
                 reason = f"state limit {max_states} (from max_memory={max_memory}) reached"
                 break
         i, j, L = state[0], state[1], state[2]
+        here = 0.0 if rest is None else rest(i, j, odd)
         mask = 0 if allow_reflip else state[3]
         succ: list = []
         # endpoint steps
@@ -263,14 +289,29 @@ def search_width(
                 ni, nj = i, to
             succ.append((ni, nj, new, {"op": "step", "walk": walk, "to": to}, -1, length(new)))
         key = L if L else sp.point(av[i])
-        for new, _v, move, face, _sign, nl in sp.moves(key, cap):
+        # partial expansion: only leashes no longer than the current key are built now; the least
+        # length of the others (a lower bound on their keys) decides when this state comes back
+        low = [INF]
+        gen_cap = nextafter(key0, INF) if cap is None else min(cap, nextafter(key0, INF))
+        for new, _v, move, face, _sign, nl in sp.moves(key, gen_cap, low):
             if face >= 0 and not allow_reflip and (mask >> face) & 1:
                 continue
             succ.append((i, j, tuple(new), move, face, nl))
+        later = low[0] if (cap is None or low[0] < cap) else INF
         for ni, nj, new, move, face, nl in succ:
             generated += 1
             f2 = max(f, nl)
             if cap is not None and f2 >= cap:
+                continue
+            if face >= 0:
+                odd2 = odd ^ (1 << face)
+                k2 = f2 if rest is None else max(f2, rest(ni, nj, odd2))
+            else:
+                odd2 = odd
+                # spikes keep (i, j, odd): the popped state's rest bound holds
+                k2 = max(f2, here) if (ni == i and nj == j) else (
+                    f2 if rest is None else max(f2, rest(ni, nj, odd2)))
+            if k2 == INF or (cap is not None and k2 >= cap):
                 continue
             if simple and new and not W.is_simple(new):
                 continue
@@ -283,6 +324,11 @@ def search_width(
             old = best.get(ns)
             if old is not None and old <= f2:
                 continue
+            if k2 > key0 and ns[:3] != goal:
+                # partial expansion: kept for when the search reaches its key
+                if k2 < later:
+                    later = k2
+                continue
             best[ns] = f2
             parent[ns] = (state, move)
             if ns[:3] == goal:
@@ -290,10 +336,14 @@ def search_width(
                     cap = f2
                     if on_progress is not None:
                         on_progress(level, cap)
-                if f2 <= f:
+                if f2 <= key0:
                     found = (f2, ns)
                     break
-            heapq.heappush(heap, (f2, -(ni + nj), nl, next(counter), ns))
+            heapq.heappush(heap, (k2, -(ni + nj), nl, next(counter), ns, f2, odd2))
+        if later == INF:
+            done.add(state)
+        elif found is None:
+            heapq.heappush(heap, (later, -(i + j), len(L), next(counter), state, f, odd))
     stats.update(states=settled, generated=generated, stored=len(best), seconds=time.monotonic() - t0)
 
     def witness_of(state: Any) -> dict:
