@@ -9,6 +9,11 @@ faces, width, seconds of ours and of the reference, the ratio, and whether
 the values agree and the witness replays.  Larger disks (up to 40 faces)
 are solved by ours alone with a 10 s limit.
 
+Part 1b (goal): every disk of 30-42 faces among the seeds, of two families
+(``disk``: weights 1-3, A and B short arcs; ``heavy_disk``: weights 1-10, arcs
+of a third of the boundary each), solved by 'auto' and by 'search' with a
+10 s limit; the count proven and the median seconds.
+
 Part 2 (bounds): disks of about 500 faces (``disk(270, seed)``);
 ``method='bounds'`` with a 60 s limit (``--time-limit``), the code before the
 split sweeps (commit ``d57dc19``, exported with ``git archive`` into a
@@ -101,6 +106,44 @@ def exact_rows(full: bool) -> None:
               f"{s:.2f} s states={r.stats.get('search', {}).get('states')} replay={r.check(P) == r.upper}", flush=True)
 
 
+def heavy_disk(points: int, seed: int):
+    """Delaunay disk, every edge weight uniform in 1..10, A and B boundary arcs of a third each."""
+    rng = random.Random(seed)
+    P = generators.delaunay(points, seed=seed)
+    P = P.with_weights([rng.randint(1, 10) for _ in range(P.number_of_edges())])
+    cyc = [P.tail(d) for d in P.face_darts(P.outer_face)]
+    k = len(cyc)
+    p = q = max(1, k // 3)
+    s = p + 1 + (k - p - q - 2) // 2
+    return P, {"vertices": cyc[: p + 1]}, {"vertices": cyc[s: s + q + 1][::-1]}
+
+
+def goal_rows(full: bool) -> None:
+    """Every disk of both families with 30-42 faces among the seeds: proven within 10 s by 'auto' and 'search'?"""
+    print("disks of 30-42 faces, 10 s limit: 'auto' and 'search'")
+    print(f"{'instance':>16} {'faces':>5} | {'auto':>16} {'s':>6} | {'search':>16} {'s':>6}")
+    seeds = range(8 if full else 4)
+    tally: dict = {"auto": [], "search": []}
+    for fam, make in (("light", disk), ("heavy", heavy_disk)):
+        for n in (20, 24, 26):
+            for seed in seeds:
+                P, a, b = make(n, seed)
+                faces = P.number_of_faces() - 1
+                if not 30 <= faces <= 42:
+                    continue
+                cells = []
+                for m in ("auto", "search"):
+                    t = time.perf_counter()
+                    r = sw.homotopy_width(P, a, b, method=m, time_limit=10)
+                    dt = time.perf_counter() - t
+                    assert r.upper is None or r.check(P) == r.upper
+                    tally[m].append((r.status == "optimal", dt))
+                    cells.append(f"{r.status[:7]:>7} [{r.lower:g}, {r.upper:g}]".rjust(16) + f" {dt:>6.2f}")
+                print(f"{f'{fam}-{n}-{seed}':>16} {faces:>5} | {cells[0]} | {cells[1]}", flush=True)
+    for m, rows in tally.items():
+        print(f"{m}: proven {sum(ok for ok, _ in rows)} of {len(rows)}, median {statistics.median(dt for _, dt in rows):.2f} s")
+
+
 BASELINE_COMMIT = "d57dc19"  # the constructions before the split sweeps
 
 # the child: builds disk(points, seed) with this file's disk() and runs method='bounds' on it
@@ -191,13 +234,15 @@ def bound_rows(full: bool, limit: float, seeds: list[int], points: list[int]) ->
 def main() -> None:
     ap = argparse.ArgumentParser(description=__doc__.splitlines()[0])
     ap.add_argument("--full", action="store_true")
-    ap.add_argument("--part", choices=("exact", "bounds", "all"), default="all")
+    ap.add_argument("--part", choices=("exact", "goal", "bounds", "all"), default="all")
     ap.add_argument("--time-limit", type=float, default=60.0, help="seconds per bounds call (default 60)")
     ap.add_argument("--seeds", default=None, help="comma-separated disk seeds (default 1 quick, 1,2,3 full)")
     ap.add_argument("--points", default=None, help="comma-separated disk sizes in points (default 270)")
     args = ap.parse_args()
     if args.part in ("exact", "all"):
         exact_rows(args.full)
+    if args.part in ("goal", "all"):
+        goal_rows(args.full)
     if args.part in ("bounds", "all"):
         seeds = [int(x) for x in args.seeds.split(",")] if args.seeds else ([1, 2, 3] if args.full else [1])
         points = [int(x) for x in args.points.split(",")] if args.points else [270]

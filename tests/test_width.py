@@ -447,3 +447,20 @@ def test_partial_expansion_stores_few_states_regression():
     out = search_width(W, lower=frechet_bound(W)[0], deadline=time.monotonic() + 60)
     assert out.optimal and out.upper == 11.0  # the value the unkeyed search proves (plain keys, no cap)
     assert out.stats["stored"] < 20 * out.stats["states"]
+
+
+@given(boundary_instances(max_faces=7), st.booleans())
+@settings(max_examples=25, deadline=None)
+def test_walk_space_grow_is_the_cheapest_insertion(inst, spikes):
+    # the per-vertex skip of insertions in the walk space: grow[v] is the least length an insertion
+    # at v adds, checked against every move from the point at v (moves from a point are insertions)
+    from sweepwidth.solve.width.exact import walk_space
+
+    P, a, b = inst
+    W = WidthProblem.build(P, a, b, spikes=spikes)
+    sp = walk_space(W)
+    for v in range(sp.n):
+        lengths = [nl for *_, nl in sp.moves(sp.point(v))]
+        assert (min(lengths) if lengths else float("inf")) == sp.grow[v]
+        low = [float("inf")]
+        assert list(sp.moves(sp.point(v), cap=0.0, low=low)) == [] and low[0] == sp.grow[v]

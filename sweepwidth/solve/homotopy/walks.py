@@ -141,6 +141,8 @@ class WalkSpace:
     tree: list = field(default_factory=list)
     outer: int = 0
     labels: list = field(default_factory=list)
+    #: per vertex: the least length an insertion there adds (a face loop or a spike; inf if none)
+    grow: list = field(default_factory=list)
 
     # ----------------------------------------------------------- building
     @classmethod
@@ -214,11 +216,21 @@ class WalkSpace:
                     # w(g) - w(h) = n(d)  ->  w(h) = w(g) - n(d)
                     tree.append((h, g, d))
                     stack.append(h)
+        grow = []
+        for v in range(n):
+            g = float("inf")
+            for c in out[v]:
+                for f in (face[c], face[c ^ 1]):
+                    if not hole[f] and fweight[f] < g:
+                        g = fweight[f]
+                if spikes and 2 * dlen[c] < g:
+                    g = 2 * dlen[c]
+            grow.append(g)
         return cls(
             n=n, tail=tail, head=head, dlen=dlen, face=face, idx=idx, ridx=ridx, CC=CC, RCC=RCC,
             flen=flen, out=out, hole=hole, closed=closed, spikes=spikes, simple=simple,
             monotone=monotone, mode=length, integral=integral, fweight=fweight, tree=tree, outer=outer,
-            labels=list(P.vertices),
+            labels=list(P.vertices), grow=grow,
         )
 
     # -------------------------------------------------------- basic facts
@@ -424,6 +436,7 @@ class WalkSpace:
 
     def _moves_open(self, key: tuple, ds: Any, cap: Any, low: list | None = None) -> Iterator[tuple]:
         ex = self._extra(False)
+        grow = self.grow
         if self.is_point(key):
             v = -1 - key[0]
             yield from self._insertions(v, 0, (), (), 0, cap, low)
@@ -464,8 +477,17 @@ class WalkSpace:
                     yield W[:i] + W[i + 2 :], tl[d], (2, i, 0, (), -1), -1, 0, nl
                 elif low is not None and nl < low[0]:
                     low[0] = nl
-            yield from self._insertions(tl[d], i, W[:i], W[i:], ds, cap, low)
-        yield from self._insertions(self.head[W[-1]], L, W, (), ds, cap, low)
+            # insertions at the tail of d: skipped at once when even the cheapest is too long
+            nl = ds + grow[tl[d]] + ex
+            if nl < cap:
+                yield from self._insertions(tl[d], i, W[:i], W[i:], ds, cap, low)
+            elif low is not None and nl < low[0]:
+                low[0] = nl
+        nl = ds + grow[self.head[W[-1]]] + ex
+        if nl < cap:
+            yield from self._insertions(self.head[W[-1]], L, W, (), ds, cap, low)
+        elif low is not None and nl < low[0]:
+            low[0] = nl
 
     # ------------------------------------------------------ applying moves
     def apply(self, darts: tuple, vertex: int, move: dict) -> tuple[tuple, int]:
