@@ -431,6 +431,10 @@ class StateBound:
     form (every settled key is at most the optimum).
     """
 
+    #: cached values of ``h`` and per-index-pair face orders kept at most (cleared when full)
+    CACHE_ENTRIES = 1 << 20
+    ORDER_ENTRIES = 1 << 22
+
     def __init__(self, W: Any, D: list[list[float]] | None = None) -> None:
         self.W = W
         self.p, self.q = W.p, W.q
@@ -457,6 +461,8 @@ class StateBound:
         got = self._order.get((i, j))
         if got is None:
             g = self.runs.values(self._dist("a", i), self._dist("b", j))
+            if (len(self._order) + 1) * len(g) > self.ORDER_ENTRIES:
+                self._order.clear()  # bounded memory: recomputed when needed again
             idx = np.argsort(-g, kind="stable")
             got = [(float(g[f]), 1 << int(f)) for f in idx]
             self._order[(i, j)] = got
@@ -483,6 +489,8 @@ class StateBound:
                             break
                 v = min(v, here)
             v = max(v, self.suffix[i][j])
+        if len(self._cache) >= self.CACHE_ENTRIES:
+            self._cache.clear()
         self._cache[key] = v
         return v
 

@@ -29,6 +29,12 @@ its key is the homotopy width.
   end), then shorter leashes: a greedy descent inside the optimal level.
 * With a known sweep of width ``U`` only leashes shorter than ``U`` are
   generated; reaching key ``U`` proves that sweep optimal.
+* Partial expansion (after Yoshizumi, Miura and Ishida [2]_): a state's
+  successors with a key above its own are neither built nor stored; the
+  state goes back on the heap with the least such key (a lower bound from
+  the lengths the walk space skipped) and is expanded again there.  The
+  settled order is that of the full search; the stored states are a small
+  fraction (most successors of a level are never reached before the end).
 * Leashes are exact dart tuples (their ends are fixed by ``(i, j)``), so no
   canonical form is needed.  Flips, spikes and unspikes come from the walk
   machinery of the height search; endpoint steps are generated here.
@@ -50,8 +56,9 @@ face) and each stored state at about ``STATE_BYTES + 8 * darts`` bytes (the
 tuple, two dictionary entries and a heap entry) for the longest leash below
 the upper bound.  The state limit is what ``max_memory`` holds after the
 tables; the search stops with its bounds when it is reached
-(``stats['reason']``), and raises :class:`ProblemTooLargeError` up front when
-``max_memory`` cannot hold the tables and one state per index pair.  The
+(``stats['reason']``); the rest bound's caches are capped on their own
+(:attr:`.bounds.StateBound.CACHE_ENTRIES`, ``ORDER_ENTRIES``); and it
+raises :class:`ProblemTooLargeError` up front when ``max_memory`` cannot hold the tables and one state per index pair.  The
 dispatcher's 'auto' method then keeps its bounds and witness instead
 (``stats['search']['reason']``); 'search' asked for by name raises.
 
@@ -59,6 +66,8 @@ References
 ----------
 .. [1] E. W. Dijkstra, "A note on two problems in connexion with graphs",
    Numerische Mathematik 1 (1959), with the bottleneck (minimax) path cost.
+.. [2] T. Yoshizumi, T. Miura and T. Ishida, "A* with partial expansion for
+   large branching factor problems", AAAI 2000.
 """
 
 from __future__ import annotations
