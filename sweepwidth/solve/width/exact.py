@@ -59,8 +59,9 @@ tables; the search stops with its bounds when it is reached
 (``stats['reason']``); the rest bound's caches are capped on their own
 (:attr:`.bounds.StateBound.CACHE_ENTRIES`, ``ORDER_ENTRIES``); and it
 raises :class:`ProblemTooLargeError` up front when ``max_memory`` cannot
-hold the tables and one state per index pair.  The dispatcher's 'auto' method then keeps its bounds and witness instead
-(``stats['search']['reason']``); 'search' asked for by name raises.
+hold the tables and one state per index pair.  The dispatcher's 'auto'
+method then keeps its bounds and witness instead (``stats['search']['reason']``);
+'search' asked for by name raises.
 
 References
 ----------
