@@ -103,7 +103,11 @@ def test_improvement_never_widens_and_replays(inst, weight):
     assert opt - 1e-9 <= w <= before + 1e-9
     assert len(frames2) == len(segs2) + 1
     if stats["narrowed"]:
-        assert w < before
+        # each narrowing replaces a window around a widest crossing by a narrower sweep, so the
+        # width drops or (several crossings were widest, some could not be narrowed) fewer are widest
+        # (regression: grid-piece-2-2, A = [(0, 2)], B = [(2, 0)] stayed at 5 with one of two narrowed)
+        widest = sum(1 for h, _ in segs if h >= before - 1e-9)
+        assert w < before - 1e-9 or sum(1 for h, _ in segs2 if h >= before - 1e-9) < widest
 
 
 @settings(max_examples=40, deadline=None, suppress_health_check=[HealthCheck.too_slow])
