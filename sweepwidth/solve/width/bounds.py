@@ -389,10 +389,7 @@ def _face_runs(W: Any) -> _FaceRuns:
     cached = getattr(W, "_runs_cache", None)
     if cached is None:
         cached = _FaceRuns(W)
-        try:
-            object.__setattr__(W, "_runs_cache", cached)
-        except (AttributeError, TypeError):
-            pass
+        object.__setattr__(W, "_runs_cache", cached)
     return cached
 
 

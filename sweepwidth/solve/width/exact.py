@@ -239,11 +239,11 @@ def search_width(
     counter = itertools.count()
     rest = StateBound(W) if use_rest else None
     k0 = f0 if rest is None else max(f0, rest(0, 0, 0))
-    if rest is not None and k0 == float("inf"):
+    if k0 == INF:
         stats.update(states=0, generated=0, stored=1, seconds=time.monotonic() - t0,
                      reason="no end state is reachable (no set of faces to flip joins the start and end leashes)",
                      infeasible=True)
-        return WidthSearchOutcome(float("inf"), None, None, False, stats)
+        return WidthSearchOutcome(INF, None, None, False, stats)
     # entries: (key, -(i + j), leash length, tie, state, bottleneck so far, faces flipped an odd number of times)
     heap: list = [(k0, -0, length(start[2]), 0, start, f0, 0)]
     cap = upper
@@ -302,7 +302,7 @@ def search_width(
         # partial expansion: only leashes no longer than the current key are built now; the least
         # length of the others (a lower bound on their keys) decides when this state comes back
         low = [INF]
-        gen_cap = nextafter(key0, INF) if cap is None else min(cap, nextafter(key0, INF))
+        gen_cap = min(INF if cap is None else cap, nextafter(key0, INF))
         for new, _v, move, face, _sign, nl in sp.moves(key, gen_cap, low):
             if face >= 0 and not allow_reflip and (mask >> face) & 1:
                 continue
